@@ -1,0 +1,199 @@
+//! The command line: a thin face on the library. Every failure becomes one line on
+//! stderr that names the file and the place in it, and exit status 2.
+
+use crate::atomic::write_atomic;
+use crate::coast::{CoastError, Segment, read_coast_geojson};
+use crate::export::{IndexFormat, index_records, write_index};
+use crate::physics::DragChoice;
+use crate::upwelling::{IndexSettings, UpwellingError, index_series};
+use crate::wind::{WindError, assign_wind, load_sources};
+use clap::{Parser, Subcommand, ValueEnum};
+use std::io::Write;
+use std::path::{Path, PathBuf};
+
+/// Shelfwind: wind forecast → coastal upwelling → where to fish in the coming days.
+///
+/// Not a navigation aid and no substitute for official marine forecasts and warnings;
+/// the skipper decides.
+#[derive(Debug, Parser)]
+#[command(name = "shelfwind", version, about, long_about = None)]
+pub struct Cli {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: Option<Command>,
+}
+
+/// The subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Coastal upwelling index per coast segment and forecast time.
+    Index(IndexArgs),
+}
+
+/// Output format of `index`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum IndexFormatArg {
+    /// CSV with a header line.
+    Csv,
+    /// JSON array of records.
+    Json,
+}
+
+/// Arguments of `shelfwind index`.
+#[derive(Debug, clap::Args)]
+pub struct IndexArgs {
+    /// Coast: a GeoJSON FeatureCollection of LineStrings with properties `id` and `sea`.
+    #[arg(long, value_name = "COAST")]
+    pub coast: PathBuf,
+    /// Wind file, GRIB2 or CSV; repeat for several (each segment takes the first that covers it).
+    #[arg(long, value_name = "WIND", required = true)]
+    pub wind: Vec<PathBuf>,
+    /// Drag law: constant:0.0013, large-pond-1981, trenberth-1990 or large-yeager-2009.
+    #[arg(long, default_value = "constant:0.0013")]
+    pub drag: DragChoice,
+    /// Air density, kg/m^3.
+    #[arg(long, default_value_t = crate::physics::RHO_AIR_KG_M3, value_parser = parse_rho_air)]
+    pub rho_air: f64,
+    /// Sea-water density, kg/m^3.
+    #[arg(long, default_value_t = crate::physics::RHO_WATER_KG_M3, value_parser = parse_rho_water)]
+    pub rho_water: f64,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = IndexFormatArg::Csv)]
+    pub format: IndexFormatArg,
+    /// Output file (written whole or not at all); standard output when absent.
+    #[arg(long, value_name = "FILE")]
+    pub out: Option<PathBuf>,
+}
+
+fn parse_density(s: &str, lo: f64, hi: f64, what: &str) -> Result<f64, String> {
+    let x: f64 = s
+        .parse()
+        .map_err(|_| format!("{what} {s:?} is not a number"))?;
+    if x.is_finite() && (lo..=hi).contains(&x) {
+        Ok(x)
+    } else {
+        Err(format!(
+            "{what} {s} kg/m^3 is out of range: expected {lo} to {hi}"
+        ))
+    }
+}
+
+fn parse_rho_air(s: &str) -> Result<f64, String> {
+    parse_density(s, 0.5, 2.0, "air density")
+}
+
+fn parse_rho_water(s: &str) -> Result<f64, String> {
+    parse_density(s, 950.0, 1100.0, "sea-water density")
+}
+
+/// Everything that can stop a command.
+#[derive(Debug, thiserror::Error)]
+pub enum CliError {
+    /// The coast file could not be read.
+    #[error("cannot read coast file: {source}: {}", path.display())]
+    CoastIo {
+        /// The file.
+        path: PathBuf,
+        /// The I/O error.
+        source: std::io::Error,
+    },
+    /// The coast file is bad.
+    #[error("bad coast file: {source}: {}", path.display())]
+    Coast {
+        /// The file.
+        path: PathBuf,
+        /// What is wrong.
+        source: CoastError,
+    },
+    /// Wind files.
+    #[error(transparent)]
+    Wind(#[from] WindError),
+    /// The index cannot be computed.
+    #[error(transparent)]
+    Upwelling(#[from] UpwellingError),
+    /// The output could not be written.
+    #[error("cannot write output: {source}: {}", path.display())]
+    Output {
+        /// The file.
+        path: PathBuf,
+        /// The I/O error.
+        source: std::io::Error,
+    },
+}
+
+/// Reads a coast file.
+pub fn read_coast(path: &Path) -> Result<Vec<Segment>, CliError> {
+    let text = std::fs::read(path).map_err(|source| CliError::CoastIo {
+        path: path.into(),
+        source,
+    })?;
+    let text = String::from_utf8(text).map_err(|_| CliError::Coast {
+        path: path.into(),
+        source: CoastError::NotFeatureCollection {
+            found: "a file that is not UTF-8 text".into(),
+        },
+    })?;
+    read_coast_geojson(&text).map_err(|source| CliError::Coast {
+        path: path.into(),
+        source,
+    })
+}
+
+/// `shelfwind index`: the table of upwelling index values.
+pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
+    let segments = read_coast(&args.coast)?;
+    let sources = load_sources(&args.wind)?;
+    let winds = assign_wind(&sources, &segments)?;
+    let settings = IndexSettings {
+        drag: args.drag,
+        rho_air_kg_m3: args.rho_air,
+        rho_water_kg_m3: args.rho_water,
+    };
+    let series = segments
+        .iter()
+        .zip(&winds)
+        .map(|(s, w)| index_series(s, w, &settings))
+        .collect::<Result<Vec<_>, _>>()?;
+    let near: Vec<&str> = series
+        .iter()
+        .filter(|s| s.near_equator)
+        .map(|s| s.segment_id.as_str())
+        .collect();
+    if !near.is_empty() {
+        eprintln!(
+            "shelfwind: warning: segment(s) {} lie within 10° of the equator, where the Ekman index grows large and is unreliable (flagged near-equator)",
+            near.join(", ")
+        );
+    }
+    let format = match args.format {
+        IndexFormatArg::Csv => IndexFormat::Csv,
+        IndexFormatArg::Json => IndexFormat::Json,
+    };
+    let out_path = args.out.clone().unwrap_or_else(|| PathBuf::from("-"));
+    let bytes =
+        write_index(&index_records(&series), format).map_err(|source| CliError::Output {
+            path: out_path.clone(),
+            source,
+        })?;
+    write_output(args.out.as_deref(), &bytes)
+}
+
+/// Writes to a file atomically, or to standard output.
+fn write_output(out: Option<&Path>, bytes: &[u8]) -> Result<(), CliError> {
+    match out {
+        Some(path) => write_atomic(path, bytes).map_err(|source| CliError::Output {
+            path: path.into(),
+            source,
+        }),
+        None => {
+            let mut stdout = std::io::stdout().lock();
+            stdout
+                .write_all(bytes)
+                .and_then(|()| stdout.flush())
+                .map_err(|source| CliError::Output {
+                    path: PathBuf::from("standard output"),
+                    source,
+                })
+        }
+    }
+}

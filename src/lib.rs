@@ -1,0 +1,23 @@
+//! Shelfwind: a planner for small-boat fishing that turns a wind forecast into the
+//! coastal upwelling index along a user's coast, and ranks the stretches most likely to
+//! be productive in the coming days.
+//!
+//! The computing core knows nothing of any user interface. Data flows one way:
+//! files → model → estimate → plan → views.
+//!
+//! - [`physics`]: drag laws, wind stress, Coriolis, Ekman transport and pumping;
+//! - [`coast`]: coast segments and their geometry, read from GeoJSON;
+//! - [`wind`]: the wind model and its importers (GRIB2, CSV);
+//! - [`upwelling`]: the index per segment over time;
+//! - [`export`]: tables for other tools;
+//! - [`cli`]: the command line.
+//!
+//! Not a navigation aid and no substitute for official marine forecasts and warnings.
+
+pub mod atomic;
+pub mod cli;
+pub mod coast;
+pub mod export;
+pub mod physics;
+pub mod upwelling;
+pub mod wind;

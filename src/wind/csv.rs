@@ -1,0 +1,350 @@
+//! CSV point series: a station, a buoy or a point forecast.
+//!
+//! Optional `#` comment lines, then a header. Accepted header names (case does not
+//! matter; the README lists them too):
+//! - time: `time`, `time_utc`, `datetime`, `timestamp` — RFC 3339 / ISO 8601 with `Z` or
+//!   an offset (`2027-05-01T06:00:00Z`, `2027-05-01T08:00+02:00`, `2027-05-01 06:00Z`);
+//! - components in m/s: `u_ms` / `u_m_s` and `v_ms` / `v_m_s`;
+//! - or a speed with its unit in the name: `speed_ms` / `speed_m_s` / `wind_speed_ms`,
+//!   `speed_kt` / `speed_kn` / `speed_knots`, `speed_kmh` / `speed_km_h`, with the
+//!   direction the wind blows from: `direction_from_deg` / `dir_from_deg` /
+//!   `wind_from_deg`;
+//! - optional station position: `lat` / `latitude` and `lon` / `longitude`.
+
+use super::{PointSeries, WindFileError, WindSeries};
+use crate::coast::LatLon;
+use crate::physics::{Wind, km_h_to_m_s, knots_to_m_s};
+use chrono::{DateTime, NaiveDateTime, Utc};
+
+const TIME: &[&str] = &["time", "time_utc", "datetime", "timestamp"];
+const U: &[&str] = &["u_ms", "u_m_s"];
+const V: &[&str] = &["v_ms", "v_m_s"];
+const SPEED_MS: &[&str] = &["speed_ms", "speed_m_s", "wind_speed_ms"];
+const SPEED_KT: &[&str] = &["speed_kt", "speed_kn", "speed_knots"];
+const SPEED_KMH: &[&str] = &["speed_kmh", "speed_km_h"];
+const DIRECTION: &[&str] = &["direction_from_deg", "dir_from_deg", "wind_from_deg"];
+const LAT: &[&str] = &["lat", "latitude"];
+const LON: &[&str] = &["lon", "longitude"];
+
+/// How the wind is given in a file.
+enum WindColumns {
+    Components {
+        u: usize,
+        v: usize,
+    },
+    SpeedDirection {
+        speed: usize,
+        to_m_s: fn(f64) -> f64,
+        unit: &'static str,
+        direction: usize,
+    },
+}
+
+fn err(line: u64, problem: impl Into<String>) -> WindFileError {
+    WindFileError::Csv {
+        line,
+        problem: problem.into(),
+    }
+}
+
+/// Parses a time with a UTC offset; times without an offset are refused, since guessing
+/// the zone could shift a whole forecast by hours.
+fn parse_time(s: &str) -> Result<DateTime<Utc>, String> {
+    let t = s.trim();
+    let mut candidates = vec![t.to_string()];
+    if t.len() > 10 && t.as_bytes()[10] == b' ' {
+        candidates.push(format!("{}T{}", &t[..10], &t[11..]));
+    }
+    for c in &candidates {
+        if let Ok(d) = DateTime::parse_from_rfc3339(c) {
+            return Ok(d.with_timezone(&Utc));
+        }
+        let c = c
+            .strip_suffix('Z')
+            .or_else(|| c.strip_suffix('z'))
+            .map_or_else(|| c.clone(), |s| format!("{s}+00:00"));
+        for fmt in [
+            "%Y-%m-%dT%H:%M%:z",
+            "%Y-%m-%dT%H:%M:%S%:z",
+            "%Y-%m-%dT%H:%M:%S%.f%:z",
+        ] {
+            if let Ok(d) = DateTime::parse_from_str(&c, fmt) {
+                return Ok(d.with_timezone(&Utc));
+            }
+        }
+    }
+    let naive = candidates.iter().any(|c| {
+        ["%Y-%m-%dT%H:%M:%S", "%Y-%m-%dT%H:%M"]
+            .iter()
+            .any(|f| NaiveDateTime::parse_from_str(c, f).is_ok())
+    });
+    if naive {
+        Err(format!(
+            "time {t:?} has no UTC offset: add Z for UTC or an offset such as +02:00"
+        ))
+    } else {
+        Err(format!(
+            "time {t:?} is not an RFC 3339 / ISO 8601 time: expected e.g. 2027-05-01T06:00:00Z"
+        ))
+    }
+}
+
+fn find(headers: &[String], names: &[&str]) -> Option<usize> {
+    headers.iter().position(|h| names.contains(&h.as_str()))
+}
+
+fn number(
+    record: &csv::StringRecord,
+    col: usize,
+    name: &str,
+    line: u64,
+) -> Result<f64, WindFileError> {
+    let raw = record.get(col).unwrap_or("").trim();
+    let x: f64 = raw.parse().map_err(|_| {
+        err(
+            line,
+            format!("column {name}: expected a number, found {raw:?}"),
+        )
+    })?;
+    if x.is_finite() {
+        Ok(x)
+    } else {
+        Err(err(
+            line,
+            format!("column {name}: expected a finite number, found {raw:?}"),
+        ))
+    }
+}
+
+/// Reads a CSV point series from text. Times are sorted; a repeated time is an error
+/// naming both lines.
+pub fn read_csv_series(text: &str) -> Result<PointSeries, WindFileError> {
+    let mut reader = csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .trim(csv::Trim::All)
+        .flexible(false)
+        .from_reader(text.as_bytes());
+    let header_record = reader.headers().map_err(|e| csv_error(&e))?.clone();
+    let header_line = header_record.position().map_or(1, csv::Position::line);
+    let headers: Vec<String> = header_record.iter().map(str::to_ascii_lowercase).collect();
+    let time_col = find(&headers, TIME).ok_or_else(|| {
+        err(
+            header_line,
+            format!(
+                "no time column: expected one of {} in the header",
+                TIME.join(", ")
+            ),
+        )
+    })?;
+    let columns = match (find(&headers, U), find(&headers, V)) {
+        (Some(u), Some(v)) => WindColumns::Components { u, v },
+        _ => {
+            let direction = find(&headers, DIRECTION);
+            let speed = find(&headers, SPEED_MS)
+                .map(|c| (c, (|x| x) as fn(f64) -> f64, "m/s"))
+                .or_else(|| {
+                    find(&headers, SPEED_KT).map(|c| (c, knots_to_m_s as fn(f64) -> f64, "kt"))
+                })
+                .or_else(|| {
+                    find(&headers, SPEED_KMH).map(|c| (c, km_h_to_m_s as fn(f64) -> f64, "km/h"))
+                });
+            match (speed, direction) {
+                (Some((speed, to_m_s, unit)), Some(direction)) => WindColumns::SpeedDirection {
+                    speed,
+                    to_m_s,
+                    unit,
+                    direction,
+                },
+                _ => {
+                    return Err(err(
+                        header_line,
+                        "no wind columns: expected u_ms and v_ms, or a speed (speed_ms, speed_kt or speed_kmh) with direction_from_deg",
+                    ));
+                }
+            }
+        }
+    };
+    let position_cols = match (find(&headers, LAT), find(&headers, LON)) {
+        (Some(a), Some(b)) => Some((a, b)),
+        (None, None) => None,
+        _ => {
+            return Err(err(
+                header_line,
+                "a station position needs both lat and lon columns",
+            ));
+        }
+    };
+
+    let mut rows: Vec<(DateTime<Utc>, Wind, u64)> = Vec::new();
+    let mut position: Option<(LatLon, u64)> = None;
+    for result in reader.records() {
+        let record = result.map_err(|e| csv_error(&e))?;
+        let line = record.position().map_or(0, csv::Position::line);
+        let time = parse_time(record.get(time_col).unwrap_or("")).map_err(|p| err(line, p))?;
+        let wind = match columns {
+            WindColumns::Components { u, v } => Wind::new(
+                number(&record, u, &headers[u], line)?,
+                number(&record, v, &headers[v], line)?,
+            ),
+            WindColumns::SpeedDirection {
+                speed,
+                to_m_s,
+                unit,
+                direction,
+            } => {
+                let s = number(&record, speed, &headers[speed], line)?;
+                if s < 0.0 {
+                    return Err(err(
+                        line,
+                        format!("column {}: speed {s} {unit} is negative", headers[speed]),
+                    ));
+                }
+                let d = number(&record, direction, &headers[direction], line)?;
+                if !(0.0..=360.0).contains(&d) {
+                    return Err(err(
+                        line,
+                        format!(
+                            "column {}: direction {d} is out of range: expected 0 to 360 degrees",
+                            headers[direction]
+                        ),
+                    ));
+                }
+                Wind::from_speed_direction(to_m_s(s), d)
+            }
+        };
+        if let Some((lat_col, lon_col)) = position_cols {
+            let lat = number(&record, lat_col, "lat", line)?;
+            let lon = number(&record, lon_col, "lon", line)?;
+            if !(-90.0..=90.0).contains(&lat) || !(-180.0..=360.0).contains(&lon) {
+                return Err(err(
+                    line,
+                    format!(
+                        "station position {lat}, {lon} is out of range: expected lat −90..90, lon −180..360"
+                    ),
+                ));
+            }
+            let lon = if lon > 180.0 { lon - 360.0 } else { lon };
+            let here = LatLon::new(lat, lon);
+            match position {
+                None => position = Some((here, line)),
+                Some((first, first_line)) => {
+                    if (first.lat_deg - lat).abs() > 1e-4 || (first.lon_deg - lon).abs() > 1e-4 {
+                        return Err(err(
+                            line,
+                            format!(
+                                "station position {lat}, {lon} differs from {}, {} on line {first_line}: one file holds one station",
+                                first.lat_deg, first.lon_deg
+                            ),
+                        ));
+                    }
+                }
+            }
+        }
+        rows.push((time, wind, line));
+    }
+    if rows.is_empty() {
+        return Err(err(header_line, "no data rows after the header"));
+    }
+    rows.sort_by_key(|r| (r.0, r.2));
+    if let Some(w) = rows.windows(2).find(|w| w[0].0 == w[1].0) {
+        return Err(err(
+            w[1].2,
+            format!(
+                "time {} repeats line {}",
+                w[1].0.to_rfc3339_opts(chrono::SecondsFormat::Secs, true),
+                w[0].2
+            ),
+        ));
+    }
+    Ok(PointSeries {
+        position: position.map(|p| p.0),
+        series: WindSeries {
+            times: rows.iter().map(|r| r.0).collect(),
+            wind: rows.iter().map(|r| r.1).collect(),
+        },
+    })
+}
+
+fn csv_error(e: &csv::Error) -> WindFileError {
+    let line = e.position().map_or(0, csv::Position::line);
+    let problem = match e.kind() {
+        csv::ErrorKind::UnequalLengths {
+            expected_len, len, ..
+        } => {
+            format!("expected {expected_len} fields like the header, found {len}")
+        }
+        csv::ErrorKind::Utf8 { .. } => "not UTF-8 text".to_string(),
+        _ => e.to_string(),
+    };
+    err(line, problem)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_abs_diff_eq;
+
+    #[test]
+    fn components_with_comments_and_unsorted_times() {
+        let text = "# buoy 7, invented\ntime,u_ms,v_ms\n2027-05-01T06:00:00Z,1,2\n2027-05-01T00:00:00+02:00,3,-4\n";
+        let s = read_csv_series(text).expect("valid");
+        assert_eq!(s.position, None);
+        assert_eq!(s.series.times[0].to_rfc3339(), "2027-04-30T22:00:00+00:00");
+        assert_eq!(s.series.wind[0], Wind::new(3.0, -4.0));
+        assert_eq!(s.series.wind[1], Wind::new(1.0, 2.0));
+    }
+
+    /// 20 kt from 270° is 10.2889 m/s toward the east (1 kt = 1852/3600 m/s; WMO "from").
+    #[test]
+    fn speed_in_knots_from_direction_with_station() {
+        let text =
+            "time_utc,lat,lon,speed_kt,direction_from_deg\n2027-05-01 06:00Z,36.5,-122.1,20,270\n";
+        let s = read_csv_series(text).expect("valid");
+        assert_eq!(s.position, Some(LatLon::new(36.5, -122.1)));
+        assert_abs_diff_eq!(s.series.wind[0].u_m_s, 10.288_889, epsilon = 1e-5);
+        assert_abs_diff_eq!(s.series.wind[0].v_m_s, 0.0, epsilon = 1e-9);
+        let kmh = "time,speed_kmh,direction_from_deg\n2027-05-01T06:00Z,36,0\n";
+        assert_abs_diff_eq!(
+            read_csv_series(kmh).expect("valid").series.wind[0].v_m_s,
+            -10.0,
+            epsilon = 1e-9
+        );
+    }
+
+    #[test]
+    fn errors_name_the_line_and_the_expectation() {
+        let e = |t: &str| read_csv_series(t).unwrap_err().to_string();
+        assert_eq!(
+            e("time,u_ms,v_ms\n2027-05-01T06:00Z,1,2\n2027-05-01T06:00Z,3,4\n"),
+            "line 3: time 2027-05-01T06:00:00Z repeats line 2"
+        );
+        assert_eq!(
+            e("time,u_ms,v_ms\n2027-05-01T06:00:00,1,2\n"),
+            "line 2: time \"2027-05-01T06:00:00\" has no UTC offset: add Z for UTC or an offset such as +02:00"
+        );
+        assert_eq!(
+            e("# c\ntime,speed_kt,direction_from_deg\n2027-05-01T06:00Z,abc,2\n"),
+            "line 3: column speed_kt: expected a number, found \"abc\""
+        );
+        assert_eq!(
+            e("time,speed_kt,direction_from_deg\n2027-05-01T06:00Z,5,400\n"),
+            "line 2: column direction_from_deg: direction 400 is out of range: expected 0 to 360 degrees"
+        );
+        assert_eq!(
+            e("time,speed\n2027-05-01T06:00Z,5\n"),
+            "line 1: no wind columns: expected u_ms and v_ms, or a speed (speed_ms, speed_kt or speed_kmh) with direction_from_deg"
+        );
+        assert_eq!(
+            e("time,u_ms,v_ms\n2027-05-01T06:00Z,1\n"),
+            "line 2: expected 3 fields like the header, found 2"
+        );
+        assert_eq!(
+            e("time,u_ms,v_ms\n"),
+            "line 1: no data rows after the header"
+        );
+        assert_eq!(
+            e("time,u_ms,v_ms\n2027-05-01T06:00Z,NaN,1\n"),
+            "line 2: column u_ms: expected a finite number, found \"NaN\""
+        );
+    }
+}

@@ -1,0 +1,102 @@
+//! The wind model and its importers.
+//!
+//! Wind comes from files of two kinds: gridded fields over time (GRIB2) and point series
+//! over time (CSV: a station, a buoy, a point forecast). Either way the rest of the tool
+//! sees [`WindSeries`]: the 10 m wind at one place over time. Gridded files are sampled
+//! at the points that need wind while they are read, so memory grows with points × steps,
+//! never with the size of the grid.
+
+mod assign;
+mod csv;
+mod grib2;
+mod grid;
+
+pub use assign::{SegmentWind, WindSource, assign_wind, load_sources};
+pub use csv::read_csv_series;
+pub use grib2::{Grib2Samples, sample_grib2};
+pub use grid::RegularGrid;
+
+use crate::coast::LatLon;
+use crate::physics::Wind;
+use chrono::{DateTime, Utc};
+use std::path::PathBuf;
+
+/// The 10 m wind at one place over time.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct WindSeries {
+    /// Valid times, UTC, strictly increasing.
+    pub times: Vec<DateTime<Utc>>,
+    /// The wind at each time.
+    pub wind: Vec<Wind>,
+}
+
+/// A point series read from a CSV file.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PointSeries {
+    /// Station position, if the file gives one; without it the series applies everywhere.
+    pub position: Option<LatLon>,
+    /// The wind over time.
+    pub series: WindSeries,
+}
+
+/// What is wrong inside one wind file. The path is added once, by [`WindError::File`].
+#[derive(Debug, thiserror::Error)]
+pub enum WindFileError {
+    /// The file could not be read at all.
+    #[error("cannot read the file: {0}")]
+    Io(#[from] std::io::Error),
+    /// Neither GRIB2 nor CSV.
+    #[error(
+        "not a wind file this tool reads: expected GRIB2 (starting with \"GRIB\") or CSV text with a header line"
+    )]
+    UnknownFormat,
+    /// A problem at a line of a CSV file.
+    #[error("line {line}: {problem}")]
+    Csv {
+        /// 1-based line number.
+        line: u64,
+        /// What was wrong and what was expected.
+        problem: String,
+    },
+    /// A problem in a GRIB2 message.
+    #[error("message {message}: {problem}")]
+    GribMessage {
+        /// 1-based message number in the file.
+        message: usize,
+        /// What was wrong and what was expected.
+        problem: String,
+    },
+    /// A problem with a GRIB2 file as a whole.
+    #[error("{0}")]
+    Grib(String),
+}
+
+/// Why wind could not be had for the coast.
+#[derive(Debug, thiserror::Error)]
+pub enum WindError {
+    /// A wind file is bad.
+    #[error("bad wind file: {source}: {}", path.display())]
+    File {
+        /// The file.
+        path: PathBuf,
+        /// What is wrong in it.
+        source: WindFileError,
+    },
+    /// No wind file covers a segment.
+    #[error(
+        "segment {id:?} (near {lat_deg:.3}°N, {lon_deg:.3}°E): no wind file covers it (checked {files} file(s)): give a wind file whose grid or station covers this segment"
+    )]
+    Uncovered {
+        /// Segment id.
+        id: String,
+        /// Its midpoint latitude.
+        lat_deg: f64,
+        /// Its midpoint longitude.
+        lon_deg: f64,
+        /// How many files were tried.
+        files: usize,
+    },
+    /// No wind files at all.
+    #[error("no wind file given: expected at least one --wind FILE")]
+    NoFiles,
+}
