@@ -126,7 +126,7 @@ fn complex_spatial_differencing_south_to_north_negative_longitudes_minutes() {
     check_against_dump("complex_sd_minutes_s2n.grib2", 3);
     let got =
         sample("complex_sd_minutes_s2n.grib2", &[LatLon::new(35.0, -120.0)]).expect("readable");
-    let stamps: Vec<String> = got.times.iter().map(|t| t.to_rfc3339()).collect();
+    let stamps: Vec<String> = got.times.iter().map(DateTime::to_rfc3339).collect();
     // 2026-06-15 12:00 UTC + 0, 180, 360 minutes (Code Table 4.4 unit 0 = minute).
     assert_eq!(
         stamps,
@@ -174,8 +174,7 @@ fn undecodable_messages_of_other_parameters_are_skipped() {
 /// linear in both (README formula), so a point between nodes gets the formula's value.
 #[test]
 fn bilinear_between_nodes_follows_the_analytic_field() {
-    let p = LatLon::new(36.3, -121.7);
-    let got = sample("simple_hours.grib2", &[p]).expect("readable");
+    let got = sample("simple_hours.grib2", &[LatLon::new(36.3, -121.7)]).expect("readable");
     let w = got.points[0].as_ref().expect("covered")[1];
     let (lat, lon_e, h) = (36.3, 360.0 - 121.7, 6.0);
     let u = 5.0 + 0.5 * (lat - 35.0) + 0.2 * (lon_e - 235.0) + 0.1 * h;

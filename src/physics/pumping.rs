@@ -23,7 +23,7 @@ pub struct StressGrid {
 }
 
 /// Ekman pumping velocity `w_E = (1/rho_w) [d(tau_y/f)/dx − d(tau_x/f)/dy]`, which
-/// equals `curl(tau)/(rho_w f) + beta tau_x/(rho_w f^2)` (e.g. Gill 1982 [memory]).
+/// equals `curl(tau)/(rho_w f) + beta tau_x/(rho_w f^2)` (e.g. Gill 1982, from memory).
 /// Derivatives are centred differences on the sphere, `dx = R cos(lat) dlon`,
 /// `dy = R dlat`; one-sided at the edges.
 ///

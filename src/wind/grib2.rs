@@ -119,11 +119,12 @@ fn scan_message(msg: &[u8]) -> Result<(DateTime<Utc>, Vec<FieldHeader>), String>
         let s = &msg[pos..pos + len];
         match number {
             1 if len >= 19 => {
-                let (y, mo, d, h, mi, se) = (u16_at(s, 12), s[14], s[15], s[16], s[17], s[18]);
+                let (year, month, day) = (u16_at(s, 12), s[14], s[15]);
+                let (hour, minute, second) = (s[16], s[17], s[18]);
                 let t = Utc
-                    .with_ymd_and_hms(i32::from(y), u32::from(mo), u32::from(d), u32::from(h), u32::from(mi), u32::from(se))
+                    .with_ymd_and_hms(i32::from(year), u32::from(month), u32::from(day), u32::from(hour), u32::from(minute), u32::from(second))
                     .single()
-                    .ok_or_else(|| format!("reference time {y:04}-{mo:02}-{d:02} {h:02}:{mi:02}:{se:02} is not a valid date"))?;
+                    .ok_or_else(|| format!("reference time {year:04}-{month:02}-{day:02} {hour:02}:{minute:02}:{second:02} is not a valid date"))?;
                 ref_time = Some(t);
             }
             3 => grid = (pos, len),
@@ -230,7 +231,11 @@ type GridWeights = (usize, Vec<Option<Weights>>);
 /// misplaces by thousands of degrees. Flag table 3.4 gives the scan order: bit 1 (0x80)
 /// points scan westward, bit 2 (0x40) rows run south to north, bit 3 (0x20) columns are
 /// consecutive, bit 4 (0x10) every other row runs backward.
-fn regular_lat_lon_points(s3: &[u8]) -> Result<(Vec<(f64, f64)>, usize, usize), String> {
+/// Grid point positions (latitude, longitude in degrees) in data order, with the
+/// numbers of columns and rows.
+type GridPoints = (Vec<(f64, f64)>, usize, usize);
+
+fn regular_lat_lon_points(s3: &[u8]) -> Result<GridPoints, String> {
     if s3.len() < 14 {
         return Err("grid definition section is cut short".into());
     }

@@ -192,7 +192,7 @@ mod tests {
         let g = RegularGrid::from_points(&pts, 4, 2).expect("regular");
         let vals: Vec<f32> = pts
             .iter()
-            .map(|p| if p.1 == 270.0 { 1.0 } else { 0.0 })
+            .map(|p| if (p.1 - 270.0).abs() < 1e-9 { 1.0 } else { 0.0 })
             .collect();
         let w = g.weights(LatLon::new(0.5, -45.0)).expect("wraps");
         assert_abs_diff_eq!(interpolate(&w, &vals), 0.5, epsilon = 1e-9);
