@@ -2,9 +2,10 @@
 //! stderr that names the file and the place in it, and exit status 2.
 
 use crate::atomic::write_atomic;
-use crate::coast::{CoastError, Segment, read_coast_geojson};
+use crate::coast::{CoastError, Land, SeaSideError, Segment, read_coast_geojson, resolve_segments};
 use crate::export::{IndexFormat, index_records, write_index};
 use crate::physics::DragChoice;
+use crate::scenario::{Scenario, ScenarioError, is_scenario_text, load_scenario};
 use crate::upwelling::{IndexSettings, UpwellingError, index_series};
 use crate::wind::{WindError, assign_wind, load_sources};
 use clap::{Parser, Subcommand, ValueEnum};
@@ -28,6 +29,33 @@ pub struct Cli {
 pub enum Command {
     /// Coastal upwelling index per coast segment and forecast time.
     Index(IndexArgs),
+    /// Write the invented demo scenario and its synthetic forecast into a folder.
+    Demo(DemoArgs),
+}
+
+/// Arguments of `shelfwind demo`.
+#[derive(Debug, clap::Args)]
+pub struct DemoArgs {
+    /// Folder to write into (created if needed).
+    #[arg(long, value_name = "DIR")]
+    pub out: PathBuf,
+}
+
+/// `shelfwind demo`: writes the demo scenario and forecast.
+pub fn run_demo(args: &DemoArgs) -> Result<(), CliError> {
+    let (scenario, forecast) =
+        crate::scenario::write_demo(&args.out).map_err(|source| CliError::Output {
+            path: args.out.clone(),
+            source,
+        })?;
+    println!("wrote {}", scenario.display());
+    println!("wrote {}", forecast.display());
+    println!(
+        "try: shelfwind index --coast {} --wind {}",
+        scenario.display(),
+        forecast.display()
+    );
+    Ok(())
 }
 
 /// Output format of `index`.
@@ -42,21 +70,24 @@ pub enum IndexFormatArg {
 /// Arguments of `shelfwind index`.
 #[derive(Debug, clap::Args)]
 pub struct IndexArgs {
-    /// Coast: a GeoJSON FeatureCollection of LineStrings with properties `id` and `sea`.
+    /// Coast: a scenario file, or a GeoJSON FeatureCollection of LineStrings with
+    /// properties `id` and `sea` (without `sea`, the side comes from the bundled land).
     #[arg(long, value_name = "COAST")]
     pub coast: PathBuf,
-    /// Wind file, GRIB2 or CSV; repeat for several (each segment takes the first that covers it).
-    #[arg(long, value_name = "WIND", required = true)]
+    /// Wind file, GRIB2 or CSV; repeat for several (each segment takes the first that
+    /// covers it). Default: the scenario's wind files.
+    #[arg(long, value_name = "WIND")]
     pub wind: Vec<PathBuf>,
-    /// Drag law: constant:0.0013, large-pond-1981, trenberth-1990 or large-yeager-2009.
-    #[arg(long, default_value = "constant:0.0013")]
-    pub drag: DragChoice,
-    /// Air density, kg/m^3.
-    #[arg(long, default_value_t = crate::physics::RHO_AIR_KG_M3, value_parser = parse_rho_air)]
-    pub rho_air: f64,
-    /// Sea-water density, kg/m^3.
-    #[arg(long, default_value_t = crate::physics::RHO_WATER_KG_M3, value_parser = parse_rho_water)]
-    pub rho_water: f64,
+    /// Drag law: constant:0.0013, large-pond-1981, trenberth-1990 or large-yeager-2009
+    /// [default: the scenario's, else constant:0.0013].
+    #[arg(long)]
+    pub drag: Option<DragChoice>,
+    /// Air density, kg/m^3 [default: the scenario's, else 1.22].
+    #[arg(long, value_parser = parse_rho_air)]
+    pub rho_air: Option<f64>,
+    /// Sea-water density, kg/m^3 [default: the scenario's, else 1025].
+    #[arg(long, value_parser = parse_rho_water)]
+    pub rho_water: Option<f64>,
     /// Output format.
     #[arg(long, value_enum, default_value_t = IndexFormatArg::Csv)]
     pub format: IndexFormatArg,
@@ -105,6 +136,17 @@ pub enum CliError {
         /// What is wrong.
         source: CoastError,
     },
+    /// A segment's sea side cannot be found.
+    #[error("bad coast file: {source}: {}", path.display())]
+    SeaSide {
+        /// The file.
+        path: PathBuf,
+        /// Which segment and why.
+        source: SeaSideError,
+    },
+    /// The scenario file is bad.
+    #[error("bad scenario file: {0}")]
+    Scenario(#[from] ScenarioError),
     /// Wind files.
     #[error(transparent)]
     Wind(#[from] WindError),
@@ -121,33 +163,85 @@ pub enum CliError {
     },
 }
 
-/// Reads a coast file.
-pub fn read_coast(path: &Path) -> Result<Vec<Segment>, CliError> {
-    let text = std::fs::read(path).map_err(|source| CliError::CoastIo {
+/// A coast read from a file, with its scenario when the file is one.
+#[derive(Debug, Clone)]
+pub struct LoadedCoast {
+    /// The segments, with their sea sides resolved.
+    pub segments: Vec<Segment>,
+    /// The scenario, when the coast came from one.
+    pub scenario: Option<Scenario>,
+    /// The folder of the file, for the scenario's relative paths.
+    pub dir: PathBuf,
+}
+
+/// Reads a coast: a scenario file or a GeoJSON file; sea sides not given come from the
+/// bundled land polygons.
+pub fn load_coast(path: &Path) -> Result<LoadedCoast, CliError> {
+    let bytes = std::fs::read(path).map_err(|source| CliError::CoastIo {
         path: path.into(),
         source,
     })?;
-    let text = String::from_utf8(text).map_err(|_| CliError::Coast {
+    let text = String::from_utf8(bytes).map_err(|_| CliError::Coast {
         path: path.into(),
         source: CoastError::NotFeatureCollection {
             found: "a file that is not UTF-8 text".into(),
         },
     })?;
-    read_coast_geojson(&text).map_err(|source| CliError::Coast {
+    let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
+    let (drawn, scenario) = if is_scenario_text(&text) {
+        let scenario = load_scenario(path)?;
+        (scenario.segments.clone(), Some(scenario))
+    } else {
+        let drawn = read_coast_geojson(&text).map_err(|source| CliError::Coast {
+            path: path.into(),
+            source,
+        })?;
+        (drawn, None)
+    };
+    // The land is loaded only when some segment needs it.
+    let segments = if drawn.iter().all(|c| c.sea.is_some()) {
+        resolve_segments(&drawn, &Land::default())
+    } else {
+        resolve_segments(&drawn, Land::bundled())
+    }
+    .map_err(|source| CliError::SeaSide {
         path: path.into(),
         source,
+    })?;
+    Ok(LoadedCoast {
+        segments,
+        scenario,
+        dir,
     })
+}
+
+/// The wind files to use: those given, else the scenario's (relative to its folder).
+fn wind_paths(given: &[PathBuf], coast: &LoadedCoast) -> Vec<PathBuf> {
+    if !given.is_empty() {
+        return given.to_vec();
+    }
+    coast
+        .scenario
+        .as_ref()
+        .map(|s| s.wind_files.iter().map(|f| coast.dir.join(f)).collect())
+        .unwrap_or_default()
 }
 
 /// `shelfwind index`: the table of upwelling index values.
 pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
-    let segments = read_coast(&args.coast)?;
-    let sources = load_sources(&args.wind)?;
-    let winds = assign_wind(&sources, &segments)?;
+    let coast = load_coast(&args.coast)?;
+    let segments = &coast.segments;
+    let sources = load_sources(&wind_paths(&args.wind, &coast))?;
+    let winds = assign_wind(&sources, segments)?;
+    let base = coast
+        .scenario
+        .as_ref()
+        .map(|s| s.settings.index)
+        .unwrap_or_default();
     let settings = IndexSettings {
-        drag: args.drag,
-        rho_air_kg_m3: args.rho_air,
-        rho_water_kg_m3: args.rho_water,
+        drag: args.drag.unwrap_or(base.drag),
+        rho_air_kg_m3: args.rho_air.unwrap_or(base.rho_air_kg_m3),
+        rho_water_kg_m3: args.rho_water.unwrap_or(base.rho_water_kg_m3),
     };
     let series = segments
         .iter()

@@ -19,5 +19,6 @@ pub mod cli;
 pub mod coast;
 pub mod export;
 pub mod physics;
+pub mod scenario;
 pub mod upwelling;
 pub mod wind;

@@ -380,10 +380,11 @@ fn bad_coast_files_name_the_feature_and_the_file() {
         "--wind",
         &fixture("grib2/simple_hours.grib2"),
     ]);
+    // Without "sea" the side comes from the land; this line runs 40 km inland.
     assert_one_line_error(
         &o,
         &[
-            "bad coast file: feature 1 (\"cape\"): no \"sea\" property",
+            "bad coast file: segment \"cape\": cannot tell the sea side from the bundled land polygons: both sides look like land",
             "drawn.geojson",
         ],
     );

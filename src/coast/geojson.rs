@@ -1,11 +1,14 @@
-//! Reading coast segments from a GeoJSON FeatureCollection (RFC 7946) of LineStrings.
+//! Coast segments in and out of a GeoJSON FeatureCollection (RFC 7946) of LineStrings.
 //!
 //! Feature property `id` (string) names the segment (default `seg-<n>`, n from 1);
 //! property `sea` = `"left"` or `"right"` says on which side of the line, walking from
-//! its first point to its last, the sea lies.
+//! its first point to its last, the sea lies (absent: found from the land). Optional
+//! properties: `name`, `notes`, and a closure to fishing as `closed` (true),
+//! `closed_reason`, `closed_from` and `closed_to` (dates `YYYY-MM-DD`).
 
-use super::{LatLon, SeaSide, Segment};
-use serde_json::Value;
+use super::{Closure, CoastSegment, LatLon, SeaSide};
+use chrono::NaiveDate;
+use serde_json::{Map, Value, json};
 use std::collections::HashMap;
 
 /// Why a coast file could not be read. The file path is added by the caller.
@@ -59,7 +62,7 @@ fn describe(v: &Value) -> String {
 }
 
 /// Reads coast segments from GeoJSON text.
-pub fn read_coast_geojson(text: &str) -> Result<Vec<Segment>, CoastError> {
+pub fn read_coast_geojson(text: &str) -> Result<Vec<CoastSegment>, CoastError> {
     let root: Value = serde_json::from_str(text).map_err(|e| CoastError::Json {
         line: e.line(),
         column: e.column(),
@@ -137,15 +140,20 @@ pub fn read_coast_geojson(text: &str) -> Result<Vec<Segment>, CoastError> {
                 "a LineString needs at least two different positions".into(),
             ));
         }
-        let sea = match props.and_then(|p| p.get("sea")) {
-            Some(Value::String(s)) if s.eq_ignore_ascii_case("left") => SeaSide::Left,
-            Some(Value::String(s)) if s.eq_ignore_ascii_case("right") => SeaSide::Right,
-            None | Some(Value::Null) => {
-                return Err(fail(
-                    "no \"sea\" property: expected \"left\" or \"right\" (the side of the sea, walking from the first point to the last)"
-                        .into(),
-                ));
+        let text_prop = |key: &str| -> Result<String, CoastError> {
+            match props.and_then(|p| p.get(key)) {
+                None | Some(Value::Null) => Ok(String::new()),
+                Some(Value::String(s)) => Ok(s.clone()),
+                Some(other) => Err(fail(format!(
+                    "property {key:?} is {}: expected a string",
+                    describe(other)
+                ))),
             }
+        };
+        let sea = match props.and_then(|p| p.get("sea")) {
+            Some(Value::String(s)) if s.eq_ignore_ascii_case("left") => Some(SeaSide::Left),
+            Some(Value::String(s)) if s.eq_ignore_ascii_case("right") => Some(SeaSide::Right),
+            None | Some(Value::Null) => None,
             Some(other) => {
                 return Err(fail(format!(
                     "property \"sea\" is {}: expected \"left\" or \"right\"",
@@ -153,12 +161,90 @@ pub fn read_coast_geojson(text: &str) -> Result<Vec<Segment>, CoastError> {
                 )));
             }
         };
-        segments.push(Segment { id, points, sea });
+        let date_prop = |key: &str| -> Result<Option<NaiveDate>, CoastError> {
+            let raw = text_prop(key)?;
+            if raw.is_empty() {
+                return Ok(None);
+            }
+            NaiveDate::parse_from_str(&raw, "%Y-%m-%d")
+                .map(Some)
+                .map_err(|_| {
+                    fail(format!(
+                        "property {key:?} is {raw:?}: expected a date YYYY-MM-DD"
+                    ))
+                })
+        };
+        let closed = match props.and_then(|p| p.get("closed")) {
+            None | Some(Value::Null | Value::Bool(false)) => false,
+            Some(Value::Bool(true)) => true,
+            Some(other) => {
+                return Err(fail(format!(
+                    "property \"closed\" is {}: expected true or false",
+                    describe(other)
+                )));
+            }
+        };
+        let closure = if closed {
+            Some(Closure {
+                reason: text_prop("closed_reason")?,
+                from: date_prop("closed_from")?,
+                to: date_prop("closed_to")?,
+            })
+        } else {
+            None
+        };
+        segments.push(CoastSegment {
+            id,
+            name: text_prop("name")?,
+            points,
+            sea,
+            notes: text_prop("notes")?,
+            closure,
+        });
     }
     if segments.is_empty() {
         return Err(CoastError::Empty);
     }
     Ok(segments)
+}
+
+/// Writes coast segments as a GeoJSON FeatureCollection that [`read_coast_geojson`]
+/// reads back to the same segments.
+#[must_use]
+pub fn write_coast_geojson(segments: &[CoastSegment]) -> String {
+    let features: Vec<Value> = segments
+        .iter()
+        .map(|s| {
+            let mut props = Map::new();
+            props.insert("id".into(), json!(s.id));
+            if !s.name.is_empty() {
+                props.insert("name".into(), json!(s.name));
+            }
+            if let Some(sea) = s.sea {
+                props.insert("sea".into(), json!(if sea == SeaSide::Left { "left" } else { "right" }));
+            }
+            if !s.notes.is_empty() {
+                props.insert("notes".into(), json!(s.notes));
+            }
+            if let Some(c) = &s.closure {
+                props.insert("closed".into(), json!(true));
+                props.insert("closed_reason".into(), json!(c.reason));
+                if let Some(d) = c.from {
+                    props.insert("closed_from".into(), json!(d.to_string()));
+                }
+                if let Some(d) = c.to {
+                    props.insert("closed_to".into(), json!(d.to_string()));
+                }
+            }
+            let coords: Vec<Value> = s.points.iter().map(|p| json!([p.lon_deg, p.lat_deg])).collect();
+            json!({"type": "Feature", "properties": props, "geometry": {"type": "LineString", "coordinates": coords}})
+        })
+        .collect();
+    let mut text =
+        serde_json::to_string_pretty(&json!({"type": "FeatureCollection", "features": features}))
+            .unwrap_or_default();
+    text.push('\n');
+    text
 }
 
 /// A GeoJSON position `[lon, lat]` (RFC 7946 order), checked for range.
@@ -198,18 +284,71 @@ mod tests {
         let segs = read_coast_geojson(&fc(&format!("{LINE},{second}"))).expect("valid");
         assert_eq!(segs.len(), 2);
         assert_eq!(segs[0].id, "north");
-        assert_eq!(segs[0].sea, SeaSide::Left);
+        assert_eq!(segs[0].sea, Some(SeaSide::Left));
         assert_eq!(segs[0].points[1], LatLon::new(36.2, -122.0));
         assert_eq!(segs[1].id, "seg-2");
-        assert_eq!(segs[1].sea, SeaSide::Right);
+        assert_eq!(segs[1].sea, Some(SeaSide::Right));
+    }
+
+    #[test]
+    fn missing_sea_is_left_to_the_land() {
+        let no_sea = LINE.replace(r#","sea":"left""#, "");
+        assert_eq!(
+            read_coast_geojson(&fc(&no_sea)).expect("valid")[0].sea,
+            None
+        );
+    }
+
+    /// Export then import gives back exactly the same segments, every field and every
+    /// coordinate bit for bit.
+    #[test]
+    fn round_trip_is_exact() {
+        let segs = vec![
+            CoastSegment {
+                id: "a".into(),
+                name: "Kelp Shelf".into(),
+                points: vec![
+                    LatLon::new(38.123_456_789_012_3, -123.000_000_000_1),
+                    LatLon::new(38.2, -123.1),
+                ],
+                sea: Some(SeaSide::Left),
+                notes: "rocky; \"quotes\" and ünïcode".into(),
+                closure: Some(Closure {
+                    reason: "marine reserve".into(),
+                    from: NaiveDate::from_ymd_opt(2027, 5, 1),
+                    to: None,
+                }),
+            },
+            CoastSegment {
+                id: "b".into(),
+                name: String::new(),
+                points: vec![
+                    LatLon::new(0.1 + 0.2, 1.0 / 3.0),
+                    LatLon::new(-45.5, 179.999_999),
+                ],
+                sea: None,
+                notes: String::new(),
+                closure: None,
+            },
+        ];
+        let text = write_coast_geojson(&segs);
+        assert_eq!(read_coast_geojson(&text).expect("reads back"), segs);
     }
 
     #[test]
     fn errors_name_the_feature_and_what_was_expected() {
-        let no_sea = LINE.replace(r#","sea":"left""#, "");
+        let bad_sea = LINE.replace(r#""sea":"left""#, r#""sea":"west""#);
         assert_eq!(
-            read_coast_geojson(&fc(&no_sea)).unwrap_err().to_string(),
-            "feature 1 (\"north\"): no \"sea\" property: expected \"left\" or \"right\" (the side of the sea, walking from the first point to the last)"
+            read_coast_geojson(&fc(&bad_sea)).unwrap_err().to_string(),
+            "feature 1 (\"north\"): property \"sea\" is the string \"west\": expected \"left\" or \"right\""
+        );
+        let bad_date = LINE.replace(
+            r#""sea":"left""#,
+            r#""closed":true,"closed_to":"31/05/2027""#,
+        );
+        assert_eq!(
+            read_coast_geojson(&fc(&bad_date)).unwrap_err().to_string(),
+            "feature 1 (\"north\"): property \"closed_to\" is \"31/05/2027\": expected a date YYYY-MM-DD"
         );
         let polygon = LINE.replace("LineString", "Polygon");
         assert_eq!(

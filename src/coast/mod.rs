@@ -1,12 +1,18 @@
 //! Coast segments: named polylines along the shore, cut into straight pieces that each
 //! know their midpoint, length, alongshore bearing and offshore-normal bearing.
 
+mod drawn;
 mod geodesy;
 mod geojson;
+mod land;
+mod resolve;
 mod segment;
 
+pub use drawn::{Closure, CoastSegment};
 pub use geodesy::{
     EARTH_MEAN_RADIUS_M, LatLon, destination, distance_m, initial_bearing_deg, midpoint,
 };
-pub use geojson::{CoastError, read_coast_geojson};
+pub use geojson::{CoastError, read_coast_geojson, write_coast_geojson};
+pub use land::{Land, LandError, SideFinding, find_sea_side};
+pub use resolve::{SeaSideError, resolve_segments};
 pub use segment::{Piece, SeaSide, Segment};

@@ -8,12 +8,19 @@
 
 mod assign;
 mod csv;
+mod demo;
 mod grib2;
+mod grib2_writer;
 mod grid;
 
 pub use assign::{SegmentWind, WindSource, assign_wind, load_sources};
 pub use csv::read_csv_series;
+pub use demo::{
+    DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_STEP_DEG,
+    demo_forecast_grib2, demo_reference_time, demo_wind,
+};
 pub use grib2::{Grib2Samples, sample_grib2};
+pub use grib2_writer::{GridField, encode_wind_message};
 pub use grid::RegularGrid;
 
 use crate::coast::LatLon;
@@ -97,6 +104,6 @@ pub enum WindError {
         files: usize,
     },
     /// No wind files at all.
-    #[error("no wind file given: expected at least one --wind FILE")]
+    #[error("no wind file given: expected at least one --wind FILE, or a scenario with wind files")]
     NoFiles,
 }

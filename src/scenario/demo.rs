@@ -1,0 +1,31 @@
+//! The bundled demo: an invented co-op on an invented stretch of coast, with its
+//! synthetic forecast. Embedded in the program so it works from any install location.
+
+use super::{Scenario, ScenarioError, parse_scenario};
+use crate::atomic::write_atomic;
+use crate::wind::demo_forecast_grib2;
+use std::path::{Path, PathBuf};
+
+/// File name of the demo scenario.
+pub const DEMO_SCENARIO_FILE: &str = "north-reach.shelfwind.json";
+/// File name of the demo forecast (the scenario refers to it by this name).
+pub const DEMO_FORECAST_FILE: &str = "north-reach-forecast.grib2";
+/// The demo scenario's text, as committed in `demo-scenarios/north-reach/`.
+pub const DEMO_SCENARIO_JSON: &str =
+    include_str!("../../demo-scenarios/north-reach/north-reach.shelfwind.json");
+
+/// The demo scenario.
+pub fn demo_scenario() -> Result<Scenario, ScenarioError> {
+    parse_scenario(DEMO_SCENARIO_JSON)
+}
+
+/// Writes the demo scenario and its forecast into `dir` (created if needed); returns
+/// the two paths.
+pub fn write_demo(dir: &Path) -> std::io::Result<(PathBuf, PathBuf)> {
+    std::fs::create_dir_all(dir)?;
+    let scenario = dir.join(DEMO_SCENARIO_FILE);
+    let forecast = dir.join(DEMO_FORECAST_FILE);
+    write_atomic(&forecast, &demo_forecast_grib2())?;
+    write_atomic(&scenario, DEMO_SCENARIO_JSON.as_bytes())?;
+    Ok((scenario, forecast))
+}

@@ -1,0 +1,185 @@
+//! What a scenario holds, and the checks that keep its values valid.
+
+use crate::coast::{CoastSegment, LatLon};
+use crate::upwelling::IndexSettings;
+use serde::{Deserialize, Serialize};
+use std::collections::HashSet;
+use std::path::PathBuf;
+
+/// A home port.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Port {
+    /// Identifier, unique among ports.
+    pub id: String,
+    /// Display name.
+    pub name: String,
+    /// Position of the harbour mouth.
+    pub position: LatLon,
+}
+
+/// A boat and the limits its skipper sets.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Vessel {
+    /// Identifier, unique among vessels.
+    pub id: String,
+    /// Display name.
+    pub name: String,
+    /// Cruising speed, knots.
+    pub cruise_speed_kt: f64,
+    /// Fuel burnt per hour at cruising speed, litres per hour.
+    pub fuel_l_per_h: f64,
+    /// Highest sustained wind the skipper will work in, knots.
+    pub wind_limit_kt: f64,
+    /// Highest significant wave height the skipper will work in, metres (optional).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub wave_limit_m: Option<f64>,
+    /// Greatest distance from port for a day trip, nautical miles (one way).
+    pub range_nm: f64,
+}
+
+/// Model settings kept with the scenario.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ModelSettings {
+    /// Drag law and densities of the index.
+    #[serde(flatten)]
+    pub index: IndexSettings,
+    /// Length of the stretches segments are cut into, nautical miles.
+    pub stretch_length_nm: f64,
+}
+
+impl Default for ModelSettings {
+    fn default() -> Self {
+        Self {
+            index: IndexSettings::default(),
+            stretch_length_nm: 5.0,
+        }
+    }
+}
+
+/// The whole document.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Scenario {
+    /// Name, e.g. the co-op's.
+    pub name: String,
+    /// IANA time zone of the fleet (e.g. `Europe/Lisbon`), for local days and times.
+    pub time_zone: String,
+    /// The coast.
+    pub segments: Vec<CoastSegment>,
+    /// Home ports.
+    #[serde(default)]
+    pub ports: Vec<Port>,
+    /// Boats.
+    #[serde(default)]
+    pub vessels: Vec<Vessel>,
+    /// Wind files, relative to the scenario file's folder (or absolute).
+    #[serde(default)]
+    pub wind_files: Vec<PathBuf>,
+    /// Model settings.
+    #[serde(default)]
+    pub settings: ModelSettings,
+    /// Free notes.
+    #[serde(default, skip_serializing_if = "String::is_empty")]
+    pub notes: String,
+}
+
+fn check_range(
+    what: &str,
+    name: &str,
+    value: f64,
+    lo: f64,
+    hi: f64,
+    unit: &str,
+) -> Result<(), String> {
+    if value.is_finite() && value >= lo && value <= hi {
+        Ok(())
+    } else {
+        Err(format!(
+            "{what}: {name} {value} is out of range: expected {lo} to {hi} {unit}"
+        ))
+    }
+}
+
+fn check_position(what: &str, p: LatLon) -> Result<(), String> {
+    check_range(what, "latitude", p.lat_deg, -90.0, 90.0, "degrees")?;
+    check_range(what, "longitude", p.lon_deg, -180.0, 180.0, "degrees")
+}
+
+fn unique<'a>(kind: &str, ids: impl Iterator<Item = &'a str>) -> Result<(), String> {
+    let mut seen = HashSet::new();
+    for id in ids {
+        if id.trim().is_empty() {
+            return Err(format!("a {kind} has an empty id"));
+        }
+        if !seen.insert(id) {
+            return Err(format!(
+                "{kind} id {id:?} is used twice: ids must be unique"
+            ));
+        }
+    }
+    Ok(())
+}
+
+impl Scenario {
+    /// Checks every value a user could have typed wrong, naming the item.
+    pub fn validate(&self) -> Result<(), String> {
+        self.time_zone.parse::<chrono_tz::Tz>().map_err(|_| {
+            format!(
+                "time_zone {:?} is not an IANA time zone name such as \"Europe/Lisbon\"",
+                self.time_zone
+            )
+        })?;
+        unique("segment", self.segments.iter().map(|s| s.id.as_str()))?;
+        unique("port", self.ports.iter().map(|p| p.id.as_str()))?;
+        unique("vessel", self.vessels.iter().map(|v| v.id.as_str()))?;
+        for (k, s) in self.segments.iter().enumerate() {
+            let what = format!("segment {} ({:?})", k + 1, s.id);
+            let mut distinct = s.points.clone();
+            distinct.dedup();
+            if distinct.len() < 2 {
+                return Err(format!("{what}: needs at least two different points"));
+            }
+            for p in &s.points {
+                check_position(&what, *p)?;
+            }
+        }
+        for (k, p) in self.ports.iter().enumerate() {
+            check_position(&format!("port {} ({:?})", k + 1, p.id), p.position)?;
+        }
+        for (k, v) in self.vessels.iter().enumerate() {
+            let what = format!("vessel {} ({:?})", k + 1, v.id);
+            check_range(&what, "cruise_speed_kt", v.cruise_speed_kt, 1.0, 60.0, "kt")?;
+            check_range(&what, "fuel_l_per_h", v.fuel_l_per_h, 0.0, 2000.0, "l/h")?;
+            check_range(&what, "wind_limit_kt", v.wind_limit_kt, 1.0, 100.0, "kt")?;
+            check_range(&what, "range_nm", v.range_nm, 0.5, 500.0, "nm")?;
+            if let Some(w) = v.wave_limit_m {
+                check_range(&what, "wave_limit_m", w, 0.1, 20.0, "m")?;
+            }
+        }
+        let s = &self.settings;
+        check_range(
+            "settings",
+            "rho_air_kg_m3",
+            s.index.rho_air_kg_m3,
+            0.5,
+            2.0,
+            "kg/m^3",
+        )?;
+        check_range(
+            "settings",
+            "rho_water_kg_m3",
+            s.index.rho_water_kg_m3,
+            950.0,
+            1100.0,
+            "kg/m^3",
+        )?;
+        check_range(
+            "settings",
+            "stretch_length_nm",
+            s.stretch_length_nm,
+            0.5,
+            100.0,
+            "nm",
+        )?;
+        Ok(())
+    }
+}

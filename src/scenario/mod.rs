@@ -1,0 +1,15 @@
+//! The scenario document: a co-op's or a skipper's coast, ports, boats, wind files and
+//! model settings, kept in one versioned JSON file that can be shared with the fleet.
+
+mod demo;
+mod document;
+mod file;
+
+pub use demo::{
+    DEMO_FORECAST_FILE, DEMO_SCENARIO_FILE, DEMO_SCENARIO_JSON, demo_scenario, write_demo,
+};
+pub use document::{ModelSettings, Port, Scenario, Vessel};
+pub use file::{
+    FORMAT_NAME, FORMAT_VERSION, ScenarioError, is_scenario_text, load_scenario, parse_scenario,
+    save_scenario, scenario_to_json,
+};
