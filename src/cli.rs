@@ -3,8 +3,9 @@
 
 use crate::atomic::write_atomic;
 use crate::coast::{CoastError, Land, SeaSideError, Segment, read_coast_geojson, resolve_segments};
-use crate::export::{IndexFormat, index_records, write_index};
+use crate::export::{IndexFormat, PlanFormat, index_records, render_plan, write_index};
 use crate::physics::DragChoice;
+use crate::plan::{PlanError, PlanRequest, build_plan};
 use crate::scenario::{Scenario, ScenarioError, is_scenario_text, load_scenario};
 use crate::upwelling::{IndexSettings, UpwellingError, index_series};
 use crate::wind::{WindError, assign_wind, load_sources};
@@ -29,8 +30,101 @@ pub struct Cli {
 pub enum Command {
     /// Coastal upwelling index per coast segment and forecast time.
     Index(IndexArgs),
+    /// Ranked stretches per day for a boat and its home port, with reasons.
+    Plan(PlanArgs),
     /// Write the invented demo scenario and its synthetic forecast into a folder.
     Demo(DemoArgs),
+}
+
+/// Output format of `plan`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum PlanFormatArg {
+    /// Readable in a terminal.
+    Table,
+    /// One row per day and stretch.
+    Csv,
+    /// The whole plan.
+    Json,
+    /// Stretches with their scores.
+    Geojson,
+    /// Waypoints and routes for a chart plotter (GPX 1.1).
+    Gpx,
+}
+
+/// Arguments of `shelfwind plan`.
+#[derive(Debug, clap::Args)]
+pub struct PlanArgs {
+    /// The scenario file.
+    pub scenario: PathBuf,
+    /// Wind file, GRIB2 or CSV; repeat for several. Default: the scenario's wind files.
+    #[arg(long, value_name = "WIND")]
+    pub wind: Vec<PathBuf>,
+    /// First day to plan, local to the scenario (2027-05-11, or a full ISO 8601 time).
+    /// Default: today if the forecast covers it, else the forecast's first day.
+    #[arg(long, value_name = "ISO8601", value_parser = parse_from)]
+    pub from: Option<chrono::NaiveDate>,
+    /// Number of days to plan.
+    #[arg(long, default_value_t = 3, value_parser = clap::value_parser!(u16).range(1..=60))]
+    pub days: u16,
+    /// Vessel id (default: the scenario's first).
+    #[arg(long)]
+    pub vessel: Option<String>,
+    /// Home port id (default: the scenario's first).
+    #[arg(long)]
+    pub port: Option<String>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = PlanFormatArg::Table)]
+    pub format: PlanFormatArg,
+    /// Output file (written whole or not at all); standard output when absent.
+    #[arg(long, value_name = "FILE")]
+    pub out: Option<PathBuf>,
+}
+
+fn parse_from(s: &str) -> Result<chrono::NaiveDate, String> {
+    if let Ok(d) = chrono::NaiveDate::parse_from_str(s, "%Y-%m-%d") {
+        return Ok(d);
+    }
+    chrono::DateTime::parse_from_rfc3339(s)
+        .map(|t| t.date_naive())
+        .map_err(|_| {
+            format!("{s:?} is not a date: expected e.g. 2027-05-11 or 2027-05-11T06:00:00Z")
+        })
+}
+
+/// `shelfwind plan`: the ranked stretches per day.
+pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
+    let coast = load_coast(&args.scenario)?;
+    let Some(scenario) = coast.scenario.as_ref() else {
+        return Err(CliError::Scenario(ScenarioError::File {
+            path: args.scenario.clone(),
+            source: Box::new(ScenarioError::NotScenario),
+        }));
+    };
+    let sources = load_sources(&wind_paths(&args.wind, &coast))?;
+    let request = PlanRequest {
+        scenario,
+        segments: &coast.segments,
+        vessel_id: args.vessel.as_deref(),
+        port_id: args.port.as_deref(),
+        from: args.from,
+        days: usize::from(args.days),
+        now: chrono::Utc::now(),
+    };
+    let plan = build_plan(&request, &sources).map_err(|e| match e {
+        PlanError::Wind(w) => CliError::Wind(w),
+        other => CliError::Plan {
+            path: args.scenario.clone(),
+            message: other.to_string(),
+        },
+    })?;
+    let format = match args.format {
+        PlanFormatArg::Table => PlanFormat::Table,
+        PlanFormatArg::Csv => PlanFormat::Csv,
+        PlanFormatArg::Json => PlanFormat::Json,
+        PlanFormatArg::Geojson => PlanFormat::GeoJson,
+        PlanFormatArg::Gpx => PlanFormat::Gpx,
+    };
+    write_output(args.out.as_deref(), render_plan(&plan, format).as_bytes())
 }
 
 /// Arguments of `shelfwind demo`.
@@ -147,6 +241,14 @@ pub enum CliError {
     /// The scenario file is bad.
     #[error("bad scenario file: {0}")]
     Scenario(#[from] ScenarioError),
+    /// No plan can be made from this scenario.
+    #[error("cannot plan: {message}: {}", path.display())]
+    Plan {
+        /// The scenario file.
+        path: PathBuf,
+        /// Why.
+        message: String,
+    },
     /// Wind files.
     #[error(transparent)]
     Wind(#[from] WindError),

@@ -19,6 +19,7 @@ pub mod cli;
 pub mod coast;
 pub mod export;
 pub mod physics;
+pub mod plan;
 pub mod scenario;
 pub mod upwelling;
 pub mod wind;

@@ -1,7 +1,7 @@
 //! The `shelfwind` program: subcommands run the headless command line.
 
 use clap::{CommandFactory, Parser};
-use shelfwind::cli::{Cli, Command, run_demo, run_index};
+use shelfwind::cli::{Cli, Command, run_demo, run_index, run_plan};
 use std::process::ExitCode;
 
 fn main() -> ExitCode {
@@ -11,6 +11,7 @@ fn main() -> ExitCode {
     let cli = Cli::parse();
     let result = match &cli.command {
         Some(Command::Index(args)) => run_index(args),
+        Some(Command::Plan(args)) => run_plan(args),
         Some(Command::Demo(args)) => run_demo(args),
         None => {
             // The desktop app comes in a later version; until then, show the help.

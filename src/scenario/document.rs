@@ -1,7 +1,8 @@
 //! What a scenario holds, and the checks that keep its values valid.
 
 use crate::coast::{CoastSegment, LatLon};
-use crate::upwelling::IndexSettings;
+use crate::plan::TripSettings;
+use crate::upwelling::{EventSettings, IndexSettings, ResponseSettings};
 use serde::{Deserialize, Serialize};
 use std::collections::HashSet;
 use std::path::PathBuf;
@@ -45,6 +46,15 @@ pub struct ModelSettings {
     pub index: IndexSettings,
     /// Length of the stretches segments are cut into, nautical miles.
     pub stretch_length_nm: f64,
+    /// Upwelling event thresholds.
+    #[serde(default)]
+    pub events: EventSettings,
+    /// The biological response model.
+    #[serde(default)]
+    pub response: ResponseSettings,
+    /// Trip planning and scoring.
+    #[serde(default)]
+    pub trip: TripSettings,
 }
 
 impl Default for ModelSettings {
@@ -52,6 +62,9 @@ impl Default for ModelSettings {
         Self {
             index: IndexSettings::default(),
             stretch_length_nm: 5.0,
+            events: EventSettings::default(),
+            response: ResponseSettings::default(),
+            trip: TripSettings::default(),
         }
     }
 }
@@ -180,6 +193,77 @@ impl Scenario {
             100.0,
             "nm",
         )?;
-        Ok(())
+        let r = &s.response;
+        let what = "settings.response";
+        check_range(what, "lag_peak_days", r.lag_peak_days, 0.5, 30.0, "days")?;
+        check_range(what, "lag_shape", r.lag_shape, 1.1, 20.0, "")?;
+        check_range(
+            what,
+            "optimum_m3s_per_100m",
+            r.optimum_m3s_per_100m,
+            1.0,
+            2000.0,
+            "m^3/s per 100 m",
+        )?;
+        check_range(
+            what,
+            "flush_scale_m3s_per_100m",
+            r.flush_scale_m3s_per_100m,
+            1.0,
+            10_000.0,
+            "m^3/s per 100 m",
+        )?;
+        check_range(
+            what,
+            "long_event_days",
+            r.long_event_days,
+            0.5,
+            60.0,
+            "days",
+        )?;
+        check_range(what, "relaxation_bonus", r.relaxation_bonus, 0.0, 1.0, "")?;
+        check_range(
+            what,
+            "relaxation_window_days",
+            r.relaxation_window_days,
+            0.5,
+            30.0,
+            "days",
+        )?;
+        check_range(
+            what,
+            "sustained_event_days",
+            r.sustained_event_days,
+            0.0,
+            60.0,
+            "days",
+        )?;
+        check_range(
+            what,
+            "pumping_width_km",
+            r.pumping_width_km,
+            0.0,
+            100.0,
+            "km",
+        )?;
+        if !(1..=120).contains(&r.lag_tail_days) {
+            return Err(format!(
+                "{what}: lag_tail_days {} is out of range: expected 1 to 120 days",
+                r.lag_tail_days
+            ));
+        }
+        let e = &s.events;
+        let what = "settings.events";
+        check_range(
+            what,
+            "threshold_m3s_per_100m",
+            e.threshold_m3s_per_100m,
+            -1000.0,
+            5000.0,
+            "m^3/s per 100 m",
+        )?;
+        check_range(what, "min_duration_h", e.min_duration_h, 0.0, 720.0, "h")?;
+        check_range(what, "max_gap_h", e.max_gap_h, 0.0, 240.0, "h")?;
+        s.trip.validate()
     }
 }

@@ -1,5 +1,14 @@
-//! From wind at the coast to the coastal upwelling index, per segment and time.
+//! From wind at the coast to the coastal upwelling index, its events and seasons, and
+//! the lagged biological response.
 
+mod events;
 mod index;
+mod response;
+mod season;
 
+pub use events::{
+    EventSettings, Relaxation, UpwellingEvent, cumulative, detect_events, relaxations,
+};
 pub use index::{IndexSeries, IndexSettings, UpwellingError, index_series};
+pub use response::{DayInput, DayResponse, ResponseSettings};
+pub use season::{SeasonMetrics, season_metrics};

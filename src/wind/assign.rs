@@ -5,7 +5,7 @@
 //! series without a position covers every segment; a point series with a position covers
 //! the segments to which it is the nearest of the positioned series given.
 
-use super::{PointSeries, WindError, WindFileError, read_csv_series, sample_grib2};
+use super::{PointSeries, WindError, WindFileError, WindSeries, read_csv_series, sample_grib2};
 use crate::coast::{LatLon, Segment, distance_m};
 use crate::physics::Wind;
 use chrono::{DateTime, Utc};
@@ -205,4 +205,75 @@ fn length_weighted(pieces: &[crate::coast::Piece], winds: &[Vec<Wind>]) -> Vec<W
             Wind::new(u, v)
         })
         .collect()
+}
+
+/// Wind at a list of points, from [`sample_points`].
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct PointSamples {
+    /// For each point, its wind, or `None` where no file covers it.
+    pub series: Vec<Option<WindSeries>>,
+    /// The latest reference (issue) time among the GRIB2 files used, if any.
+    pub latest_reference: Option<DateTime<Utc>>,
+}
+
+/// The wind at arbitrary points (routes, probes around a stretch), each from the first
+/// source that covers it, by the same rules as segments.
+pub fn sample_points(sources: &[WindSource], points: &[LatLon]) -> Result<PointSamples, WindError> {
+    let stations: Vec<(usize, LatLon)> = sources
+        .iter()
+        .enumerate()
+        .filter_map(|(k, s)| match s {
+            WindSource::Series { series, .. } => series.position.map(|p| (k, p)),
+            WindSource::Grib2 { .. } => None,
+        })
+        .collect();
+    let nearest_station = |p: LatLon| {
+        stations
+            .iter()
+            .min_by(|a, b| distance_m(a.1, p).total_cmp(&distance_m(b.1, p)))
+            .map(|s| s.0)
+    };
+    let mut out: Vec<Option<WindSeries>> = vec![None; points.len()];
+    let mut latest_reference: Option<DateTime<Utc>> = None;
+    for (k, source) in sources.iter().enumerate() {
+        let pending: Vec<usize> = (0..points.len()).filter(|&i| out[i].is_none()).collect();
+        if pending.is_empty() {
+            break;
+        }
+        match source {
+            WindSource::Series { series, .. } => {
+                for i in pending {
+                    if series.position.is_none() || nearest_station(points[i]) == Some(k) {
+                        out[i] = Some(series.series.clone());
+                    }
+                }
+            }
+            WindSource::Grib2 { path } => {
+                let wanted: Vec<LatLon> = pending.iter().map(|&i| points[i]).collect();
+                let file = std::fs::File::open(path).map_err(|e| WindError::File {
+                    path: path.clone(),
+                    source: e.into(),
+                })?;
+                let samples =
+                    sample_grib2(std::io::BufReader::with_capacity(1 << 16, file), &wanted)
+                        .map_err(|source| WindError::File {
+                            path: path.clone(),
+                            source,
+                        })?;
+                if let Some(t) = samples.latest_reference {
+                    latest_reference = Some(latest_reference.map_or(t, |x| x.max(t)));
+                }
+                for (i, wind) in pending.into_iter().zip(samples.points) {
+                    out[i] = wind.map(|wind| WindSeries {
+                        times: samples.times.clone(),
+                        wind,
+                    });
+                }
+            }
+        }
+    }
+    Ok(PointSamples {
+        series: out,
+        latest_reference,
+    })
 }

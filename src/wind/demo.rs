@@ -1,11 +1,14 @@
-//! The synthetic seven-day forecast of the demo scenario.
+//! The synthetic wind of the demo scenario: the past week and a seven-day forecast.
 //!
-//! Invented weather that tells a story a skipper would recognise, hour by hour from
-//! local midnight (UTC−7) on 10 May 2027: a light southerly; the wind veering north-west
-//! and building (upwelling starts); a strong north-westerly blow on days 4 and 5 too rough
-//! for the small boat; a relaxation with light winds; and a turn to the south ahead of
-//! a front on day 7. The wind is a little stronger offshore and to the north, so the
-//! field has curl, and it freshens in the afternoons.
+//! Invented weather that tells a story a skipper would recognise. The past week (hourly
+//! analyses, 3–9 May 2027): a moderate north-westerly upwelling event of about three
+//! days, then light winds, so a bloom is due when the forecast starts. The forecast,
+//! issued at local midnight (UTC−7) on 10 May 2027, hourly for seven days: a light
+//! southerly; the wind veering north-west and building (upwelling starts again); a strong
+//! north-westerly blow on days 4 and 5 too rough for the small boat; a relaxation with
+//! light winds; and a turn to the south ahead of a front on day 7. The wind is a little
+//! stronger offshore and to the north, so the field has curl, and it freshens in the
+//! afternoons.
 
 use super::{GridField, encode_wind_message};
 use crate::physics::{Wind, knots_to_m_s};
@@ -19,8 +22,10 @@ pub fn demo_reference_time() -> DateTime<Utc> {
         .unwrap_or_default()
 }
 
-/// Number of hourly steps after the reference time (7 days).
+/// Number of hourly forecast steps after the reference time (7 days).
 pub const DEMO_HOURS: u32 = 168;
+/// Hours of past analyses before the reference time (7 days).
+pub const DEMO_PAST_HOURS: u32 = 168;
 /// Northern edge of the demo grid, degrees north.
 pub const DEMO_LAT_NORTH_DEG: f64 = 40.75;
 /// Western edge of the demo grid, degrees east.
@@ -32,8 +37,18 @@ pub const DEMO_NI: usize = 13;
 /// Rows of the demo grid.
 pub const DEMO_NJ: usize = 14;
 
-/// The story: (hour from the start, speed in knots, direction the wind blows from).
+/// The story: (hour from the forecast's reference time, speed in knots, direction the
+/// wind blows from).
 const KEYFRAMES: &[(f64, f64, f64)] = &[
+    (-168.0, 7.0, 200.0),
+    (-156.0, 10.0, 300.0),
+    (-144.0, 15.0, 320.0),
+    (-100.0, 16.0, 320.0),
+    (-86.0, 12.0, 320.0),
+    (-74.0, 7.0, 310.0),
+    (-60.0, 5.0, 280.0),
+    (-24.0, 5.0, 230.0),
+    (-6.0, 6.0, 190.0),
     (0.0, 7.0, 180.0),
     (18.0, 8.0, 200.0),
     (30.0, 14.0, 320.0),
@@ -73,20 +88,25 @@ pub fn demo_wind(lat_deg: f64, lon_deg: f64, hour: f64) -> Wind {
     )
 }
 
-/// The demo forecast as a GRIB2 file: 10 m u and v, hourly for seven days, on a
-/// 0.25° grid around the demo coast.
+/// The demo wind as a GRIB2 file of 10 m u and v on a 0.25° grid around the demo coast:
+/// hourly analyses of the past week (each its own reference time, step 0), then the
+/// forecast issued at [`demo_reference_time`], hourly for seven days.
 #[must_use]
 pub fn demo_forecast_grib2() -> Vec<u8> {
-    let reference = demo_reference_time();
+    let issued = demo_reference_time();
     let mut out = Vec::new();
-    for step in 0..=DEMO_HOURS {
+    let past = -i64::from(DEMO_PAST_HOURS)..0;
+    let hours = past
+        .map(|h| (h, issued + chrono::Duration::hours(h), 0))
+        .chain((0..=DEMO_HOURS).map(|step| (i64::from(step), issued, step)));
+    for (hour, reference, step) in hours {
         let mut u = Vec::with_capacity(DEMO_NI * DEMO_NJ);
         let mut v = Vec::with_capacity(DEMO_NI * DEMO_NJ);
         for j in 0..DEMO_NJ {
             for i in 0..DEMO_NI {
                 let lat = DEMO_LAT_NORTH_DEG - DEMO_STEP_DEG * j as f64;
                 let lon = DEMO_LON_WEST_DEG + DEMO_STEP_DEG * i as f64;
-                let w = demo_wind(lat, lon, f64::from(step));
+                let w = demo_wind(lat, lon, hour as f64);
                 u.push(w.u_m_s);
                 v.push(w.v_m_s);
             }
@@ -114,11 +134,19 @@ mod tests {
     use crate::physics::m_s_to_knots;
 
     #[test]
-    fn the_story_has_a_blow_a_relaxation_and_a_turn() {
+    fn the_story_has_a_past_event_a_blow_a_relaxation_and_a_turn() {
         let at = |h: f64| demo_wind(39.0, -123.8, h);
         let kt = |h: f64| m_s_to_knots(at(h).speed_m_s());
         let from = |h: f64| at(h).direction_from_deg().expect("wind");
-        assert!(from(6.0) > 170.0 && from(6.0) < 210.0, "starts southerly");
+        assert!(
+            kt(-120.0) > 13.0 && (300.0..340.0).contains(&from(-120.0)),
+            "an event last week"
+        );
+        assert!(kt(-40.0) < 7.0, "then light winds");
+        assert!(
+            from(6.0) > 170.0 && from(6.0) < 210.0,
+            "the forecast starts southerly"
+        );
         assert!(kt(84.0) > 30.0, "a blow on day 4: {}", kt(84.0));
         assert!(kt(120.0) < 8.0, "relaxation on day 6: {}", kt(120.0));
         assert!(

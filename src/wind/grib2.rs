@@ -24,6 +24,9 @@ pub struct Grib2Samples {
     /// For each requested point, the wind at every time, or `None` when the grid does
     /// not cover the point (outside the grid, or a missing value at some time).
     pub points: Vec<Option<Vec<Wind>>>,
+    /// The latest reference (issue) time of the wind messages: when the newest forecast
+    /// in the file was made. Earlier steps of the file are the recent past.
+    pub latest_reference: Option<DateTime<Utc>>,
 }
 
 /// What the scanner reads from one product definition section (section 4).
@@ -338,6 +341,7 @@ pub fn sample_grib2<R: Read + Seek>(
     let mut other_params: Vec<String> = Vec::new();
     let mut pos = 0u64;
     let mut message = 0usize;
+    let mut latest_reference = None;
     while let Some(start) = find_magic(&mut r, pos)? {
         message += 1;
         let fail = |problem: String| WindFileError::GribMessage { message, problem };
@@ -377,6 +381,10 @@ pub fn sample_grib2<R: Read + Seek>(
             return Err(fail("does not end with \"7777\": damaged message".into()));
         }
         let (ref_time, headers) = scan_message(&msg).map_err(fail)?;
+        if headers.iter().any(|h| h.wind_component().is_some()) {
+            latest_reference =
+                Some(latest_reference.map_or(ref_time, |t: DateTime<Utc>| t.max(ref_time)));
+        }
         if headers.iter().all(|h| h.wind_component().is_none()) {
             other_params.extend(headers.iter().map(FieldHeader::describe));
             continue;
@@ -449,6 +457,7 @@ pub fn sample_grib2<R: Read + Seek>(
     Ok(Grib2Samples {
         times,
         points: per_point,
+        latest_reference,
     })
 }
 

@@ -13,11 +13,11 @@ mod grib2;
 mod grib2_writer;
 mod grid;
 
-pub use assign::{SegmentWind, WindSource, assign_wind, load_sources};
+pub use assign::{PointSamples, SegmentWind, WindSource, assign_wind, load_sources, sample_points};
 pub use csv::read_csv_series;
 pub use demo::{
-    DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_STEP_DEG,
-    demo_forecast_grib2, demo_reference_time, demo_wind,
+    DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_PAST_HOURS,
+    DEMO_STEP_DEG, demo_forecast_grib2, demo_reference_time, demo_wind,
 };
 pub use grib2::{Grib2Samples, sample_grib2};
 pub use grib2_writer::{GridField, encode_wind_message};
@@ -35,6 +35,29 @@ pub struct WindSeries {
     pub times: Vec<DateTime<Utc>>,
     /// The wind at each time.
     pub wind: Vec<Wind>,
+}
+
+impl WindSeries {
+    /// The wind at time `t`, linear in time between the two nearest steps (components
+    /// interpolated); `None` outside the series or across a gap longer than
+    /// `max_gap_h` hours.
+    #[must_use]
+    pub fn at(&self, t: DateTime<Utc>, max_gap_h: f64) -> Option<Wind> {
+        let k = self.times.partition_point(|x| *x < t);
+        if k < self.times.len() && self.times[k] == t {
+            return Some(self.wind[k]);
+        }
+        if k == 0 || k >= self.times.len() {
+            return None;
+        }
+        let (a, b) = (self.times[k - 1], self.times[k]);
+        let span_s = (b - a).num_seconds() as f64;
+        if span_s > max_gap_h * 3600.0 {
+            return None;
+        }
+        let frac = (t - a).num_seconds() as f64 / span_s;
+        Some(self.wind[k - 1].lerp(self.wind[k], frac))
+    }
 }
 
 /// A point series read from a CSV file.
