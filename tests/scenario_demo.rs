@@ -64,8 +64,9 @@ fn demo_index_has_upwelling_and_downwelling() {
     let winds = assign_wind(&[WindSource::Grib2 { path: forecast }], &segments).expect("covered");
     assert_eq!(segments.len(), 12);
     for (s, w) in segments.iter().zip(&winds) {
-        assert_eq!(w.times.len(), 169, "{}: hourly for 7 days", s.id);
-        assert_eq!(w.times[0], demo_reference_time());
+        // Hourly: the past week of analyses, then 7 days of forecast.
+        assert_eq!(w.times.len(), 168 + 169, "{}", s.id);
+        assert_eq!(w.times[168], demo_reference_time());
         let idx = index_series(s, w, &scenario.settings.index).expect("mid-latitude");
         let max = idx
             .index_m3s_per_100m
@@ -87,9 +88,10 @@ fn demo_index_has_upwelling_and_downwelling() {
             "{}: downwelling in the southerlies, min {min}",
             s.id
         );
-        // Day 4 (hours 72–96) upwells; day 7 (hours 144–168) downwells.
-        let mean =
-            |a: usize, b: usize| idx.index_m3s_per_100m[a..b].iter().sum::<f64>() / (b - a) as f64;
+        // Forecast day 4 (hours 72–96 after the past week) upwells; day 7 downwells.
+        let mean = |a: usize, b: usize| {
+            idx.index_m3s_per_100m[168 + a..168 + b].iter().sum::<f64>() / (b - a) as f64
+        };
         assert!(mean(72, 96) > 250.0 && mean(144, 168) < 0.0, "{}", s.id);
     }
 }
@@ -261,7 +263,7 @@ fn demo_then_index_from_the_command_line() {
     );
     assert_eq!(
         String::from_utf8_lossy(&explicit.stdout).lines().count(),
-        1 + 12 * 169
+        1 + 12 * 337
     );
     let implicit = shelfwind(&["index", "--coast", scenario.to_str().expect("utf-8")]);
     assert_eq!(implicit.stdout, explicit.stdout);

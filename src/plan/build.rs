@@ -357,9 +357,8 @@ pub fn build_plan(req: &PlanRequest<'_>, sources: &[WindSource]) -> Result<Plan,
         .with_minute(0)
         .and_then(|t| t.with_second(0))
         .unwrap_or(first);
-    let hours: Vec<DateTime<Utc>> = (0..)
+    let hours: Vec<DateTime<Utc>> = (0..=(last - first_hour).num_hours())
         .map(|k| first_hour + Duration::hours(k))
-        .take_while(|t| *t <= last)
         .collect();
 
     let first_day = local_day(tz, first);
@@ -484,7 +483,7 @@ fn pumping_at(
     settings: &crate::scenario::ModelSettings,
     f_centre: f64,
 ) -> Option<f64> {
-    let [Some(e), Some(w), Some(n), Some(s)] = *winds else {
+    let [Some(east), Some(west), Some(north), Some(south)] = *winds else {
         return None;
     };
     let tau = |wind: Wind| wind_stress(wind, &settings.index.drag, settings.index.rho_air_kg_m3);
@@ -494,8 +493,8 @@ fn pumping_at(
     }
     let dx = distance_m(points[idx[1]], points[idx[0]]);
     let dy = distance_m(points[idx[3]], points[idx[2]]);
-    let d_tauy_f_dx = (tau(e).y_pa / f(0) - tau(w).y_pa / f(1)) / dx;
-    let d_taux_f_dy = (tau(n).x_pa / f(2) - tau(s).x_pa / f(3)) / dy;
+    let d_tauy_f_dx = (tau(east).y_pa / f(0) - tau(west).y_pa / f(1)) / dx;
+    let d_taux_f_dy = (tau(north).x_pa / f(2) - tau(south).x_pa / f(3)) / dy;
     Some((d_tauy_f_dx - d_taux_f_dy) / settings.index.rho_water_kg_m3)
 }
 
@@ -680,14 +679,14 @@ fn rank_day(
     // does not chain every stretch into one tie.
     let mut rank = 0;
     let mut leader_score = f64::INFINITY;
-    for i in 0..ranked.len() {
-        let tied = i > 0 && (leader_score - ranked[i].score) < trip.tie_margin_points;
+    for (i, r) in ranked.iter_mut().enumerate() {
+        let tied = i > 0 && (leader_score - r.score) < trip.tie_margin_points;
         if !tied {
             rank = i + 1;
-            leader_score = ranked[i].score;
+            leader_score = r.score;
         }
-        ranked[i].rank = rank;
-        ranked[i].tied_with_above = tied;
+        r.rank = rank;
+        r.tied_with_above = tied;
     }
     DayPlan {
         date,

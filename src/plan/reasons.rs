@@ -53,7 +53,7 @@ fn knots_vs(wind_kt: f64, limit_kt: f64) -> String {
 }
 
 pub(super) fn closed(c: &Closure) -> String {
-    let mut s = format!(
+    let s = format!(
         "closed to fishing: {}",
         if c.reason.is_empty() {
             "no reason given"
@@ -61,17 +61,13 @@ pub(super) fn closed(c: &Closure) -> String {
             &c.reason
         }
     );
-    match (c.from, c.to) {
-        (Some(f), Some(t)) => s.push_str(&format!(
-            " ({} to {})",
-            f.format("%-d %b"),
-            t.format("%-d %b %Y")
-        )),
-        (None, Some(t)) => s.push_str(&format!(" (until {})", t.format("%-d %b %Y"))),
-        (Some(f), None) => s.push_str(&format!(" (from {})", f.format("%-d %b %Y"))),
-        (None, None) => {}
-    }
-    s
+    let dates = match (c.from, c.to) {
+        (Some(f), Some(t)) => format!(" ({} to {})", f.format("%-d %b"), t.format("%-d %b %Y")),
+        (None, Some(t)) => format!(" (until {})", t.format("%-d %b %Y")),
+        (Some(f), None) => format!(" (from {})", f.format("%-d %b %Y")),
+        (None, None) => String::new(),
+    };
+    s + &dates
 }
 
 pub(super) fn never_safe(tz: Tz, working: &[&StretchHour], vessel: &Vessel) -> String {
@@ -191,6 +187,8 @@ fn wind_reason(tz: Tz, r: &RankedStretch, working: &[&StretchHour], vessel: &Ves
     }
 }
 
+// The reasons draw on every part of the plan for one stretch and day.
+#[allow(clippy::too_many_arguments)]
 pub(super) fn ranked(
     tz: Tz,
     date: NaiveDate,

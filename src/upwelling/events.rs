@@ -78,7 +78,7 @@ pub fn detect_events(
             }
             match runs.last_mut() {
                 Some(last) if hours(times[last.1], times[start]) <= settings.max_gap_h => {
-                    last.1 = k
+                    last.1 = k;
                 }
                 _ => runs.push((start, k)),
             }
@@ -144,8 +144,8 @@ mod tests {
         let t0 = DateTime::parse_from_rfc3339("2027-05-01T00:00:00Z")
             .expect("valid")
             .to_utc();
-        (0..values.len())
-            .map(|k| t0 + Duration::hours(k as i64))
+        (0..i64::try_from(values.len()).expect("short series"))
+            .map(|k| t0 + Duration::hours(k))
             .collect()
     }
 
