@@ -3,7 +3,9 @@
 
 use crate::atomic::write_atomic;
 use crate::coast::{CoastError, Land, SeaSideError, Segment, read_coast_geojson, resolve_segments};
-use crate::export::{IndexFormat, PlanFormat, index_records, render_plan, write_index};
+use crate::export::{
+    IndexFormat, PlanFormat, index_records, render_plan, trip_sheet_html, write_index,
+};
 use crate::physics::DragChoice;
 use crate::plan::{PlanError, PlanRequest, build_plan};
 use crate::scenario::{Scenario, ScenarioError, is_scenario_text, load_scenario};
@@ -28,6 +30,11 @@ pub struct Cli {
 /// The subcommands.
 #[derive(Debug, Subcommand)]
 pub enum Command {
+    /// Open the desktop app on a scenario file.
+    Open {
+        /// The scenario file.
+        scenario: PathBuf,
+    },
     /// Coastal upwelling index per coast segment and forecast time.
     Index(IndexArgs),
     /// Ranked stretches per day for a boat and its home port, with reasons.
@@ -49,6 +56,8 @@ pub enum PlanFormatArg {
     Geojson,
     /// Waypoints and routes for a chart plotter (GPX 1.1).
     Gpx,
+    /// A printable trip sheet for the first planned day, as self-contained HTML.
+    Html,
 }
 
 /// Arguments of `shelfwind plan`.
@@ -109,6 +118,7 @@ pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
         from: args.from,
         days: usize::from(args.days),
         now: chrono::Utc::now(),
+        progress: None,
     };
     let plan = build_plan(&request, &sources).map_err(|e| match e {
         PlanError::Wind(w) => CliError::Wind(w),
@@ -123,6 +133,10 @@ pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
         PlanFormatArg::Json => PlanFormat::Json,
         PlanFormatArg::Geojson => PlanFormat::GeoJson,
         PlanFormatArg::Gpx => PlanFormat::Gpx,
+        PlanFormatArg::Html => {
+            let sheet = trip_sheet_html(&plan, Land::bundled(), 0);
+            return write_output(args.out.as_deref(), sheet.as_bytes());
+        }
     };
     write_output(args.out.as_deref(), render_plan(&plan, format).as_bytes())
 }
@@ -241,6 +255,9 @@ pub enum CliError {
     /// The scenario file is bad.
     #[error("bad scenario file: {0}")]
     Scenario(#[from] ScenarioError),
+    /// The desktop app could not start.
+    #[error("{0}")]
+    App(String),
     /// No plan can be made from this scenario.
     #[error("cannot plan: {message}: {}", path.display())]
     Plan {

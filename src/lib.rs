@@ -10,16 +10,20 @@
 //! - [`wind`]: the wind model and its importers (GRIB2, CSV);
 //! - [`upwelling`]: the index per segment over time;
 //! - [`export`]: tables for other tools;
-//! - [`cli`]: the command line.
+//! - [`cli`]: the command line;
+//! - `app` (feature `gui`): the desktop app.
 //!
 //! Not a navigation aid and no substitute for official marine forecasts and warnings.
 
+#[cfg(feature = "gui")]
+pub mod app;
 pub mod atomic;
 pub mod cli;
 pub mod coast;
 pub mod export;
 pub mod physics;
 pub mod plan;
+pub mod progress;
 pub mod scenario;
 pub mod upwelling;
 pub mod wind;

@@ -1,8 +1,23 @@
-//! The `shelfwind` program: subcommands run the headless command line.
+//! The `shelfwind` program: no arguments (or `open`) start the desktop app; the other
+//! subcommands run the headless command line.
 
-use clap::{CommandFactory, Parser};
+use clap::Parser;
 use shelfwind::cli::{Cli, Command, run_demo, run_index, run_plan};
 use std::process::ExitCode;
+
+/// The desktop app, or a message when this build has none.
+fn run_app(scenario: Option<std::path::PathBuf>) -> Result<(), shelfwind::cli::CliError> {
+    #[cfg(feature = "gui")]
+    {
+        shelfwind::app::run(scenario).map_err(shelfwind::cli::CliError::App)
+    }
+    #[cfg(not(feature = "gui"))]
+    {
+        let _ = scenario;
+        let _ = <Cli as clap::CommandFactory>::command().print_help();
+        Ok(())
+    }
+}
 
 fn main() -> ExitCode {
     std::panic::set_hook(Box::new(|info| {
@@ -10,14 +25,11 @@ fn main() -> ExitCode {
     }));
     let cli = Cli::parse();
     let result = match &cli.command {
+        Some(Command::Open { scenario }) => run_app(Some(scenario.clone())),
         Some(Command::Index(args)) => run_index(args),
         Some(Command::Plan(args)) => run_plan(args),
         Some(Command::Demo(args)) => run_demo(args),
-        None => {
-            // The desktop app comes in a later version; until then, show the help.
-            let _ = Cli::command().print_help();
-            return ExitCode::SUCCESS;
-        }
+        None => run_app(None),
     };
     match result {
         Ok(()) => ExitCode::SUCCESS,

@@ -36,6 +36,7 @@ fn demo_plan(vessel: &str, port: &str, from: Option<NaiveDate>, days: usize) -> 
         from,
         days,
         now: chrono::Utc::now(),
+        progress: None,
     };
     build_plan(&req, &[WindSource::Grib2 { path }]).expect("plan")
 }
@@ -168,6 +169,7 @@ fn over_the_limit_all_day_drops_out_with_the_reason() {
         from: Some(day("2027-05-11")),
         days: 1,
         now: chrono::Utc::now(),
+        progress: None,
     };
     let plan = build_plan(&req, &sources).expect("plan");
     assert!(plan.days[0].ranked.is_empty());

@@ -1,8 +1,11 @@
 //! Writing results for people and other tools: the index table (CSV, JSON) and the plan
 //! (table, CSV, JSON, GeoJSON, GPX).
 
+pub mod colour;
 mod index_table;
 mod plan_out;
+mod trip_sheet;
 
 pub use index_table::{IndexFormat, IndexRecord, index_records, write_index};
 pub use plan_out::{GPX_STRETCHES_PER_DAY, PlanFormat, render_plan};
+pub use trip_sheet::trip_sheet_html;

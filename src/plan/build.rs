@@ -9,7 +9,7 @@ use crate::physics::{
 };
 use crate::scenario::{Port, Scenario, Vessel};
 use crate::upwelling::{DayInput, DayResponse, UpwellingEvent, detect_events};
-use crate::wind::{WindError, WindSeries, WindSource, sample_points};
+use crate::wind::{WindError, WindSeries, WindSource, sample_points, sample_points_with};
 use chrono::{DateTime, Duration, NaiveDate, TimeZone, Timelike, Utc};
 use chrono_tz::Tz;
 
@@ -44,6 +44,8 @@ pub struct PlanRequest<'a> {
     pub days: usize,
     /// "Now", for the default first day.
     pub now: DateTime<Utc>,
+    /// Progress of reading the wind, and the Cancel button.
+    pub progress: Option<std::sync::Arc<crate::progress::Progress>>,
 }
 
 /// The wind and index of a stretch in one hour.
@@ -63,6 +65,8 @@ pub struct StretchHour {
     pub route_max_wind_kt: Option<f64>,
     /// Ekman pumping just offshore, m/s, where a grid gives it.
     pub pumping_m_s: Option<f64>,
+    /// Ekman transport at the centre, toward east and north, m^2/s.
+    pub transport_m2_s: (f64, f64),
 }
 
 /// One local day of a stretch.
@@ -332,7 +336,10 @@ pub fn build_plan(req: &PlanRequest<'_>, sources: &[WindSource]) -> Result<Plan,
             route: route_start..points.len(),
         });
     }
-    let sampled = sample_points(sources, &points)?;
+    let sampled = match &req.progress {
+        Some(p) => sample_points_with(sources, &points, p)?,
+        None => sample_points(sources, &points)?,
+    };
     let winds = sampled.series;
 
     // The hourly timeline: every whole hour the wind covers.
@@ -419,6 +426,7 @@ pub fn build_plan(req: &PlanRequest<'_>, sources: &[WindSource]) -> Result<Plan,
                 })
                 .sum();
             let tau = wind_stress(wind, &settings.index.drag, settings.index.rho_air_kg_m3);
+            let m = ekman_transport(tau, f_centre, settings.index.rho_water_kg_m3);
             let along = info.alongshore_bearing_deg.to_radians();
             let alongshore_stress_pa = tau.x_pa * along.sin() + tau.y_pa * along.cos();
             let route_max_wind_kt = probe
@@ -441,6 +449,7 @@ pub fn build_plan(req: &PlanRequest<'_>, sources: &[WindSource]) -> Result<Plan,
                 index_m3s_per_100m: index,
                 route_max_wind_kt,
                 pumping_m_s,
+                transport_m2_s: (m.x_m2_s, m.y_m2_s),
             });
         }
         let times: Vec<_> = info.hours.iter().map(|h| h.time).collect();

@@ -5,9 +5,13 @@
 //! series without a position covers every segment; a point series with a position covers
 //! the segments to which it is the nearest of the positioned series given.
 
-use super::{PointSeries, WindError, WindFileError, WindSeries, read_csv_series, sample_grib2};
+use super::{
+    PointSeries, WindError, WindFileError, WindSeries, read_csv_series, sample_grib2,
+    sample_grib2_with,
+};
 use crate::coast::{LatLon, Segment, distance_m};
 use crate::physics::Wind;
+use crate::progress::Progress;
 use chrono::{DateTime, Utc};
 use std::io::Read;
 use std::path::{Path, PathBuf};
@@ -219,6 +223,16 @@ pub struct PointSamples {
 /// The wind at arbitrary points (routes, probes around a stretch), each from the first
 /// source that covers it, by the same rules as segments.
 pub fn sample_points(sources: &[WindSource], points: &[LatLon]) -> Result<PointSamples, WindError> {
+    sample_points_with(sources, points, &Progress::new())
+}
+
+/// Like [`sample_points`], reporting progress through each GRIB2 file and stopping
+/// when asked to.
+pub fn sample_points_with(
+    sources: &[WindSource],
+    points: &[LatLon],
+    progress: &Progress,
+) -> Result<PointSamples, WindError> {
     let stations: Vec<(usize, LatLon)> = sources
         .iter()
         .enumerate()
@@ -254,12 +268,15 @@ pub fn sample_points(sources: &[WindSource], points: &[LatLon]) -> Result<PointS
                     path: path.clone(),
                     source: e.into(),
                 })?;
-                let samples =
-                    sample_grib2(std::io::BufReader::with_capacity(1 << 16, file), &wanted)
-                        .map_err(|source| WindError::File {
-                            path: path.clone(),
-                            source,
-                        })?;
+                let samples = sample_grib2_with(
+                    std::io::BufReader::with_capacity(1 << 16, file),
+                    &wanted,
+                    progress,
+                )
+                .map_err(|source| WindError::File {
+                    path: path.clone(),
+                    source,
+                })?;
                 if let Some(t) = samples.latest_reference {
                     latest_reference = Some(latest_reference.map_or(t, |x| x.max(t)));
                 }

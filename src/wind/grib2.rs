@@ -12,6 +12,7 @@ use super::WindFileError;
 use super::grid::{RegularGrid, Weights, interpolate};
 use crate::coast::LatLon;
 use crate::physics::Wind;
+use crate::progress::Progress;
 use chrono::{DateTime, TimeZone, Utc};
 use std::collections::{BTreeMap, HashMap};
 use std::io::{Read, Seek, SeekFrom};
@@ -327,8 +328,18 @@ struct Field {
 
 /// Reads every 10 m u/v field of a GRIB2 stream and samples it at `points`.
 pub fn sample_grib2<R: Read + Seek>(
+    r: R,
+    points: &[LatLon],
+) -> Result<Grib2Samples, WindFileError> {
+    sample_grib2_with(r, points, &Progress::new())
+}
+
+/// Like [`sample_grib2`], reporting the share of the file read to `progress` and
+/// stopping with [`WindFileError::Cancelled`] when asked to.
+pub fn sample_grib2_with<R: Read + Seek>(
     mut r: R,
     points: &[LatLon],
+    progress: &Progress,
 ) -> Result<Grib2Samples, WindFileError> {
     let file_len = r.seek(SeekFrom::End(0))?;
     if file_len == 0 {
@@ -343,6 +354,10 @@ pub fn sample_grib2<R: Read + Seek>(
     let mut message = 0usize;
     let mut latest_reference = None;
     while let Some(start) = find_magic(&mut r, pos)? {
+        if progress.is_cancelled() {
+            return Err(WindFileError::Cancelled);
+        }
+        progress.set(start as f32 / file_len as f32);
         message += 1;
         let fail = |problem: String| WindFileError::GribMessage { message, problem };
         r.seek(SeekFrom::Start(start))?;

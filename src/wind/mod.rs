@@ -13,13 +13,16 @@ mod grib2;
 mod grib2_writer;
 mod grid;
 
-pub use assign::{PointSamples, SegmentWind, WindSource, assign_wind, load_sources, sample_points};
+pub use assign::{
+    PointSamples, SegmentWind, WindSource, assign_wind, load_sources, sample_points,
+    sample_points_with,
+};
 pub use csv::read_csv_series;
 pub use demo::{
     DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_PAST_HOURS,
     DEMO_STEP_DEG, demo_forecast_grib2, demo_reference_time, demo_wind,
 };
-pub use grib2::{Grib2Samples, sample_grib2};
+pub use grib2::{Grib2Samples, sample_grib2, sample_grib2_with};
 pub use grib2_writer::{GridField, encode_wind_message};
 pub use grid::RegularGrid;
 
@@ -99,6 +102,9 @@ pub enum WindFileError {
     /// A problem with a GRIB2 file as a whole.
     #[error("{0}")]
     Grib(String),
+    /// The user stopped the reading.
+    #[error("stopped before the end of the file")]
+    Cancelled,
 }
 
 /// Why wind could not be had for the coast.

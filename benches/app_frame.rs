@@ -1,0 +1,104 @@
+//! Benchmark of the desktop app: time to the first frame of the demo, and CPU time per
+//! frame (outside rendering) with about 2,000 stretches on the map. Run with
+//! `cargo bench --bench app_frame`.
+
+use eframe::egui;
+use egui_kittest::Harness;
+use shelfwind::app::{AppOptions, ShelfwindApp};
+use shelfwind::scenario::{demo_scenario, save_scenario, write_demo};
+use std::time::{Duration, Instant};
+
+fn wait(harness: &mut Harness<'static, ShelfwindApp>) -> Duration {
+    let start = Instant::now();
+    while harness.state().is_busy() || harness.state().plan.is_none() {
+        harness.step();
+        std::thread::sleep(Duration::from_millis(5));
+        assert!(start.elapsed() < Duration::from_mins(10), "no plan");
+    }
+    start.elapsed()
+}
+
+fn main() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let options = AppOptions {
+        storage_dir: Some(dir.path().to_path_buf()),
+        native_dialogs: false,
+        autosave_s: 3600.0,
+    };
+
+    // First frame of the demo, from creating the app (land triangulation, demo written).
+    let t = Instant::now();
+    let o = options.clone();
+    let mut harness = Harness::builder()
+        .with_size([1500.0, 1000.0])
+        .build_eframe(move |cc| {
+            ShelfwindApp::with_memory(&cc.egui_ctx, None, o, shelfwind::app::Remembered::default())
+        });
+    harness.step();
+    let first_frame = t.elapsed();
+    let plan_ready = wait(&mut harness) + first_frame;
+    println!(
+        "demo: first frame {:.0} ms after start, ranked list ready after {:.0} ms",
+        first_frame.as_secs_f64() * 1e3,
+        plan_ready.as_secs_f64() * 1e3
+    );
+
+    // About 2,000 stretches: the demo coast cut into stretches of 0.065 nm.
+    let mut scenario = demo_scenario().expect("demo");
+    scenario.settings.stretch_length_nm = 0.5;
+    scenario.segments = scenario
+        .segments
+        .iter()
+        .flat_map(|s| {
+            // Densify every segment to short pieces so stretches stay short.
+            (0..8).map(move |k| {
+                let mut c = s.clone();
+                c.id = format!("{}-{k}", s.id);
+                c
+            })
+        })
+        .collect();
+    let (scenario_path, _) = write_demo(&dir.path().join("big")).expect("demo files");
+    save_scenario(&scenario_path, &scenario).expect("save");
+    let o = options.clone();
+    let path = scenario_path.clone();
+    let mut harness = Harness::builder()
+        .with_size([1500.0, 1000.0])
+        .build_eframe(move |cc| {
+            ShelfwindApp::with_memory(
+                &cc.egui_ctx,
+                Some(path),
+                o,
+                shelfwind::app::Remembered::default(),
+            )
+        });
+    harness.step();
+    let planned = wait(&mut harness);
+    let stretches = harness
+        .state()
+        .plan
+        .as_ref()
+        .map_or(0, |p| p.stretches.len());
+    let frames = 60;
+    let mut times = Vec::with_capacity(frames);
+    for k in 0..frames {
+        // Move through time so every frame recolours the coast.
+        harness.key_press(if k % 2 == 0 {
+            egui::Key::ArrowRight
+        } else {
+            egui::Key::ArrowLeft
+        });
+        let t = Instant::now();
+        harness.step();
+        times.push(t.elapsed().as_secs_f64() * 1e3);
+    }
+    times.sort_by(f64::total_cmp);
+    let mean = times.iter().sum::<f64>() / times.len() as f64;
+    println!(
+        "{stretches} stretches (plan built in {:.1} s): {:.2} ms per frame on average, median {:.2} ms, worst {:.2} ms (CPU, without rendering)",
+        planned.as_secs_f64(),
+        mean,
+        times[times.len() / 2],
+        times[times.len() - 1]
+    );
+}

@@ -1,0 +1,216 @@
+//! The background job that reads the wind and builds the plan, so the window never
+//! freezes; with progress and a Cancel button. A failed job leaves the previous plan
+//! (and forecast) in place.
+
+use super::edit::Edit;
+use super::state::ShelfwindApp;
+use crate::coast::{Land, resolve_segments};
+use crate::plan::{Plan, PlanRequest, build_plan};
+use crate::progress::Progress;
+use crate::scenario::Scenario;
+use crate::wind::load_sources;
+use eframe::egui;
+use std::path::PathBuf;
+use std::sync::Arc;
+use std::sync::mpsc::{Receiver, channel};
+
+/// A running plan job.
+pub struct PlanJob {
+    /// Progress and cancel.
+    pub progress: Arc<Progress>,
+    /// What the job is for.
+    pub label: String,
+    /// The new wind files, when the job imports a forecast.
+    pub new_wind_files: Option<Vec<PathBuf>>,
+    rx: Receiver<Result<Plan, String>>,
+}
+
+/// Everything the job needs, copied from the app so the thread owns it.
+struct JobInput {
+    scenario: Scenario,
+    winds: Vec<PathBuf>,
+    vessel_id: Option<String>,
+    port_id: Option<String>,
+}
+
+fn run_job(input: &JobInput, progress: &Arc<Progress>) -> Result<Plan, String> {
+    let segments =
+        resolve_segments(&input.scenario.segments, Land::bundled()).map_err(|e| e.to_string())?;
+    let sources = load_sources(&input.winds).map_err(|e| e.to_string())?;
+    let request = PlanRequest {
+        scenario: &input.scenario,
+        segments: &segments,
+        vessel_id: input.vessel_id.as_deref(),
+        port_id: input.port_id.as_deref(),
+        from: None,
+        days: 7,
+        now: chrono::Utc::now(),
+        progress: Some(progress.clone()),
+    };
+    let plan = build_plan(&request, &sources);
+    if progress.is_cancelled() {
+        return Err("stopped".into());
+    }
+    plan.map_err(|e| e.to_string())
+}
+
+impl ShelfwindApp {
+    /// The wind files of the document, as paths to read.
+    pub(super) fn wind_paths(&self, files: &[PathBuf]) -> Vec<PathBuf> {
+        files
+            .iter()
+            .map(|f| {
+                if f.is_absolute() {
+                    f.clone()
+                } else {
+                    self.base_dir().join(f)
+                }
+            })
+            .collect()
+    }
+
+    /// Starts computing the plan; with `new_wind`, trying a new forecast that replaces
+    /// the document's only if it reads.
+    pub(super) fn start_plan_job(&mut self, ctx: &egui::Context, new_wind: Option<Vec<PathBuf>>) {
+        if let Some(job) = &self.job {
+            job.progress.cancel();
+        }
+        self.plan_stale = false;
+        let scenario = self.doc.scenario.clone();
+        let files = new_wind
+            .clone()
+            .unwrap_or_else(|| scenario.wind_files.clone());
+        let valid_vessel = |id: &Option<String>| {
+            id.clone()
+                .filter(|v| scenario.vessels.iter().any(|x| &x.id == v))
+        };
+        let valid_port = |id: &Option<String>| {
+            id.clone()
+                .filter(|v| scenario.ports.iter().any(|x| &x.id == v))
+        };
+        let input = JobInput {
+            winds: self.wind_paths(&files),
+            vessel_id: valid_vessel(&self.view.vessel_id),
+            port_id: valid_port(&self.view.port_id),
+            scenario,
+        };
+        if input.scenario.segments.is_empty() {
+            self.plan = None;
+            self.plan_error =
+                Some("No coast yet: draw a segment on the map or import a GeoJSON coast.".into());
+            return;
+        }
+        let progress = Arc::new(Progress::new());
+        let (tx, rx) = channel();
+        let worker_progress = progress.clone();
+        let repaint = ctx.clone();
+        let label = match &new_wind {
+            Some(f) => format!(
+                "Reading {}",
+                f.first()
+                    .and_then(|p| p.file_name())
+                    .map(|n| n.to_string_lossy().to_string())
+                    .unwrap_or_default()
+            ),
+            None => "Reading the forecast and ranking the stretches".into(),
+        };
+        std::thread::Builder::new()
+            .name("shelfwind-plan".into())
+            .spawn(move || {
+                let result = run_job(&input, &worker_progress);
+                let _ = tx.send(result);
+                repaint.request_repaint();
+            })
+            .map_or_else(
+                |e| self.dialogs.error = Some(format!("cannot start the background job: {e}")),
+                |_| {
+                    self.job = Some(PlanJob {
+                        progress,
+                        label,
+                        new_wind_files: new_wind,
+                        rx,
+                    });
+                },
+            );
+    }
+
+    /// Takes the job's result when it is ready.
+    pub(super) fn poll_job(&mut self, _ctx: &egui::Context) {
+        let Some(job) = &self.job else { return };
+        let Ok(result) = job.rx.try_recv() else {
+            return;
+        };
+        let Some(job) = self.job.take() else { return };
+        let cancelled = job.progress.is_cancelled();
+        match (result, job.new_wind_files) {
+            (Ok(plan), new_wind) => {
+                if let Some(files) = new_wind {
+                    self.edit(Edit::SetWindFiles(files));
+                    // The edit marks the plan stale; this plan already uses the new files.
+                    self.plan_stale = false;
+                    self.dialogs.info = Some("Forecast imported.".into());
+                }
+                self.install_plan(plan);
+            }
+            (Err(_), _) if cancelled => {}
+            (Err(e), Some(files)) => {
+                let name = files
+                    .first()
+                    .map(|p| p.display().to_string())
+                    .unwrap_or_default();
+                self.dialogs.error = Some(format!(
+                    "The forecast was not imported; the previous forecast is kept.\n\n{e}\n\nFile: {name}"
+                ));
+            }
+            (Err(e), None) => {
+                self.plan_error = Some(e);
+            }
+        }
+    }
+
+    fn install_plan(&mut self, plan: Plan) {
+        let mut timeline: Vec<_> = plan
+            .stretches
+            .iter()
+            .flat_map(|s| s.hours.iter().map(|h| h.time))
+            .collect();
+        timeline.sort();
+        timeline.dedup();
+        let keep_time = self.view.timeline.get(self.view.hour).copied();
+        let first_plan_day = plan.days.first().map(|d| d.date);
+        self.view.timeline = timeline;
+        self.plan_error = None;
+        self.view.vessel_id = Some(plan.vessel.id.clone());
+        self.view.port_id = Some(plan.port.id.clone());
+        let ids: Vec<String> = plan.stretches.iter().map(|s| s.id.clone()).collect();
+        self.view.selected.retain(|s| ids.contains(s));
+        if self.view.selected.is_empty()
+            && let Some(best) = plan
+                .days
+                .get(self.view.day.min(plan.days.len().saturating_sub(1)))
+                .and_then(|d| d.ranked.first())
+        {
+            self.view.selected = vec![plan.stretches[best.stretch].id.clone()];
+        }
+        let tz = plan.time_zone;
+        // The first plan of a document brings the plots panel, which shrinks the map:
+        // frame the coast again.
+        if self.plan.is_none() {
+            self.view.fit_coast = true;
+        }
+        self.plan = Some(Arc::new(plan));
+        match keep_time.and_then(|t| self.view.timeline.iter().position(|x| *x == t)) {
+            Some(h) => self.set_hour(h),
+            None => {
+                // First plan: the first planned day at local noon.
+                let noon = self.view.timeline.iter().position(|t| {
+                    let local = t.with_timezone(&tz);
+                    Some(local.date_naive()) == first_plan_day
+                        && chrono::Timelike::hour(&local) == 12
+                });
+                self.view.day = 0;
+                self.view.hour = noon.unwrap_or(0);
+            }
+        }
+    }
+}

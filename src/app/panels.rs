@@ -1,0 +1,720 @@
+//! The panels around the map: menus, the ranked list, the time bar, the segment editor,
+//! settings, and the dialogs. Each `*_ui` draws and pushes commands; nothing here
+//! changes the document directly.
+
+use super::commands::{Command, FileAction};
+use super::edit::Edit;
+use super::state::{BaseLayer, Colouring, ShelfwindApp, Tool};
+use crate::coast::{Closure, SeaSide};
+use crate::export::colour;
+use crate::plan::{CAUTIONS, Plan};
+use eframe::egui::{self, Color32, RichText};
+
+/// Text sizes a skipper can read at arm's length.
+pub(super) fn style(ctx: &egui::Context) {
+    ctx.global_style_mut(|style| {
+        for (text_style, size) in [
+            (egui::TextStyle::Body, 15.0),
+            (egui::TextStyle::Button, 15.0),
+            (egui::TextStyle::Small, 12.5),
+            (egui::TextStyle::Heading, 20.0),
+            (egui::TextStyle::Monospace, 14.0),
+        ] {
+            if let Some(font) = style.text_styles.get_mut(&text_style) {
+                font.size = size;
+            }
+        }
+        style.spacing.item_spacing = egui::vec2(8.0, 6.0);
+        // Light, like the chart and the map: legible in daylight at the dock.
+        style.visuals = egui::Visuals::light();
+    });
+}
+
+/// Everything, in order: bars and side panels first, the map in what is left.
+pub(super) fn all_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    let now = ui.input(|i| i.time);
+    if let Some(c) = app.poll_native_dialog(now) {
+        commands.push(c);
+    }
+    egui::Panel::top("menu").show(ui, |ui| menu_ui(app, ui, commands));
+    egui::Panel::bottom("status").show(ui, |ui| status_ui(app, ui, commands));
+    if app.view.show_plots && app.plan.is_some() {
+        egui::Panel::bottom("plots")
+            .resizable(true)
+            .default_size(400.0)
+            .show(ui, |ui| {
+                super::plots::plots_ui(app, ui, commands);
+            });
+    }
+    egui::Panel::bottom("time").show(ui, |ui| time_ui(app, ui, commands));
+    egui::Panel::left("ranked")
+        .resizable(true)
+        .default_size(400.0)
+        .show(ui, |ui| ranked_ui(app, ui, commands));
+    if app.view.editing.is_some() {
+        egui::Panel::right("editor")
+            .resizable(true)
+            .default_size(300.0)
+            .show(ui, |ui| editor_ui(app, ui, commands));
+    }
+    egui::CentralPanel::default().show(ui, |ui| super::map::map_ui(app, ui, commands));
+    windows_ui(app, ui.ctx(), commands);
+}
+
+fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    egui::MenuBar::new().ui(ui, |ui| {
+        ui.menu_button("File", |ui| {
+            let mut item = |ui: &mut egui::Ui, label: &str, c: Command| {
+                if ui.button(label).clicked() {
+                    commands.push(c);
+                    ui.close();
+                }
+            };
+            item(ui, "Open scenario…", Command::AskFile(FileAction::OpenScenario));
+            item(ui, "Open the demo", Command::OpenDemo);
+            item(ui, "Save", Command::Save);
+            item(ui, "Save as…", Command::AskFile(FileAction::SaveScenarioAs));
+            ui.separator();
+            item(ui, "Import wind file…", Command::AskFile(FileAction::ImportWind));
+            item(ui, "Import coast (GeoJSON)…", Command::AskFile(FileAction::ImportCoast));
+            item(ui, "Export coast (GeoJSON)…", Command::AskFile(FileAction::ExportCoast));
+            ui.separator();
+            item(ui, "Export plan (CSV)…", Command::AskFile(FileAction::ExportPlanCsv));
+            item(ui, "Export plan (JSON)…", Command::AskFile(FileAction::ExportPlanJson));
+            item(ui, "Export stretches (GeoJSON)…", Command::AskFile(FileAction::ExportPlanGeoJson));
+            item(ui, "Export GPX for the plotter…", Command::AskFile(FileAction::ExportGpx));
+            item(ui, "Export trip sheet (HTML)…", Command::AskFile(FileAction::ExportTripSheet));
+            ui.separator();
+            item(ui, "Quit", Command::Quit);
+        });
+        ui.menu_button("Edit", |ui| {
+            if ui.add_enabled(!app.undo.is_empty(), egui::Button::new("Undo").shortcut_text("Ctrl+Z")).clicked() {
+                commands.push(Command::Undo);
+                ui.close();
+            }
+            if ui.add_enabled(!app.redo.is_empty(), egui::Button::new("Redo").shortcut_text("Ctrl+Shift+Z")).clicked() {
+                commands.push(Command::Redo);
+                ui.close();
+            }
+            ui.separator();
+            if ui.button("Draw a new segment").clicked() {
+                commands.push(Command::SetTool(Tool::Draw { points: Vec::new() }));
+                ui.close();
+            }
+            if ui.button("Model settings…").clicked() {
+                app.dialogs.show_settings = true;
+                ui.close();
+            }
+        });
+        ui.menu_button("Help", |ui| {
+            if ui.button("Cautions").clicked() {
+                app.dialogs.show_cautions = true;
+                ui.close();
+            }
+        });
+        ui.separator();
+        // The undo and redo buttons, and drawing, one click away.
+        if ui.add_enabled(!app.undo.is_empty(), egui::Button::new("Undo")).on_hover_text("Undo (Ctrl+Z)").clicked() {
+            commands.push(Command::Undo);
+        }
+        if ui.add_enabled(!app.redo.is_empty(), egui::Button::new("Redo")).on_hover_text("Redo (Ctrl+Shift+Z or Ctrl+Y)").clicked() {
+            commands.push(Command::Redo);
+        }
+        let drawing = matches!(app.view.tool, Tool::Draw { .. });
+        if ui.selectable_label(drawing, "Draw segment").clicked() {
+            commands.push(Command::SetTool(if drawing { Tool::Select } else { Tool::Draw { points: Vec::new() } }));
+        }
+        if drawing && ui.button("Finish segment").clicked() {
+            commands.push(Command::FinishDraft);
+        }
+        ui.separator();
+        let scenario = &app.doc.scenario;
+        let vessel_name = |id: &Option<String>| {
+            scenario.vessels.iter().find(|v| Some(&v.id) == id.as_ref()).or(scenario.vessels.first()).map_or("(no boat)".to_string(), |v| v.name.clone())
+        };
+        egui::ComboBox::from_label("Boat").selected_text(vessel_name(&app.view.vessel_id)).show_ui(ui, |ui| {
+            for v in &scenario.vessels {
+                if ui.selectable_label(app.view.vessel_id.as_ref() == Some(&v.id), &v.name).clicked() {
+                    commands.push(Command::SetVessel(v.id.clone()));
+                }
+            }
+        });
+        let port_name = scenario
+            .ports
+            .iter()
+            .find(|p| Some(&p.id) == app.view.port_id.as_ref())
+            .or(scenario.ports.first())
+            .map_or("(no port)".to_string(), |p| p.name.clone());
+        egui::ComboBox::from_label("Home port").selected_text(port_name).show_ui(ui, |ui| {
+            for p in &scenario.ports {
+                if ui.selectable_label(app.view.port_id.as_ref() == Some(&p.id), &p.name).clicked() {
+                    commands.push(Command::SetPort(p.id.clone()));
+                }
+            }
+        });
+        ui.separator();
+        for (c, label) in [(Colouring::IndexNow, "Index now"), (Colouring::Productivity, "Expected productivity"), (Colouring::SafeForBoat, "Safe for this boat")] {
+            if ui.selectable_label(app.view.colouring == c, label).clicked() {
+                commands.push(Command::SetColouring(c));
+            }
+        }
+        ui.separator();
+        egui::ComboBox::from_label("Base map")
+            .selected_text(match app.view.base_layer {
+                BaseLayer::BundledLand => "Land outline (offline)",
+                BaseLayer::OnlineTiles => "Street map (online)",
+            })
+            .show_ui(ui, |ui| {
+                if ui.selectable_label(app.view.base_layer == BaseLayer::BundledLand, "Land outline (offline)").clicked() {
+                    commands.push(Command::SetBaseLayer(BaseLayer::BundledLand));
+                }
+                if ui
+                    .selectable_label(app.view.base_layer == BaseLayer::OnlineTiles, "Street map (online)")
+                    .on_hover_text("OpenStreetMap tiles, fetched as you look and cached on disk; needs a network the first time.")
+                    .clicked()
+                {
+                    commands.push(Command::SetBaseLayer(BaseLayer::OnlineTiles));
+                }
+            });
+        ui.checkbox(&mut app.view.show_plots, "Plots");
+    });
+}
+
+fn status_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    ui.horizontal(|ui| {
+        if ui
+            .link(RichText::new("CAUTION: not a navigation aid. Official forecasts and local rules come first; the skipper decides.").color(Color32::from_rgb(150, 60, 0)))
+            .clicked()
+        {
+            app.dialogs.show_cautions = true;
+        }
+        ui.separator();
+        let title = app.doc.path.as_ref().map_or("the bundled demo (not saved)".to_string(), |p| p.display().to_string());
+        ui.label(format!("{}{}", title, if app.doc.dirty { " • unsaved changes" } else { "" }));
+        if let Some(job) = &app.job {
+            ui.separator();
+            ui.spinner();
+            ui.add(egui::ProgressBar::new(job.progress.fraction()).desired_width(160.0).text(job.label.clone()));
+            if ui.button("Cancel").clicked() {
+                commands.push(Command::CancelJob);
+            }
+        }
+    });
+}
+
+fn local_and_utc(plan: &Plan, t: chrono::DateTime<chrono::Utc>) -> String {
+    let local = t.with_timezone(&plan.time_zone);
+    format!(
+        "{} local  ({} UTC)",
+        local.format("%a %-d %b %H:%M"),
+        t.format("%H:%M")
+    )
+}
+
+fn time_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    let Some(plan) = app.plan.clone() else {
+        ui.horizontal(|ui| {
+            if let Some(e) = &app.plan_error {
+                ui.colored_label(Color32::from_rgb(170, 0, 0), e);
+            } else {
+                ui.spinner();
+                ui.label("Reading the forecast…");
+            }
+        });
+        return;
+    };
+    ui.horizontal(|ui| {
+        let n = app.view.timeline.len();
+        if ui
+            .button("< 1 h")
+            .on_hover_text("Back one hour (←)")
+            .clicked()
+        {
+            commands.push(Command::StepHour(-1));
+        }
+        if ui
+            .button(if app.view.playing { "Pause" } else { "Play" })
+            .clicked()
+        {
+            commands.push(Command::TogglePlay);
+        }
+        if ui
+            .button("1 h >")
+            .on_hover_text("Forward one hour (→)")
+            .clicked()
+        {
+            commands.push(Command::StepHour(1));
+        }
+        let mut hour = app.view.hour;
+        let label = app
+            .view
+            .timeline
+            .get(hour)
+            .map(|t| local_and_utc(&plan, *t))
+            .unwrap_or_default();
+        ui.spacing_mut().slider_width = (ui.available_width() - 330.0).max(200.0);
+        let slider = egui::Slider::new(&mut hour, 0..=n.saturating_sub(1)).show_value(false);
+        let r = ui.add(slider).on_hover_text("Forecast time");
+        r.widget_info(|| egui::WidgetInfo::slider(true, hour as f64, "Forecast time"));
+        if r.changed() {
+            commands.push(Command::SetHour(hour));
+        }
+        ui.label(RichText::new(label).strong());
+    });
+    // The main selected stretch at the chosen time.
+    let chosen = app
+        .view
+        .selected
+        .first()
+        .and_then(|id| plan.stretches.iter().find(|s| &s.id == id));
+    let time = app.view.timeline.get(app.view.hour);
+    if let (Some(s), Some(t)) = (chosen, time) {
+        let text = match s.hours.binary_search_by_key(t, |h| h.time) {
+            Ok(k) => {
+                let h = &s.hours[k];
+                let wind = match h.wind.direction_from_deg() {
+                    Some(d) => format!(
+                        "wind {:.0} kt from {:03.0}°",
+                        crate::physics::m_s_to_knots(h.wind.speed_m_s()),
+                        d
+                    ),
+                    None => "calm".to_string(),
+                };
+                format!(
+                    "{} now: upwelling index {:.0} m³/s per 100 m, {wind}",
+                    s.name, h.index_m3s_per_100m
+                )
+            }
+            Err(_) => format!("{} now: no forecast at this time", s.name),
+        };
+        ui.label(text);
+    }
+}
+
+fn bar(ui: &mut egui::Ui, share: f64) {
+    let (rect, _) = ui.allocate_exact_size(egui::vec2(90.0, 12.0), egui::Sense::hover());
+    ui.painter().rect_filled(rect, 2.0, Color32::from_gray(225));
+    let mut filled = rect;
+    filled.set_width(rect.width() * share.clamp(0.0, 1.0) as f32);
+    let c = colour::productivity_colour(share);
+    ui.painter()
+        .rect_filled(filled, 2.0, Color32::from_rgb(c[0], c[1], c[2]));
+}
+
+fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    let Some(plan) = app.plan.clone() else {
+        ui.heading("Where to go");
+        ui.label("The ranked stretches appear when the forecast has been read.");
+        return;
+    };
+    ui.heading("Where to go");
+    ui.label(format!("{} from {}", plan.vessel.name, plan.port.name));
+    ui.horizontal(|ui| {
+        if ui
+            .add_enabled(app.view.day > 0, egui::Button::new("< Previous day"))
+            .clicked()
+        {
+            commands.push(Command::SetDay(app.view.day.saturating_sub(1)));
+        }
+        let date = plan
+            .days
+            .get(app.view.day)
+            .map(|d| d.date.format("%A %-d %B").to_string())
+            .unwrap_or_default();
+        ui.label(RichText::new(date).heading());
+        if ui
+            .add_enabled(
+                app.view.day + 1 < plan.days.len(),
+                egui::Button::new("Next day >"),
+            )
+            .clicked()
+        {
+            commands.push(Command::SetDay(app.view.day + 1));
+        }
+    });
+    for n in &plan.notes {
+        ui.label(RichText::new(n).small().weak());
+    }
+    ui.separator();
+    let Some(day) = plan.days.get(app.view.day) else {
+        return;
+    };
+    egui::ScrollArea::vertical()
+        .auto_shrink([false, false])
+        .show(ui, |ui| {
+            if day.ranked.is_empty() {
+                ui.label(RichText::new("No stretch to recommend this day.").strong());
+            }
+            for r in &day.ranked {
+                let s = &plan.stretches[r.stretch];
+                let selected = app.view.selected.contains(&s.id);
+                ui.horizontal(|ui| {
+                    let rank = if r.tied_with_above {
+                        format!("={}", r.rank)
+                    } else {
+                        format!("{}", r.rank)
+                    };
+                    let resp = ui.selectable_label(
+                        selected,
+                        RichText::new(format!("{rank}. {}", s.name)).strong(),
+                    );
+                    resp.widget_info(|| {
+                        egui::WidgetInfo::selected(
+                            egui::Role::ListBoxOption,
+                            true,
+                            selected,
+                            format!("Stretch {}", s.name),
+                        )
+                    });
+                    if resp.clicked() {
+                        let add = ui.input(|i| i.modifiers.command || i.modifiers.shift);
+                        commands.push(Command::SelectStretch {
+                            id: s.id.clone(),
+                            add,
+                        });
+                    }
+                    bar(ui, r.score / 100.0);
+                    ui.label(format!("{:.0}", r.score)).on_hover_text(format!(
+                        "score = 100 × productivity {:.2} × window {:.2} × distance {:.2}",
+                        r.productivity, r.window_factor, r.distance_factor
+                    ));
+                    if r.tied_with_above {
+                        ui.label(RichText::new("tie").small());
+                    }
+                    if ui
+                        .small_button("Show")
+                        .on_hover_text("Centre the map here")
+                        .clicked()
+                    {
+                        commands.push(Command::CentreOn(s.centre));
+                    }
+                });
+                ui.indent(&s.id, |ui| {
+                    let (from, to) = r.safe_window;
+                    ui.label(
+                        RichText::new(format!(
+                            "safe {}–{} local ({}–{} UTC), {:.1} h fishing",
+                            from.with_timezone(&plan.time_zone).format("%H:%M"),
+                            to.with_timezone(&plan.time_zone).format("%H:%M"),
+                            from.format("%H:%M"),
+                            to.format("%H:%M"),
+                            r.fishing_hours
+                        ))
+                        .small(),
+                    );
+                    for reason in &r.reasons {
+                        ui.label(RichText::new(format!("• {reason}")).small());
+                    }
+                });
+                ui.add_space(4.0);
+            }
+            if !day.excluded.is_empty() {
+                egui::CollapsingHeader::new(format!("Not ranked ({})", day.excluded.len())).show(
+                    ui,
+                    |ui| {
+                        for e in &day.excluded {
+                            ui.label(
+                                RichText::new(format!(
+                                    "{}: {}",
+                                    plan.stretches[e.stretch].name, e.reason
+                                ))
+                                .small(),
+                            );
+                        }
+                    },
+                );
+            }
+            ui.add_space(8.0);
+            ui.label(
+                RichText::new("Ctrl-click stretches to compare them in the plots.")
+                    .small()
+                    .weak(),
+            );
+        });
+}
+
+fn editor_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    let Some(id) = app.view.editing.clone() else {
+        return;
+    };
+    let Some(seg) = app
+        .doc
+        .scenario
+        .segments
+        .iter()
+        .find(|s| s.id == id)
+        .cloned()
+    else {
+        commands.push(Command::EditSegment(None));
+        return;
+    };
+    ui.horizontal(|ui| {
+        ui.heading("Segment");
+        if ui.button("Close").clicked() {
+            commands.push(Command::EditSegment(None));
+        }
+    });
+    ui.label(RichText::new(format!("id: {}", seg.id)).small());
+    let mut name = seg.name.clone();
+    let label = ui.label("Segment name");
+    let r = ui
+        .add(egui::TextEdit::singleline(&mut name).hint_text("e.g. Kelp Shelf"))
+        .labelled_by(label.id);
+    if r.lost_focus() && name != seg.name {
+        commands.push(Command::Edit(Edit::Rename(id.clone(), name)));
+    }
+    ui.label("Notes");
+    let mut notes = seg.notes.clone();
+    let r = ui.add(egui::TextEdit::multiline(&mut notes).desired_rows(3));
+    if r.lost_focus() && notes != seg.notes {
+        commands.push(Command::Edit(Edit::SetNotes(id.clone(), notes)));
+    }
+    ui.separator();
+    let side_text = match seg.sea {
+        Some(SeaSide::Left) => "Sea on the left (walking from the first point)",
+        Some(SeaSide::Right) => "Sea on the right (walking from the first point)",
+        None => "Sea side found from the land (arrows on the map)",
+    };
+    ui.label(side_text);
+    ui.horizontal(|ui| {
+        if ui.button("Flip sea side").clicked() {
+            let current = seg.sea.or(
+                match crate::coast::find_sea_side(crate::coast::Land::bundled(), &seg.points) {
+                    crate::coast::SideFinding::Sea(s) => Some(s),
+                    _ => None,
+                },
+            );
+            let next = current.map_or(SeaSide::Left, SeaSide::flipped);
+            commands.push(Command::Edit(Edit::SetSea(id.clone(), Some(next))));
+        }
+        if seg.sea.is_some() && ui.button("Find from land").clicked() {
+            commands.push(Command::Edit(Edit::SetSea(id.clone(), None)));
+        }
+    });
+    ui.separator();
+    let mut closed = seg.closure.is_some();
+    if ui.checkbox(&mut closed, "Closed to fishing").changed() {
+        let closure = closed.then(|| Closure {
+            reason: "closed".into(),
+            from: None,
+            to: None,
+        });
+        commands.push(Command::Edit(Edit::SetClosure(id.clone(), closure)));
+    }
+    if let Some(c) = &seg.closure {
+        let mut reason = c.reason.clone();
+        ui.label("Reason");
+        let r = ui.text_edit_singleline(&mut reason);
+        if r.lost_focus() && reason != c.reason {
+            commands.push(Command::Edit(Edit::SetClosure(
+                id.clone(),
+                Some(Closure {
+                    reason,
+                    ..c.clone()
+                }),
+            )));
+        }
+        let mut dates = [
+            c.from.map(|d| d.to_string()).unwrap_or_default(),
+            c.to.map(|d| d.to_string()).unwrap_or_default(),
+        ];
+        ui.horizontal(|ui| {
+            ui.label("From");
+            let a = ui.add(
+                egui::TextEdit::singleline(&mut dates[0])
+                    .desired_width(90.0)
+                    .hint_text("YYYY-MM-DD"),
+            );
+            ui.label("to");
+            let b = ui.add(
+                egui::TextEdit::singleline(&mut dates[1])
+                    .desired_width(90.0)
+                    .hint_text("YYYY-MM-DD"),
+            );
+            if a.lost_focus() || b.lost_focus() {
+                let parse = |s: &str| {
+                    if s.trim().is_empty() {
+                        Ok(None)
+                    } else {
+                        chrono::NaiveDate::parse_from_str(s.trim(), "%Y-%m-%d").map(Some)
+                    }
+                };
+                match (parse(&dates[0]), parse(&dates[1])) {
+                    (Ok(from), Ok(to)) => {
+                        if from != c.from || to != c.to {
+                            commands.push(Command::Edit(Edit::SetClosure(
+                                id.clone(),
+                                Some(Closure {
+                                    from,
+                                    to,
+                                    ..c.clone()
+                                }),
+                            )));
+                        }
+                    }
+                    _ => {
+                        app.dialogs.error =
+                            Some("Closure dates: expected YYYY-MM-DD, e.g. 2027-05-31.".into());
+                    }
+                }
+            }
+        });
+    }
+    ui.separator();
+    ui.label(RichText::new("On the map: drag the yellow points to move them; click a + to add a point; right-click a point to remove it.").small());
+    ui.label(format!("{} points", seg.points.len()));
+    if seg.points.len() > 2 {
+        ui.horizontal(|ui| {
+            ui.label("Split at point");
+            for k in 1..seg.points.len() - 1 {
+                if ui.small_button(format!("{}", k + 1)).clicked() {
+                    commands.push(Command::Edit(Edit::Split(id.clone(), k)));
+                }
+            }
+        });
+    }
+    ui.separator();
+    if ui
+        .button(RichText::new("Delete segment…").color(Color32::from_rgb(170, 0, 0)))
+        .clicked()
+    {
+        app.dialogs.confirm_delete = Some(id.clone());
+    }
+}
+
+fn windows_ui(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mut Vec<Command>) {
+    if app.dialogs.show_cautions {
+        egui::Window::new("Before you use Shelfwind").collapsible(false).resizable(false).anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0]).show(ctx, |ui| {
+            ui.set_max_width(520.0);
+            ui.label(RichText::new("Shelfwind is not a navigation aid.").heading());
+            ui.label("It estimates where wind-driven upwelling may make the water productive. It is no substitute for official marine forecasts and warnings.");
+            ui.label("The skipper decides. Check the official forecast before you go, respect closures, protected areas and local regulations, and set your boat's limits yourself.");
+            ui.label("Expected productivity is a planning estimate from a simple model, not a promise of fish.");
+            ui.label(RichText::new(CAUTIONS).small().weak());
+            if ui.button("I understand").clicked() {
+                app.dialogs.show_cautions = false;
+                app.remembered.cautions_accepted = true;
+            }
+        });
+    }
+    if let Some(prompt) = &mut app.dialogs.path_prompt {
+        let mut open = true;
+        let mut go = None;
+        egui::Window::new(prompt.action.title())
+            .collapsible(false)
+            .open(&mut open)
+            .show(ctx, |ui| {
+                if let Some(note) = &prompt.note {
+                    ui.colored_label(Color32::from_rgb(150, 60, 0), note);
+                }
+                let label = ui.label("File path");
+                let r = ui
+                    .add(egui::TextEdit::singleline(&mut prompt.text).desired_width(460.0))
+                    .labelled_by(label.id);
+                ui.label(
+                    RichText::new(format!("({})", prompt.action.extensions().join(", ")))
+                        .small()
+                        .weak(),
+                );
+                let enter = r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
+                ui.horizontal(|ui| {
+                    let ok = if prompt.action.writes() {
+                        "Save here"
+                    } else {
+                        "Open"
+                    };
+                    if (ui.button(ok).clicked() || enter) && !prompt.text.trim().is_empty() {
+                        go = Some(std::path::PathBuf::from(prompt.text.trim()));
+                    }
+                    if prompt.native.is_some() {
+                        ui.spinner();
+                        ui.label("or pick it in the system dialog");
+                    }
+                });
+            });
+        if let Some(path) = go {
+            commands.push(Command::File(prompt.action, path));
+        } else if !open {
+            app.dialogs.path_prompt = None;
+        }
+    }
+    if let Some(err) = app.dialogs.error.clone() {
+        egui::Window::new("Problem")
+            .collapsible(false)
+            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
+            .show(ctx, |ui| {
+                ui.set_max_width(560.0);
+                ui.label(RichText::new(&err).color(Color32::from_rgb(150, 0, 0)));
+                if ui.button("OK").clicked() {
+                    app.dialogs.error = None;
+                }
+            });
+    }
+    if let Some(info) = app.dialogs.info.clone() {
+        egui::Window::new("Done")
+            .collapsible(false)
+            .anchor(egui::Align2::RIGHT_TOP, [-20.0, 60.0])
+            .show(ctx, |ui| {
+                ui.label(&info);
+                if ui.button("OK").clicked() {
+                    app.dialogs.info = None;
+                }
+            });
+    }
+    if let Some(id) = app.dialogs.confirm_delete.clone() {
+        egui::Window::new("Delete segment?")
+            .collapsible(false)
+            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
+            .show(ctx, |ui| {
+                ui.label(format!("Delete the segment \"{id}\"? You can undo this."));
+                ui.horizontal(|ui| {
+                    if ui.button("Delete").clicked() {
+                        commands.push(Command::Edit(Edit::DeleteSegment(id.clone())));
+                        app.dialogs.confirm_delete = None;
+                    }
+                    if ui.button("Keep it").clicked() {
+                        app.dialogs.confirm_delete = None;
+                    }
+                });
+            });
+    }
+    if app.dialogs.confirm_quit {
+        egui::Window::new("Unsaved changes")
+            .collapsible(false)
+            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
+            .show(ctx, |ui| {
+                ui.label("This scenario has changes that are not saved.");
+                ui.horizontal(|ui| {
+                    if ui.button("Save").clicked() {
+                        app.dialogs.confirm_quit = false;
+                        commands.push(Command::Save);
+                    }
+                    if ui.button("Close without saving").clicked() {
+                        app.dialogs.confirm_quit = false;
+                        app.dialogs.quit_confirmed = true;
+                        commands.push(Command::DiscardRecovery);
+                        commands.push(Command::Quit);
+                    }
+                    if ui.button("Cancel").clicked() {
+                        app.dialogs.confirm_quit = false;
+                    }
+                });
+            });
+    }
+    if let Some(r) = app.dialogs.recovery.clone() {
+        egui::Window::new("Unsaved changes from last time").collapsible(false).anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0]).show(ctx, |ui| {
+            ui.label(format!("Shelfwind did not close cleanly last time. Restore the unsaved changes to \"{}\"?", r.name));
+            ui.horizontal(|ui| {
+                if ui.button("Restore").clicked() {
+                    commands.push(Command::Recover);
+                }
+                if ui.button("Discard them").clicked() {
+                    commands.push(Command::DiscardRecovery);
+                }
+            });
+        });
+    }
+    if app.dialogs.show_settings {
+        super::plots::settings_window(app, ctx, commands);
+    }
+}

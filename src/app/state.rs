@@ -1,0 +1,357 @@
+//! The app's state: the document (what is saved), and the runtime state (view,
+//! selection, jobs, dialogs, map memory) kept apart from it.
+
+use super::commands::Command;
+use super::files::{PathPrompt, Recovery};
+use super::jobs::PlanJob;
+use super::land_layer::LandMesh;
+use crate::coast::{Land, LatLon};
+use crate::plan::Plan;
+use crate::scenario::{Scenario, demo_scenario};
+use chrono::{DateTime, Utc};
+use eframe::egui;
+use serde::{Deserialize, Serialize};
+use std::path::PathBuf;
+use std::sync::Arc;
+
+/// What the stretches on the map are coloured by.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum Colouring {
+    /// The upwelling index at the chosen time.
+    #[default]
+    IndexNow,
+    /// Expected productivity on the chosen day.
+    Productivity,
+    /// Whether the chosen boat can work the stretch on the chosen day.
+    SafeForBoat,
+}
+
+/// The map's base layer.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+pub enum BaseLayer {
+    /// The bundled land polygons: offline, at every zoom.
+    #[default]
+    BundledLand,
+    /// OpenStreetMap tiles, downloaded when shown and cached on disk.
+    OnlineTiles,
+}
+
+/// What the app remembers between runs (eframe storage).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize, Default)]
+pub struct Remembered {
+    /// The last scenario opened or saved.
+    pub last_scenario: Option<PathBuf>,
+    /// Map centre (lat, lon) and zoom.
+    pub map_view: Option<(f64, f64, f64)>,
+    /// The cautions were read and accepted once.
+    pub cautions_accepted: bool,
+    /// Plots panel shown.
+    pub show_plots: bool,
+    /// Colouring.
+    pub colouring: Colouring,
+    /// Base layer.
+    pub base_layer: BaseLayer,
+    /// Vessel and port last chosen.
+    pub vessel_id: Option<String>,
+    /// Home port last chosen.
+    pub port_id: Option<String>,
+}
+
+/// How the app was started: where it keeps its memory and whether native dialogs are
+/// tried (tests turn them off).
+#[derive(Debug, Clone, PartialEq)]
+pub struct AppOptions {
+    /// Folder for the recovery file and the tile cache.
+    pub storage_dir: Option<PathBuf>,
+    /// Try the system's file dialogs (the path field is always there too).
+    pub native_dialogs: bool,
+    /// Seconds between autosaves of unsaved changes to the recovery file.
+    pub autosave_s: f64,
+}
+
+impl Default for AppOptions {
+    fn default() -> Self {
+        Self {
+            storage_dir: None,
+            native_dialogs: true,
+            autosave_s: 30.0,
+        }
+    }
+}
+
+/// The scenario being worked on.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Document {
+    /// The scenario.
+    pub scenario: Scenario,
+    /// Where it is saved; `None` for the bundled demo or a new scenario.
+    pub path: Option<PathBuf>,
+    /// Folder against which relative wind file paths are read.
+    pub base_dir: PathBuf,
+    /// Changed since the last save.
+    pub dirty: bool,
+}
+
+/// The drawing or editing tool.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub enum Tool {
+    /// Click to select.
+    #[default]
+    Select,
+    /// Click to add points to a new segment.
+    Draw {
+        /// The points so far.
+        points: Vec<LatLon>,
+    },
+}
+
+/// A vertex being dragged.
+#[derive(Debug, Clone, PartialEq)]
+pub struct VertexDrag {
+    /// Segment id.
+    pub segment: String,
+    /// Vertex index.
+    pub index: usize,
+}
+
+/// Runtime view state: never saved with the scenario.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct View {
+    /// Colouring of the stretches.
+    pub colouring: Colouring,
+    /// Chosen day (index into the plan's days).
+    pub day: usize,
+    /// Chosen hour (index into [`View::timeline`]).
+    pub hour: usize,
+    /// Every hour the plan has wind for.
+    pub timeline: Vec<DateTime<Utc>>,
+    /// Selected stretch ids; the first one is the main selection.
+    pub selected: Vec<String>,
+    /// Segment open in the editor.
+    pub editing: Option<String>,
+    /// Drawing or selecting.
+    pub tool: Tool,
+    /// Chosen vessel id.
+    pub vessel_id: Option<String>,
+    /// Chosen home port id.
+    pub port_id: Option<String>,
+    /// Playing through time.
+    pub playing: bool,
+    /// When the last play step was taken (egui time, seconds).
+    pub last_play_step_s: f64,
+    /// Show the plots panel.
+    pub show_plots: bool,
+    /// Base layer of the map.
+    pub base_layer: BaseLayer,
+    /// Vertex handles drawn last frame (segment id, vertex index, screen position), for
+    /// starting drags before the map pans.
+    pub handles: Vec<(String, usize, egui::Pos2)>,
+    /// A vertex being dragged.
+    pub vertex_drag: Option<VertexDrag>,
+    /// Centre the map here on the next frame.
+    pub centre_on: Option<LatLon>,
+    /// Frame the whole coast and the ports on the next frame.
+    pub fit_coast: bool,
+}
+
+/// Dialogs and messages.
+#[derive(Debug, Default)]
+#[allow(clippy::struct_excessive_bools)] // Independent windows, each open or closed.
+pub struct Dialogs {
+    /// The path field for opening, saving, importing and exporting.
+    pub path_prompt: Option<PathPrompt>,
+    /// An error to show until dismissed.
+    pub error: Option<String>,
+    /// A short message (saved, exported).
+    pub info: Option<String>,
+    /// Asking to confirm deleting this segment.
+    pub confirm_delete: Option<String>,
+    /// Asking about unsaved changes before closing.
+    pub confirm_quit: bool,
+    /// The user chose to close without saving.
+    pub quit_confirmed: bool,
+    /// Offering to restore unsaved changes from the last session.
+    pub recovery: Option<Recovery>,
+    /// The cautions window.
+    pub show_cautions: bool,
+    /// The settings window.
+    pub show_settings: bool,
+    /// Settings being edited in the window, applied as one step.
+    pub settings_draft: Option<crate::scenario::ModelSettings>,
+}
+
+/// The app.
+pub struct ShelfwindApp {
+    /// The document.
+    pub doc: Document,
+    pub(super) undo: Vec<Scenario>,
+    pub(super) redo: Vec<Scenario>,
+    /// Scenario as it was when the current vertex drag started (one undo step per drag).
+    pub(super) drag_start: Option<Scenario>,
+    /// The latest plan, if any.
+    pub plan: Option<Arc<Plan>>,
+    /// Why the latest plan could not be made.
+    pub plan_error: Option<String>,
+    pub(super) job: Option<PlanJob>,
+    /// The plan must be computed again (the document or the boat changed).
+    pub(super) plan_stale: bool,
+    /// View state.
+    pub view: View,
+    /// Dialogs.
+    pub dialogs: Dialogs,
+    pub(super) map_memory: walkers::MapMemory,
+    pub(super) tiles: Option<walkers::HttpTiles>,
+    pub(super) land: Arc<LandMesh>,
+    pub(super) remembered: Remembered,
+    pub(super) options: AppOptions,
+    pub(super) last_autosave_s: f64,
+    pub(super) commands: Vec<Command>,
+}
+
+impl ShelfwindApp {
+    /// The app on a scenario (a file, the last one, or the demo), with the given options.
+    #[must_use]
+    pub fn new(
+        cc: &eframe::CreationContext<'_>,
+        open: Option<PathBuf>,
+        options: AppOptions,
+    ) -> Self {
+        let remembered: Remembered = cc
+            .storage
+            .and_then(|s| eframe::get_value(s, eframe::APP_KEY))
+            .unwrap_or_default();
+        Self::with_memory(&cc.egui_ctx, open, options, remembered)
+    }
+
+    /// Like [`ShelfwindApp::new`], with the memory given (for tests).
+    #[must_use]
+    pub fn with_memory(
+        ctx: &egui::Context,
+        open: Option<PathBuf>,
+        options: AppOptions,
+        remembered: Remembered,
+    ) -> Self {
+        super::panels::style(ctx);
+        let demo = demo_scenario().unwrap_or_else(|_| Scenario {
+            name: "Empty".into(),
+            time_zone: "UTC".into(),
+            segments: Vec::new(),
+            ports: Vec::new(),
+            vessels: Vec::new(),
+            wind_files: Vec::new(),
+            settings: crate::scenario::ModelSettings::default(),
+            notes: String::new(),
+        });
+        let mut app = Self {
+            doc: Document {
+                scenario: demo,
+                path: None,
+                base_dir: PathBuf::new(),
+                dirty: false,
+            },
+            undo: Vec::new(),
+            redo: Vec::new(),
+            drag_start: None,
+            plan: None,
+            plan_error: None,
+            job: None,
+            plan_stale: true,
+            view: View {
+                colouring: remembered.colouring,
+                show_plots: true,
+                base_layer: remembered.base_layer,
+                vessel_id: remembered.vessel_id.clone(),
+                port_id: remembered.port_id.clone(),
+                ..View::default()
+            },
+            dialogs: Dialogs {
+                show_cautions: !remembered.cautions_accepted,
+                ..Dialogs::default()
+            },
+            map_memory: walkers::MapMemory::default(),
+            tiles: None,
+            land: Arc::new(LandMesh::new(Land::bundled())),
+            remembered,
+            options,
+            last_autosave_s: 0.0,
+            commands: Vec::new(),
+        };
+        let _ = app.map_memory.set_zoom(9.0);
+        if let Some((lat, lon, zoom)) = app.remembered.map_view {
+            app.map_memory.center_at(walkers::lat_lon(lat, lon));
+            let _ = app.map_memory.set_zoom(zoom);
+        }
+        // Open what was asked, or the last scenario; the demo otherwise.
+        let to_open = open.or_else(|| app.remembered.last_scenario.clone().filter(|p| p.exists()));
+        app.open_demo();
+        if let Some(path) = to_open {
+            app.open_scenario(&path);
+        }
+        app.dialogs.recovery = super::files::find_recovery(&app.options, app.doc.path.as_deref());
+        app
+    }
+
+    /// The centre of the coast, for framing the map.
+    pub(super) fn coast_centre(&self) -> Option<LatLon> {
+        LatLon::weighted_mean(
+            self.doc
+                .scenario
+                .segments
+                .iter()
+                .flat_map(|s| s.points.iter().map(|p| (*p, 1.0))),
+        )
+    }
+
+    /// Whether a plan job is running.
+    #[must_use]
+    pub fn is_busy(&self) -> bool {
+        self.job.is_some() || self.plan_stale
+    }
+
+    /// The undo stack's depth (for tests and the menu).
+    #[must_use]
+    pub fn undo_depth(&self) -> usize {
+        self.undo.len()
+    }
+
+    /// Queues a command, applied after drawing.
+    pub fn send(&mut self, command: Command) {
+        self.commands.push(command);
+    }
+}
+
+impl eframe::App for ShelfwindApp {
+    fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
+        let ctx = ui.ctx().clone();
+        self.poll_job(&ctx);
+        self.handle_close(&ctx);
+        self.handle_dropped_files(&ctx);
+        self.handle_keys(&ctx);
+        self.autosave(&ctx);
+        let mut commands = std::mem::take(&mut self.commands);
+        super::panels::all_ui(self, ui, &mut commands);
+        for c in commands {
+            self.apply(c, &ctx);
+        }
+        if self.plan_stale && self.job.is_none() {
+            self.start_plan_job(&ctx, None);
+        }
+        if self.job.is_some() || self.view.playing || self.map_memory.animating() {
+            ctx.request_repaint_after(std::time::Duration::from_millis(100));
+        }
+    }
+
+    fn save(&mut self, storage: &mut dyn eframe::Storage) {
+        let mut r = self.remembered.clone();
+        r.last_scenario.clone_from(&self.doc.path);
+        r.colouring = self.view.colouring;
+        r.base_layer = self.view.base_layer;
+        r.vessel_id.clone_from(&self.view.vessel_id);
+        r.port_id.clone_from(&self.view.port_id);
+        r.show_plots = self.view.show_plots;
+        if let Some(p) = self.map_memory.detached() {
+            r.map_view = Some((p.y(), p.x(), self.map_memory.zoom()));
+        }
+        eframe::set_value(storage, eframe::APP_KEY, &r);
+    }
+}

@@ -1,0 +1,239 @@
+//! The desktop app driven through egui_kittest: widgets found by their labels and roles,
+//! clicked and typed into, and the app's state checked after.
+
+#![cfg(feature = "gui")]
+
+use eframe::egui;
+use egui_kittest::Harness;
+use egui_kittest::kittest::Queryable;
+use shelfwind::app::{AppOptions, ShelfwindApp};
+use std::path::PathBuf;
+use std::time::{Duration, Instant};
+
+fn app_harness(dir: &std::path::Path) -> Harness<'static, ShelfwindApp> {
+    let options = AppOptions {
+        storage_dir: Some(dir.to_path_buf()),
+        native_dialogs: false,
+        autosave_s: 3600.0,
+    };
+    let mut harness = Harness::builder()
+        .with_size([1500.0, 1000.0])
+        .build_eframe(move |cc| {
+            ShelfwindApp::with_memory(
+                &cc.egui_ctx,
+                None,
+                options,
+                shelfwind::app::Remembered::default(),
+            )
+        });
+    // The cautions show at first start; accept them.
+    harness.run_steps(2);
+    harness.get_by_label("I understand").click();
+    harness.run_steps(2);
+    wait_for_plan(&mut harness);
+    harness
+}
+
+/// Steps the app until its background job has finished (the plan is read in a thread).
+fn wait_for_plan(harness: &mut Harness<'static, ShelfwindApp>) {
+    let start = Instant::now();
+    loop {
+        harness.step();
+        if !harness.state().is_busy() && harness.state().plan.is_some() {
+            break;
+        }
+        assert!(
+            start.elapsed() < Duration::from_mins(2),
+            "the plan never came"
+        );
+        std::thread::sleep(Duration::from_millis(20));
+    }
+    harness.run_steps(3);
+}
+
+/// Types into the path field of the file dialog (focus first, then the text).
+fn type_path(harness: &mut Harness<'static, ShelfwindApp>, text: &str) {
+    harness
+        .get_by_role_and_label(egui::accesskit::Role::TextInput, "File path")
+        .focus();
+    harness.run_steps(2);
+    harness
+        .get_by_role_and_label(egui::accesskit::Role::TextInput, "File path")
+        .type_text(text);
+    harness.run_steps(2);
+}
+
+fn fixture(rel: &str) -> String {
+    PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/fixtures")
+        .join(rel)
+        .display()
+        .to_string()
+}
+
+#[test]
+fn starts_on_the_demo_with_a_ranked_list_and_the_cautions() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let harness = app_harness(dir.path());
+    let app = harness.state();
+    let plan = app.plan.as_ref().expect("plan");
+    assert!(!plan.days[0].ranked.is_empty());
+    assert_eq!(plan.scenario_name, "North Reach Fishers' Co-op (demo)");
+    // The ranked list shows its first stretch by name, and the cautions stay reachable.
+    let first = &plan.stretches[plan.days[0].ranked[0].stretch].name;
+    harness.get_by_label(&format!("Stretch {first}"));
+    harness.get_by_label_contains("not a navigation aid");
+}
+
+#[test]
+fn selecting_a_ranked_stretch_shows_its_plots() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let plan = harness.state().plan.clone().expect("plan");
+    let second = plan.stretches[plan.days[0].ranked[1].stretch].clone();
+    harness
+        .get_by_label(&format!("Stretch {}", second.name))
+        .click();
+    harness.run_steps(3);
+    assert_eq!(harness.state().view.selected, vec![second.id.clone()]);
+    harness.get_by_label(&format!("Plots: {}", second.name));
+}
+
+#[test]
+fn drawing_a_segment_by_clicks_then_undo_and_redo() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let before = harness.state().doc.scenario.segments.len();
+    harness.get_by_label("Draw segment").click();
+    harness.run_steps(2);
+    let map = harness.get_by_label("Map").rect();
+    for (fx, fy) in [(0.3, 0.3), (0.35, 0.5), (0.4, 0.7)] {
+        let pos = egui::pos2(map.left() + map.width() * fx, map.top() + map.height() * fy);
+        harness.hover_at(pos);
+        harness.run_steps(1);
+        for pressed in [true, false] {
+            harness.event(egui::Event::PointerButton {
+                pos,
+                button: egui::PointerButton::Primary,
+                pressed,
+                modifiers: egui::Modifiers::NONE,
+            });
+            harness.run_steps(1);
+        }
+        harness.run_steps(2);
+    }
+    harness.get_by_label("Finish segment").click();
+    harness.run_steps(3);
+    let after = &harness.state().doc.scenario.segments;
+    assert_eq!(after.len(), before + 1);
+    assert_eq!(after.last().expect("new").points.len(), 3);
+    assert!(harness.state().doc.dirty);
+    harness.get_by_label("Undo").click();
+    harness.run_steps(3);
+    assert_eq!(harness.state().doc.scenario.segments.len(), before);
+    harness.get_by_label("Redo").click();
+    harness.run_steps(3);
+    assert_eq!(harness.state().doc.scenario.segments.len(), before + 1);
+}
+
+#[test]
+fn a_damaged_wind_file_shows_the_error_and_keeps_the_forecast() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let wind_before = harness.state().doc.scenario.wind_files.clone();
+    let ranked_before = harness.state().plan.as_ref().expect("plan").days[0]
+        .ranked
+        .len();
+    harness.state_mut().send(shelfwind::app::Command::AskFile(
+        shelfwind::app::FileAction::ImportWind,
+    ));
+    harness.run_steps(3);
+    type_path(&mut harness, &fixture("grib2/truncated.grib2"));
+    harness.get_by_label("Open").click();
+    harness.run_steps(2);
+    wait_for_plan(&mut harness);
+    harness.get_by_label_contains("The forecast was not imported; the previous forecast is kept.");
+    harness.get_by_label_contains("message 1: is cut short");
+    assert_eq!(harness.state().doc.scenario.wind_files, wind_before);
+    assert_eq!(
+        harness.state().plan.as_ref().expect("plan kept").days[0]
+            .ranked
+            .len(),
+        ranked_before
+    );
+    harness.get_by_label("OK").click();
+    harness.run_steps(2);
+    assert!(harness.state().dialogs.error.is_none());
+}
+
+#[test]
+fn moving_the_time_slider_changes_the_shown_index() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    // The line under the time bar, as the app must show it for the selected stretch.
+    let expected = |h: &Harness<'static, ShelfwindApp>| {
+        let app = h.state();
+        let plan = app.plan.as_ref().expect("plan");
+        let s = plan
+            .stretches
+            .iter()
+            .find(|s| s.id == app.view.selected[0])
+            .expect("selected");
+        let t = app.view.timeline[app.view.hour];
+        let hour = s
+            .hours
+            .iter()
+            .find(|x| x.time == t)
+            .expect("wind at that hour");
+        format!(
+            "{} now: upwelling index {:.0} m³/s per 100 m",
+            s.name, hour.index_m3s_per_100m
+        )
+    };
+    let before = expected(&harness);
+    harness.get_by_label_contains(&before);
+    let hour = harness.state().view.hour;
+    harness
+        .get_by_label("Forecast time")
+        .set_value_accesskit((hour + 60) as f64);
+    harness.run_steps(3);
+    assert_eq!(harness.state().view.hour, hour + 60);
+    let after = expected(&harness);
+    assert_ne!(after, before, "the index differs 60 hours later");
+    harness.get_by_label_contains(&after);
+    assert!(harness.query_by_label_contains(&before).is_none());
+    // The arrow keys step one hour.
+    harness.key_press(egui::Key::ArrowRight);
+    harness.run_steps(2);
+    assert_eq!(harness.state().view.hour, hour + 61);
+}
+
+#[test]
+fn save_then_reopen_gives_the_same_scenario() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let path = dir.path().join("coop.shelfwind.json");
+    harness.state_mut().send(shelfwind::app::Command::AskFile(
+        shelfwind::app::FileAction::SaveScenarioAs,
+    ));
+    harness.run_steps(3);
+    type_path(&mut harness, path.to_str().expect("utf-8"));
+    harness.get_by_label("Save here").click();
+    harness.run_steps(3);
+    assert!(!harness.state().doc.dirty);
+    let saved = harness.state().doc.scenario.clone();
+    harness.state_mut().send(shelfwind::app::Command::OpenDemo);
+    harness.run_steps(2);
+    harness.state_mut().send(shelfwind::app::Command::File(
+        shelfwind::app::FileAction::OpenScenario,
+        path.clone(),
+    ));
+    harness.run_steps(2);
+    assert_eq!(harness.state().doc.path.as_deref(), Some(path.as_path()));
+    assert_eq!(harness.state().doc.scenario, saved);
+    wait_for_plan(&mut harness);
+    assert!(
+        harness.state().plan.is_some(),
+        "the saved scenario finds its forecast"
+    );
+}
