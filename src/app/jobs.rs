@@ -153,13 +153,9 @@ impl ShelfwindApp {
                 self.install_plan(plan);
             }
             (Err(_), _) if cancelled => {}
-            (Err(e), Some(files)) => {
-                let name = files
-                    .first()
-                    .map(|p| p.display().to_string())
-                    .unwrap_or_default();
+            (Err(e), Some(_)) => {
                 self.dialogs.error = Some(format!(
-                    "The forecast was not imported; the previous forecast is kept.\n\n{e}\n\nFile: {name}"
+                    "The forecast was not imported; the previous forecast is kept.\n\n{e}"
                 ));
             }
             (Err(e), None) => {

@@ -155,6 +155,9 @@ impl Plugin for CoastLayer<'_> {
         }
         // Stretches coloured.
         let mut screen_lines = Vec::new();
+        // Arrow origins drawn so far: arrows closer than this are skipped, so a crowded
+        // coast stays readable when zoomed out.
+        let mut arrow_origins: Vec<Pos2> = Vec::new();
         if let Some(plan) = self.plan {
             for (k, s) in plan.stretches.iter().enumerate() {
                 let line: Vec<Pos2> = s.points.iter().map(project).collect();
@@ -190,12 +193,16 @@ impl Plugin for CoastLayer<'_> {
                     .map(|i| &s.hours[i])
                 {
                     let c = project(&s.centre) + screen_dir(s.offshore_bearing_deg) * 14.0;
+                    if arrow_origins.iter().any(|o| o.distance(c) < 30.0) {
+                        continue;
+                    }
+                    arrow_origins.push(c);
                     let kt = m_s_to_knots(h.wind.speed_m_s()) as f32;
                     if let Some(from) = h.wind.direction_from_deg() {
                         arrow(
                             &painter,
                             c,
-                            screen_dir(from + 180.0) * (6.0 + kt * 1.2).min(40.0),
+                            screen_dir(from + 180.0) * (6.0 + kt * 0.8).min(32.0),
                             Stroke::new(2.0, Color32::from_rgb(60, 60, 60)),
                         );
                     }
@@ -206,7 +213,7 @@ impl Plugin for CoastLayer<'_> {
                         arrow(
                             &painter,
                             c,
-                            dir * (6.0 + m * 8.0),
+                            dir * (8.0 + m * 5.0).min(30.0),
                             Stroke::new(2.5, Color32::from_rgb(118, 42, 131)),
                         );
                     }
@@ -488,8 +495,8 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
             points.len()
         );
         painter.text(
-            rect.center_top() + Vec2::new(0.0, 14.0),
-            Align2::CENTER_TOP,
+            rect.center_bottom() - Vec2::new(0.0, 14.0),
+            Align2::CENTER_BOTTOM,
             text,
             FontId::proportional(15.0),
             Color32::from_rgb(160, 60, 0),
@@ -530,7 +537,15 @@ fn fit(points: impl Iterator<Item = LatLon>, size: Vec2) -> Option<(LatLon, f64)
 
 fn legend_ui(ui: &egui::Ui, rect: egui::Rect, colouring: Colouring) {
     let painter = ui.painter_at(rect);
-    let origin = rect.left_top() + Vec2::new(10.0, 10.0);
+    let row = 18.0;
+    let rows = match colouring {
+        Colouring::IndexNow => 7,
+        Colouring::Productivity => 5,
+        Colouring::SafeForBoat => 4,
+    } + 3;
+    let height = 28.0 + row * rows as f32 + 4.0;
+    // Bottom left, out of the way of the coast, which usually runs through the middle.
+    let origin = rect.left_bottom() + Vec2::new(10.0, -10.0 - height);
     let (title, stops): (&str, Vec<(String, Color32)>) = match colouring {
         Colouring::IndexNow => (
             "Upwelling index (m³/s per 100 m)",
@@ -568,8 +583,7 @@ fn legend_ui(ui: &egui::Ui, rect: egui::Rect, colouring: Colouring) {
             ],
         ),
     };
-    let row = 18.0;
-    let size = Vec2::new(240.0, 28.0 + row * (stops.len() + 2) as f32 + 20.0);
+    let size = Vec2::new(240.0, height);
     painter.rect_filled(
         egui::Rect::from_min_size(origin, size),
         4.0,

@@ -57,7 +57,10 @@ pub(super) fn all_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
             .default_size(300.0)
             .show(ui, |ui| editor_ui(app, ui, commands));
     }
-    egui::CentralPanel::default().show(ui, |ui| super::map::map_ui(app, ui, commands));
+    egui::CentralPanel::default().show(ui, |ui| {
+        map_toolbar_ui(app, ui, commands);
+        super::map::map_ui(app, ui, commands);
+    });
     windows_ui(app, ui.ctx(), commands);
 }
 
@@ -70,29 +73,77 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
                     ui.close();
                 }
             };
-            item(ui, "Open scenario…", Command::AskFile(FileAction::OpenScenario));
+            item(
+                ui,
+                "Open scenario…",
+                Command::AskFile(FileAction::OpenScenario),
+            );
             item(ui, "Open the demo", Command::OpenDemo);
             item(ui, "Save", Command::Save);
             item(ui, "Save as…", Command::AskFile(FileAction::SaveScenarioAs));
             ui.separator();
-            item(ui, "Import wind file…", Command::AskFile(FileAction::ImportWind));
-            item(ui, "Import coast (GeoJSON)…", Command::AskFile(FileAction::ImportCoast));
-            item(ui, "Export coast (GeoJSON)…", Command::AskFile(FileAction::ExportCoast));
+            item(
+                ui,
+                "Import wind file…",
+                Command::AskFile(FileAction::ImportWind),
+            );
+            item(
+                ui,
+                "Import coast (GeoJSON)…",
+                Command::AskFile(FileAction::ImportCoast),
+            );
+            item(
+                ui,
+                "Export coast (GeoJSON)…",
+                Command::AskFile(FileAction::ExportCoast),
+            );
             ui.separator();
-            item(ui, "Export plan (CSV)…", Command::AskFile(FileAction::ExportPlanCsv));
-            item(ui, "Export plan (JSON)…", Command::AskFile(FileAction::ExportPlanJson));
-            item(ui, "Export stretches (GeoJSON)…", Command::AskFile(FileAction::ExportPlanGeoJson));
-            item(ui, "Export GPX for the plotter…", Command::AskFile(FileAction::ExportGpx));
-            item(ui, "Export trip sheet (HTML)…", Command::AskFile(FileAction::ExportTripSheet));
+            item(
+                ui,
+                "Export plan (CSV)…",
+                Command::AskFile(FileAction::ExportPlanCsv),
+            );
+            item(
+                ui,
+                "Export plan (JSON)…",
+                Command::AskFile(FileAction::ExportPlanJson),
+            );
+            item(
+                ui,
+                "Export stretches (GeoJSON)…",
+                Command::AskFile(FileAction::ExportPlanGeoJson),
+            );
+            item(
+                ui,
+                "Export GPX for the plotter…",
+                Command::AskFile(FileAction::ExportGpx),
+            );
+            item(
+                ui,
+                "Export trip sheet (HTML)…",
+                Command::AskFile(FileAction::ExportTripSheet),
+            );
             ui.separator();
             item(ui, "Quit", Command::Quit);
         });
         ui.menu_button("Edit", |ui| {
-            if ui.add_enabled(!app.undo.is_empty(), egui::Button::new("Undo").shortcut_text("Ctrl+Z")).clicked() {
+            if ui
+                .add_enabled(
+                    !app.undo.is_empty(),
+                    egui::Button::new("Undo").shortcut_text("Ctrl+Z"),
+                )
+                .clicked()
+            {
                 commands.push(Command::Undo);
                 ui.close();
             }
-            if ui.add_enabled(!app.redo.is_empty(), egui::Button::new("Redo").shortcut_text("Ctrl+Shift+Z")).clicked() {
+            if ui
+                .add_enabled(
+                    !app.redo.is_empty(),
+                    egui::Button::new("Redo").shortcut_text("Ctrl+Shift+Z"),
+                )
+                .clicked()
+            {
                 commands.push(Command::Redo);
                 ui.close();
             }
@@ -114,15 +165,27 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
         });
         ui.separator();
         // The undo and redo buttons, and drawing, one click away.
-        if ui.add_enabled(!app.undo.is_empty(), egui::Button::new("Undo")).on_hover_text("Undo (Ctrl+Z)").clicked() {
+        if ui
+            .add_enabled(!app.undo.is_empty(), egui::Button::new("Undo"))
+            .on_hover_text("Undo (Ctrl+Z)")
+            .clicked()
+        {
             commands.push(Command::Undo);
         }
-        if ui.add_enabled(!app.redo.is_empty(), egui::Button::new("Redo")).on_hover_text("Redo (Ctrl+Shift+Z or Ctrl+Y)").clicked() {
+        if ui
+            .add_enabled(!app.redo.is_empty(), egui::Button::new("Redo"))
+            .on_hover_text("Redo (Ctrl+Shift+Z or Ctrl+Y)")
+            .clicked()
+        {
             commands.push(Command::Redo);
         }
         let drawing = matches!(app.view.tool, Tool::Draw { .. });
         if ui.selectable_label(drawing, "Draw segment").clicked() {
-            commands.push(Command::SetTool(if drawing { Tool::Select } else { Tool::Draw { points: Vec::new() } }));
+            commands.push(Command::SetTool(if drawing {
+                Tool::Select
+            } else {
+                Tool::Draw { points: Vec::new() }
+            }));
         }
         if drawing && ui.button("Finish segment").clicked() {
             commands.push(Command::FinishDraft);
@@ -130,29 +193,50 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
         ui.separator();
         let scenario = &app.doc.scenario;
         let vessel_name = |id: &Option<String>| {
-            scenario.vessels.iter().find(|v| Some(&v.id) == id.as_ref()).or(scenario.vessels.first()).map_or("(no boat)".to_string(), |v| v.name.clone())
+            scenario
+                .vessels
+                .iter()
+                .find(|v| Some(&v.id) == id.as_ref())
+                .or(scenario.vessels.first())
+                .map_or("(no boat)".to_string(), |v| v.name.clone())
         };
-        egui::ComboBox::from_label("Boat").selected_text(vessel_name(&app.view.vessel_id)).show_ui(ui, |ui| {
-            for v in &scenario.vessels {
-                if ui.selectable_label(app.view.vessel_id.as_ref() == Some(&v.id), &v.name).clicked() {
-                    commands.push(Command::SetVessel(v.id.clone()));
+        egui::ComboBox::from_label("Boat")
+            .selected_text(vessel_name(&app.view.vessel_id))
+            .show_ui(ui, |ui| {
+                for v in &scenario.vessels {
+                    if ui
+                        .selectable_label(app.view.vessel_id.as_ref() == Some(&v.id), &v.name)
+                        .clicked()
+                    {
+                        commands.push(Command::SetVessel(v.id.clone()));
+                    }
                 }
-            }
-        });
+            });
         let port_name = scenario
             .ports
             .iter()
             .find(|p| Some(&p.id) == app.view.port_id.as_ref())
             .or(scenario.ports.first())
             .map_or("(no port)".to_string(), |p| p.name.clone());
-        egui::ComboBox::from_label("Home port").selected_text(port_name).show_ui(ui, |ui| {
-            for p in &scenario.ports {
-                if ui.selectable_label(app.view.port_id.as_ref() == Some(&p.id), &p.name).clicked() {
-                    commands.push(Command::SetPort(p.id.clone()));
+        egui::ComboBox::from_label("Home port")
+            .selected_text(port_name)
+            .show_ui(ui, |ui| {
+                for p in &scenario.ports {
+                    if ui
+                        .selectable_label(app.view.port_id.as_ref() == Some(&p.id), &p.name)
+                        .clicked()
+                    {
+                        commands.push(Command::SetPort(p.id.clone()));
+                    }
                 }
-            }
-        });
-        ui.separator();
+            });
+    });
+}
+
+/// The row above the map: what the coast is coloured by, the base map, the plots.
+fn map_toolbar_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    ui.horizontal_wrapped(|ui| {
+        ui.label("Colour by:");
         for (c, label) in [(Colouring::IndexNow, "Index now"), (Colouring::Productivity, "Expected productivity"), (Colouring::SafeForBoat, "Safe for this boat")] {
             if ui.selectable_label(app.view.colouring == c, label).clicked() {
                 commands.push(Command::SetColouring(c));
@@ -308,6 +392,12 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
         return;
     };
     ui.heading("Where to go");
+    if let Some(e) = &app.plan_error {
+        ui.colored_label(
+            Color32::from_rgb(170, 0, 0),
+            format!("The plan below is out of date: {e}"),
+        );
+    }
     ui.label(format!("{} from {}", plan.vessel.name, plan.port.name));
     ui.horizontal(|ui| {
         if ui
@@ -470,12 +560,23 @@ fn editor_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
         commands.push(Command::Edit(Edit::SetNotes(id.clone(), notes)));
     }
     ui.separator();
-    let side_text = match seg.sea {
-        Some(SeaSide::Left) => "Sea on the left (walking from the first point)",
-        Some(SeaSide::Right) => "Sea on the right (walking from the first point)",
-        None => "Sea side found from the land (arrows on the map)",
+    let from_land = crate::coast::find_sea_side(crate::coast::Land::bundled(), &seg.points);
+    let side_text = match (seg.sea, from_land) {
+        (Some(SeaSide::Left), _) => "Sea on the left, walking from the first point (set by hand)".to_string(),
+        (Some(SeaSide::Right), _) => "Sea on the right, walking from the first point (set by hand)".to_string(),
+        (None, crate::coast::SideFinding::Sea(side)) => format!(
+            "Sea on the {}, found from the land (blue arrows on the map)",
+            if side == SeaSide::Left { "left" } else { "right" }
+        ),
+        (None, crate::coast::SideFinding::BothSea) => "The land cannot tell the sea side here (both sides look like sea): use Flip sea side to set it.".to_string(),
+        (None, crate::coast::SideFinding::BothLand) => "The land cannot tell the sea side here (both sides look like land): use Flip sea side to set it.".to_string(),
     };
-    ui.label(side_text);
+    let colour = if seg.sea.is_none() && !matches!(from_land, crate::coast::SideFinding::Sea(_)) {
+        Color32::from_rgb(170, 0, 0)
+    } else {
+        ui.visuals().text_color()
+    };
+    ui.colored_label(colour, side_text);
     ui.horizontal(|ui| {
         if ui.button("Flip sea side").clicked() {
             let current = seg.sea.or(
@@ -603,6 +704,8 @@ fn windows_ui(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mut Vec<Co
         egui::Window::new(prompt.action.title())
             .collapsible(false)
             .open(&mut open)
+            .pivot(egui::Align2::CENTER_CENTER)
+            .default_pos(ctx.content_rect().center())
             .show(ctx, |ui| {
                 if let Some(note) = &prompt.note {
                     ui.colored_label(Color32::from_rgb(150, 60, 0), note);

@@ -4,10 +4,11 @@
 //! white: lines carry dark edges and dashes, over-limit hours are hatched, the upwelling
 //! bars sit above or below a zero line.
 //!
-//! In order: the cautions and the plan's notes; the boat, port and time zone; a map of
-//! the home port and the day's stretches; the ranked list with the parts of each score
-//! and its reasons; the stretches left out and why; the wind and the upwelling index hour
-//! by hour at the day's best three stretches; the cautions again.
+//! In order: the day, the boat, port and time zone; the cautions and the plan's notes; a
+//! map of the home port and the day's stretches (`map`); the ranked list with the parts
+//! of each score and its reasons; the stretches left out and why; the wind and the
+//! upwelling index hour by hour at the day's best three stretches (`plots`); the cautions
+//! again.
 
 mod map;
 mod plots;
@@ -188,10 +189,10 @@ svg.map { display: block; width: 100%; height: auto; }
 .legend { font-size: 8.5pt; margin: 1mm 0 0; }
 .legend svg { display: inline; vertical-align: middle; width: 9mm; height: 3.2mm; }
 table.ranked { border-collapse: collapse; width: 100%; font-size: 8.5pt; }
-table.ranked th { background: #e8e8e8; border: 0.6pt solid #777; padding: 0.8mm 1mm;
-  text-align: center; vertical-align: bottom; font-weight: bold; }
+table.ranked th { background: #e8e8e8; border: 0.6pt solid #777; padding: 0.6mm 0.7mm;
+  text-align: center; vertical-align: bottom; font-weight: bold; font-size: 8pt; }
 table.ranked td { border-left: 0.6pt solid #bbb; border-right: 0.6pt solid #bbb;
-  padding: 0.8mm 1mm; vertical-align: top; }
+  padding: 0.8mm 0.8mm; vertical-align: top; }
 table.ranked tbody { break-inside: avoid; border-top: 1.2pt solid #000; }
 table.ranked thead { display: table-header-group; }
 td.n { text-align: right; white-space: nowrap; font-variant-numeric: tabular-nums; }
@@ -201,7 +202,7 @@ td.when { white-space: nowrap; }
 .swatch { display: inline-block; width: 3.2mm; height: 3.2mm; border: 0.8pt solid #000;
   vertical-align: -0.4mm; margin-right: 1mm; }
 .name { font-weight: bold; }
-td.stretch { min-width: 36mm; }
+td.stretch { min-width: 34mm; }
 .small { font-size: 7.5pt; color: #333; }
 tr.reasons td { border-top: 0.4pt dotted #999; padding-bottom: 1.2mm; }
 tr.reasons ul { margin: 0; padding-left: 4.5mm; }
@@ -297,7 +298,8 @@ fn footer(o: &mut String) {
     let _ = writeln!(o, "</html>");
 }
 
-// Shared by the map and the plots.
+// ---------------------------------------------------------------------------------------
+// SVG pieces shared by the map and the plots.
 
 /// Text with a white halo, readable over land, sea and lines.
 fn halo_text(o: &mut String, x: f64, y: f64, anchor: &str, size: f64, bold: bool, text: &str) {
@@ -309,6 +311,7 @@ fn halo_text(o: &mut String, x: f64, y: f64, anchor: &str, size: f64, bold: bool
     );
 }
 
+/// The `points` attribute of a polyline, one decimal.
 fn points_attr(xy: &[(f64, f64)]) -> String {
     let mut s = String::with_capacity(xy.len() * 12);
     for (k, (x, y)) in xy.iter().enumerate() {
@@ -317,7 +320,8 @@ fn points_attr(xy: &[(f64, f64)]) -> String {
     s
 }
 
-/// A round length for a scale bar of about `target` nautical miles.
+/// A round number (1, 2 or 5 times a power of ten) near `target`: the scale bar's length,
+/// the plots' tick step.
 fn nice_step(target: f64) -> f64 {
     if !(target.is_finite() && target > 0.0) {
         return 1.0;
