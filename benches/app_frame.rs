@@ -79,7 +79,10 @@ fn main() {
         .plan
         .as_ref()
         .map_or(0, |p| p.stretches.len());
-    let frames = 60;
+    let frames: usize = std::env::var("FRAMES")
+        .ok()
+        .and_then(|f| f.parse().ok())
+        .unwrap_or(60);
     let mut times = Vec::with_capacity(frames);
     for k in 0..frames {
         // Move through time so every frame recolours the coast.

@@ -27,6 +27,19 @@ struct Ring {
 pub struct LandMesh {
     vertices: Vec<LatLon>,
     rings: Vec<Ring>,
+    /// The shapes of the last frame and the view they were made for: while the map does
+    /// not move (stepping through time), the land is not projected again.
+    cache: std::sync::Mutex<Option<(ViewKey, Vec<Shape>)>>,
+}
+
+/// What the projected land depends on: the map rectangle, the zoom, and where a
+/// reference point lands on screen.
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct ViewKey {
+    rect: egui::Rect,
+    zoom: f64,
+    origin: Pos2,
+    paint_sea: bool,
 }
 
 impl LandMesh {
@@ -73,7 +86,59 @@ impl LandMesh {
                 hole: !land.is_land(centroid),
             });
         }
-        Self { vertices, rings }
+        Self {
+            vertices,
+            rings,
+            cache: std::sync::Mutex::new(None),
+        }
+    }
+}
+
+impl LandMesh {
+    /// The sea, the land and the coast line for a view, as shapes.
+    fn shapes(&self, rect: egui::Rect, projector: &Projector, paint_sea: bool) -> Vec<Shape> {
+        let mut out = Vec::new();
+        if paint_sea {
+            out.push(Shape::rect_filled(rect, 0.0, SEA));
+        }
+        // The visible box in lat/lon, from the corners (Mercator keeps it a box).
+        let corner = |p: Pos2| projector.unproject(p.to_vec2());
+        let (nw, se) = (corner(rect.left_top()), corner(rect.right_bottom()));
+        let (lat_min, lat_max) = (se.y().min(nw.y()), se.y().max(nw.y()));
+        let (lon_min, lon_max) = (nw.x().min(se.x()), nw.x().max(se.x()));
+        let wide = lon_max - lon_min >= 359.0;
+        let mut screen: Vec<Pos2> = vec![Pos2::ZERO; self.vertices.len()];
+        let project = |p: &LatLon| projector.project(lat_lon(p.lat_deg, p.lon_deg)).to_pos2();
+        for pass_holes in [false, true] {
+            let mut mesh = Mesh::default();
+            let mut outlines = Vec::new();
+            for ring in self.rings.iter().filter(|r| r.hole == pass_holes) {
+                let [a, b, c, d] = ring.bbox;
+                if a > lat_max || c < lat_min || (!wide && (b > lon_max || d < lon_min)) {
+                    continue;
+                }
+                let range = ring.first..ring.first + ring.len;
+                for (s, v) in screen[range.clone()]
+                    .iter_mut()
+                    .zip(&self.vertices[range.clone()])
+                {
+                    *s = project(v);
+                }
+                let colour = if ring.hole { SEA } else { LAND };
+                let base = mesh.vertices.len() as u32;
+                for p in &screen[range.clone()] {
+                    mesh.colored_vertex(*p, colour);
+                }
+                mesh.indices
+                    .extend(ring.triangles.iter().map(|&t| base + t - ring.first as u32));
+                let mut line: Vec<Pos2> = screen[range].to_vec();
+                line.push(screen[ring.first]);
+                outlines.push(Shape::line(line, Stroke::new(0.8, COAST_LINE)));
+            }
+            out.push(Shape::mesh(mesh));
+            out.extend(outlines);
+        }
+        out
     }
 }
 
@@ -95,45 +160,23 @@ impl Plugin for LandLayer<'_> {
     ) {
         let rect = ui.max_rect();
         let painter = ui.painter_at(rect);
-        if self.paint_sea {
-            painter.rect_filled(rect, 0.0, SEA);
+        let key = ViewKey {
+            rect,
+            zoom: projector.zoom(),
+            origin: projector.project(lat_lon(0.0, 0.0)).to_pos2(),
+            paint_sea: self.paint_sea,
+        };
+        let Ok(mut cache) = self.mesh.cache.lock() else {
+            return;
+        };
+        if let Some((k, shapes)) = cache.as_ref()
+            && *k == key
+        {
+            painter.extend(shapes.iter().cloned());
+            return;
         }
-        // The visible box in lat/lon, from the corners (Mercator keeps it a box).
-        let corner = |p: Pos2| projector.unproject(p.to_vec2());
-        let (nw, se) = (corner(rect.left_top()), corner(rect.right_bottom()));
-        let (lat_min, lat_max) = (se.y().min(nw.y()), se.y().max(nw.y()));
-        let (lon_min, lon_max) = (nw.x().min(se.x()), nw.x().max(se.x()));
-        let wide = lon_max - lon_min >= 359.0;
-        let mut screen: Vec<Pos2> = vec![Pos2::ZERO; self.mesh.vertices.len()];
-        let project = |p: &LatLon| projector.project(lat_lon(p.lat_deg, p.lon_deg)).to_pos2();
-        for pass_holes in [false, true] {
-            let mut mesh = Mesh::default();
-            let mut outlines = Vec::new();
-            for ring in self.mesh.rings.iter().filter(|r| r.hole == pass_holes) {
-                let [a, b, c, d] = ring.bbox;
-                if a > lat_max || c < lat_min || (!wide && (b > lon_max || d < lon_min)) {
-                    continue;
-                }
-                let range = ring.first..ring.first + ring.len;
-                for (s, v) in screen[range.clone()]
-                    .iter_mut()
-                    .zip(&self.mesh.vertices[range.clone()])
-                {
-                    *s = project(v);
-                }
-                let colour = if ring.hole { SEA } else { LAND };
-                let base = mesh.vertices.len() as u32;
-                for p in &screen[range] {
-                    mesh.colored_vertex(*p, colour);
-                }
-                mesh.indices
-                    .extend(ring.triangles.iter().map(|&t| base + t - ring.first as u32));
-                let mut line: Vec<Pos2> = screen[ring.first..ring.first + ring.len].to_vec();
-                line.push(screen[ring.first]);
-                outlines.push(Shape::line(line, Stroke::new(0.8, COAST_LINE)));
-            }
-            painter.add(Shape::mesh(mesh));
-            painter.extend(outlines);
-        }
+        let shapes = self.mesh.shapes(rect, projector, self.paint_sea);
+        painter.extend(shapes.iter().cloned());
+        *cache = Some((key, shapes));
     }
 }

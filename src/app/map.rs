@@ -47,8 +47,7 @@ fn stretch_colour(
     match colouring {
         Colouring::IndexNow => {
             let t = time?;
-            let h = s.hours.binary_search_by_key(&t, |h| h.time).ok()?;
-            Some(c32(colour::index_colour(s.hours[h].index_m3s_per_100m)))
+            Some(c32(colour::index_colour(s.hour_at(t)?.index_m3s_per_100m)))
         }
         Colouring::Productivity => {
             let date = plan.days.get(day)?.date;
@@ -157,10 +156,18 @@ impl Plugin for CoastLayer<'_> {
         let mut screen_lines = Vec::new();
         // Arrow origins drawn so far: arrows closer than this are skipped, so a crowded
         // coast stays readable when zoomed out.
-        let mut arrow_origins: Vec<Pos2> = Vec::new();
+        let mut arrow_cells: std::collections::HashSet<(i32, i32)> =
+            std::collections::HashSet::new();
+        let view = ui.max_rect().expand(20.0);
         if let Some(plan) = self.plan {
             for (k, s) in plan.stretches.iter().enumerate() {
                 let line: Vec<Pos2> = s.points.iter().map(project).collect();
+                // Off screen: nothing to draw or click.
+                if !line.iter().any(|p| view.contains(*p))
+                    && !egui::Rect::from_points(&line).intersects(view)
+                {
+                    continue;
+                }
                 let selected = self.selected.contains(&s.id);
                 if selected {
                     painter.add(Shape::line(
@@ -184,19 +191,17 @@ impl Plugin for CoastLayer<'_> {
                         6.0,
                     ));
                 }
-                screen_lines.push((s.id.clone(), line));
+                screen_lines.push((k, line));
                 // Arrows at the chosen hour: wind (downwind) in dark grey, Ekman transport
                 // in purple, from the stretch centre, a little offshore.
-                if let Some(h) = self
-                    .time
-                    .and_then(|t| s.hours.binary_search_by_key(&t, |h| h.time).ok())
-                    .map(|i| &s.hours[i])
-                {
+                if let Some(h) = self.time.and_then(|t| s.hour_at(t)) {
                     let c = project(&s.centre) + screen_dir(s.offshore_bearing_deg) * 14.0;
-                    if arrow_origins.iter().any(|o| o.distance(c) < 30.0) {
+                    // One arrow per 30-pixel cell keeps a crowded coast readable.
+                    if !arrow_cells
+                        .insert(((c.x / 30.0).floor() as i32, (c.y / 30.0).floor() as i32))
+                    {
                         continue;
                     }
-                    arrow_origins.push(c);
                     let kt = m_s_to_knots(h.wind.speed_m_s()) as f32;
                     if let Some(from) = h.wind.direction_from_deg() {
                         arrow(
@@ -373,10 +378,14 @@ impl Plugin for CoastLayer<'_> {
                 .min_by(|a, b| a.1.total_cmp(&b.1))
                 .filter(|(_, d)| *d < 12.0);
             match nearest {
-                Some((id, _)) => self.commands.push(Command::SelectStretch {
-                    id: id.clone(),
-                    add,
-                }),
+                Some((k, _)) => {
+                    if let Some(plan) = self.plan {
+                        self.commands.push(Command::SelectStretch {
+                            id: plan.stretches[*k].id.clone(),
+                            add,
+                        });
+                    }
+                }
                 None => {
                     let on_segment = self.segments.iter().find(|s| {
                         let line: Vec<Pos2> = s.points.iter().map(project).collect();

@@ -10,6 +10,9 @@ use crate::export::colour;
 use crate::plan::{CAUTIONS, Plan};
 use eframe::egui::{self, Color32, RichText};
 
+/// Ranked stretches listed before "Show all".
+const RANKED_SHOWN: usize = 30;
+
 /// Text sizes a skipper can read at arm's length.
 pub(super) fn style(ctx: &egui::Context) {
     ctx.global_style_mut(|style| {
@@ -353,9 +356,8 @@ fn time_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
         .and_then(|id| plan.stretches.iter().find(|s| &s.id == id));
     let time = app.view.timeline.get(app.view.hour);
     if let (Some(s), Some(t)) = (chosen, time) {
-        let text = match s.hours.binary_search_by_key(t, |h| h.time) {
-            Ok(k) => {
-                let h = &s.hours[k];
+        let text = match s.hour_at(*t) {
+            Some(h) => {
                 let wind = match h.wind.direction_from_deg() {
                     Some(d) => format!(
                         "wind {:.0} kt from {:03.0}°",
@@ -369,7 +371,7 @@ fn time_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
                     s.name, h.index_m3s_per_100m
                 )
             }
-            Err(_) => format!("{} now: no forecast at this time", s.name),
+            None => format!("{} now: no forecast at this time", s.name),
         };
         ui.label(text);
     }
@@ -435,7 +437,14 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
             if day.ranked.is_empty() {
                 ui.label(RichText::new("No stretch to recommend this day.").strong());
             }
-            for r in &day.ranked {
+            // A long coast can rank hundreds of stretches: the first ones are what a
+            // skipper reads, and laying them all out every frame would slow the app.
+            let shown = if app.view.show_all_ranked {
+                day.ranked.len()
+            } else {
+                day.ranked.len().min(RANKED_SHOWN)
+            };
+            for r in &day.ranked[..shown] {
                 let s = &plan.stretches[r.stretch];
                 let selected = app.view.selected.contains(&s.id);
                 ui.horizontal(|ui| {
@@ -497,6 +506,13 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
                     }
                 });
                 ui.add_space(4.0);
+            }
+            if shown < day.ranked.len()
+                && ui
+                    .button(format!("Show all {} ranked stretches", day.ranked.len()))
+                    .clicked()
+            {
+                app.view.show_all_ranked = true;
             }
             if !day.excluded.is_empty() {
                 egui::CollapsingHeader::new(format!("Not ranked ({})", day.excluded.len())).show(

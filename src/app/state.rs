@@ -116,6 +116,7 @@ pub struct VertexDrag {
 
 /// Runtime view state: never saved with the scenario.
 #[derive(Debug, Clone, PartialEq, Default)]
+#[allow(clippy::struct_excessive_bools)] // Independent view switches, not a state machine.
 pub struct View {
     /// Colouring of the stretches.
     pub colouring: Colouring,
@@ -152,6 +153,8 @@ pub struct View {
     pub centre_on: Option<LatLon>,
     /// Frame the whole coast and the ports on the next frame.
     pub fit_coast: bool,
+    /// List every ranked stretch, not only the first ones.
+    pub show_all_ranked: bool,
 }
 
 /// Dialogs and messages.

@@ -113,6 +113,24 @@ pub struct StretchInfo {
     pub events: Vec<UpwellingEvent>,
 }
 
+impl StretchInfo {
+    /// The hour at `t`, if the stretch has wind then. Hours are hourly, so the index is
+    /// found by arithmetic first (one memory access on a long coast), by search after.
+    #[must_use]
+    pub fn hour_at(&self, t: DateTime<Utc>) -> Option<&StretchHour> {
+        let first = self.hours.first()?;
+        let guess = usize::try_from((t - first.time).num_hours()).ok()?;
+        match self.hours.get(guess) {
+            Some(h) if h.time == t => Some(h),
+            _ => self
+                .hours
+                .binary_search_by_key(&t, |h| h.time)
+                .ok()
+                .map(|k| &self.hours[k]),
+        }
+    }
+}
+
 /// A stretch's place in a day's ranking.
 #[derive(Debug, Clone, PartialEq)]
 pub struct RankedStretch {
