@@ -15,8 +15,8 @@ mod plots;
 
 use super::colour::{hex, productivity_colour};
 use crate::coast::{Land, LatLon};
-use crate::plan::{CAUTIONS, DayPlan, Plan, RankedStretch};
-use chrono::{DateTime, Duration, NaiveDate, NaiveTime, TimeZone, Utc};
+use crate::plan::{CAUTIONS, DayPlan, Plan, RankedStretch, local_midnight};
+use chrono::{DateTime, Duration, NaiveDate, Utc};
 use chrono_tz::Tz;
 use std::fmt::Write as _;
 
@@ -123,19 +123,6 @@ fn local(tz: Tz, t: DateTime<Utc>) -> String {
 
 fn utc(t: DateTime<Utc>) -> String {
     t.format("%H:%MZ").to_string()
-}
-
-/// Local midnight starting a day, as UTC (the earliest if the zone repeats it, the first
-/// hour after if the zone skips it).
-fn local_midnight(tz: Tz, date: NaiveDate) -> DateTime<Utc> {
-    let naive = date.and_time(NaiveTime::MIN);
-    tz.from_local_datetime(&naive)
-        .earliest()
-        .or_else(|| {
-            tz.from_local_datetime(&(naive + Duration::hours(1)))
-                .earliest()
-        })
-        .map_or_else(|| naive.and_utc(), |t| t.with_timezone(&Utc))
 }
 
 /// Start and end of a local day, UTC (23 or 25 hours apart on clock-change days).

@@ -225,8 +225,9 @@ struct Probes {
     route: std::ops::Range<usize>,
 }
 
-/// Local midnight of a day, as UTC (the earliest if the zone repeats it).
-fn local_midnight(tz: Tz, day: NaiveDate) -> DateTime<Utc> {
+/// Local midnight starting a day, as UTC (the earliest if the zone repeats it, the first
+/// hour after if the zone skips it).
+pub(crate) fn local_midnight(tz: Tz, day: NaiveDate) -> DateTime<Utc> {
     let naive = day.and_hms_opt(0, 0, 0).unwrap_or_default();
     tz.from_local_datetime(&naive)
         .earliest()

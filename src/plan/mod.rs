@@ -6,6 +6,7 @@ mod build;
 mod reasons;
 mod settings;
 
+pub(crate) use build::local_midnight;
 pub use build::{
     DayPlan, Excluded, Plan, PlanError, PlanRequest, RankedStretch, StretchDay, StretchHour,
     StretchInfo, build_plan,

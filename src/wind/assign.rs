@@ -105,13 +105,9 @@ fn load_source(path: &Path) -> Result<WindSource, WindFileError> {
     })
 }
 
-/// Gives every segment its wind, from the first source that covers it.
-pub fn assign_wind(
-    sources: &[WindSource],
-    segments: &[Segment],
-) -> Result<Vec<SegmentWind>, WindError> {
-    let pieces: Vec<_> = segments.iter().map(Segment::pieces).collect();
-    let midpoints: Vec<LatLon> = segments.iter().map(Segment::weighted_midpoint).collect();
+/// For a position, the index of the nearest source that is a point series with a
+/// station position (`None` when there is none).
+fn nearest_station_of(sources: &[WindSource]) -> impl Fn(LatLon) -> Option<usize> + '_ {
     let stations: Vec<(usize, LatLon)> = sources
         .iter()
         .enumerate()
@@ -120,12 +116,22 @@ pub fn assign_wind(
             WindSource::Grib2 { .. } => None,
         })
         .collect();
-    let nearest_station = |p: LatLon| {
+    move |p: LatLon| {
         stations
             .iter()
             .min_by(|a, b| distance_m(a.1, p).total_cmp(&distance_m(b.1, p)))
             .map(|s| s.0)
-    };
+    }
+}
+
+/// Gives every segment its wind, from the first source that covers it.
+pub fn assign_wind(
+    sources: &[WindSource],
+    segments: &[Segment],
+) -> Result<Vec<SegmentWind>, WindError> {
+    let pieces: Vec<_> = segments.iter().map(Segment::pieces).collect();
+    let midpoints: Vec<LatLon> = segments.iter().map(Segment::weighted_midpoint).collect();
+    let nearest_station = nearest_station_of(sources);
     let mut out: Vec<Option<SegmentWind>> = vec![None; segments.len()];
     for (k, source) in sources.iter().enumerate() {
         let pending: Vec<usize> = (0..segments.len()).filter(|&s| out[s].is_none()).collect();
@@ -233,20 +239,7 @@ pub fn sample_points_with(
     points: &[LatLon],
     progress: &Progress,
 ) -> Result<PointSamples, WindError> {
-    let stations: Vec<(usize, LatLon)> = sources
-        .iter()
-        .enumerate()
-        .filter_map(|(k, s)| match s {
-            WindSource::Series { series, .. } => series.position.map(|p| (k, p)),
-            WindSource::Grib2 { .. } => None,
-        })
-        .collect();
-    let nearest_station = |p: LatLon| {
-        stations
-            .iter()
-            .min_by(|a, b| distance_m(a.1, p).total_cmp(&distance_m(b.1, p)))
-            .map(|s| s.0)
-    };
+    let nearest_station = nearest_station_of(sources);
     let mut out: Vec<Option<WindSeries>> = vec![None; points.len()];
     let mut latest_reference: Option<DateTime<Utc>> = None;
     for (k, source) in sources.iter().enumerate() {
