@@ -39,8 +39,116 @@ pub enum Command {
     Index(IndexArgs),
     /// Ranked stretches per day for a boat and its home port, with reasons.
     Plan(PlanArgs),
+    /// Compare segments over seasons of historical wind (Bograd et al. 2009 metrics).
+    Season(SeasonArgs),
     /// Write the invented demo scenario and its synthetic forecast into a folder.
     Demo(DemoArgs),
+}
+
+/// Output format of `season`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum SeasonFormatArg {
+    /// Readable in a terminal.
+    Table,
+    /// One row per segment and season, and a climatology row per segment.
+    Csv,
+    /// Everything, with the climatology by day of season.
+    Json,
+}
+
+/// Arguments of `shelfwind season`.
+#[derive(Debug, clap::Args)]
+pub struct SeasonArgs {
+    /// The scenario (or a GeoJSON coast).
+    pub scenario: PathBuf,
+    /// Wind files of the record (many GRIB2 files, or long CSV series); read in
+    /// parallel and joined in time.
+    #[arg(long, value_name = "FILE", num_args = 1.., required = true)]
+    pub wind: Vec<PathBuf>,
+    /// First season (year it starts in).
+    #[arg(long, value_name = "YEAR")]
+    pub from: Option<i32>,
+    /// Last season.
+    #[arg(long, value_name = "YEAR")]
+    pub to: Option<i32>,
+    /// Share of a season's days with data needed for its metrics, percent
+    /// [default: the scenario's, else 90].
+    #[arg(long, value_parser = parse_percent)]
+    pub min_coverage: Option<f64>,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = SeasonFormatArg::Table)]
+    pub format: SeasonFormatArg,
+    /// Output file (written whole or not at all); standard output when absent.
+    #[arg(long, value_name = "FILE")]
+    pub out: Option<PathBuf>,
+}
+
+fn parse_percent(s: &str) -> Result<f64, String> {
+    let x: f64 = s.parse().map_err(|_| format!("{s:?} is not a number"))?;
+    if (0.0..=100.0).contains(&x) {
+        Ok(x)
+    } else {
+        Err(format!("{s} is out of range: expected 0 to 100 (percent)"))
+    }
+}
+
+/// `shelfwind season`: season metrics per segment and year, and the climatology.
+pub fn run_season(args: &SeasonArgs) -> Result<(), CliError> {
+    use crate::export::{SeasonFormat, SegmentSeasons, render_seasons};
+    use crate::upwelling::{CoverageSettings, analyse_seasons};
+    let coast = load_coast(&args.scenario)?;
+    let sources = load_sources(&args.wind)?;
+    let winds = crate::wind::assign_wind_merged(
+        &sources,
+        &coast.segments,
+        &crate::progress::Progress::new(),
+    )?;
+    let settings = coast
+        .scenario
+        .as_ref()
+        .map(|s| s.settings.clone())
+        .unwrap_or_default();
+    let coverage = CoverageSettings {
+        min_year: args
+            .min_coverage
+            .map_or(settings.seasons.min_year, |p| p / 100.0),
+        ..settings.seasons
+    };
+    let years = match (args.from, args.to) {
+        (None, None) => None,
+        (from, to) => Some((from.unwrap_or(i32::MIN), to.unwrap_or(i32::MAX))),
+    };
+    let mut out = Vec::with_capacity(coast.segments.len());
+    for (seg, wind) in coast.segments.iter().zip(&winds) {
+        let series = index_series(seg, wind, &settings.index)?;
+        let southern = series.midpoint.lat_deg < 0.0;
+        let (seasons, climatology) = analyse_seasons(
+            &series.times,
+            &series.index_m3s_per_100m,
+            southern,
+            years,
+            &coverage,
+            &settings.events,
+        );
+        let name = coast
+            .scenario
+            .as_ref()
+            .and_then(|s| s.segments.iter().find(|c| c.id == seg.id))
+            .map_or_else(|| seg.id.clone(), |c| c.label().to_string());
+        out.push(SegmentSeasons {
+            segment_id: seg.id.clone(),
+            name,
+            southern,
+            years: seasons,
+            climatology,
+        });
+    }
+    let format = match args.format {
+        SeasonFormatArg::Table => SeasonFormat::Table,
+        SeasonFormatArg::Csv => SeasonFormat::Csv,
+        SeasonFormatArg::Json => SeasonFormat::Json,
+    };
+    write_output(args.out.as_deref(), render_seasons(&out, format).as_bytes())
 }
 
 /// Output format of `plan`.

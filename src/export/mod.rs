@@ -4,8 +4,10 @@
 pub mod colour;
 mod index_table;
 mod plan_out;
+mod season_out;
 mod trip_sheet;
 
 pub use index_table::{IndexFormat, IndexRecord, index_records, write_index};
 pub use plan_out::{GPX_STRETCHES_PER_DAY, PlanFormat, render_plan};
+pub use season_out::{SeasonFormat, SegmentSeasons, render_seasons};
 pub use trip_sheet::trip_sheet_html;

@@ -2,7 +2,7 @@
 
 use crate::coast::{CoastSegment, LatLon};
 use crate::plan::TripSettings;
-use crate::upwelling::{EventSettings, IndexSettings, ResponseSettings};
+use crate::upwelling::{CoverageSettings, EventSettings, IndexSettings, ResponseSettings};
 use serde::{Deserialize, Serialize};
 use std::collections::HashSet;
 use std::path::PathBuf;
@@ -55,6 +55,9 @@ pub struct ModelSettings {
     /// Trip planning and scoring.
     #[serde(default)]
     pub trip: TripSettings,
+    /// Data needed per day, month and season for season metrics.
+    #[serde(default)]
+    pub seasons: CoverageSettings,
 }
 
 impl Default for ModelSettings {
@@ -65,6 +68,7 @@ impl Default for ModelSettings {
             events: EventSettings::default(),
             response: ResponseSettings::default(),
             trip: TripSettings::default(),
+            seasons: CoverageSettings::default(),
         }
     }
 }

@@ -5,6 +5,7 @@ mod events;
 mod index;
 mod response;
 mod season;
+mod seasons;
 
 pub use events::{
     EventSettings, Relaxation, UpwellingEvent, cumulative, detect_events, relaxations,
@@ -12,3 +13,4 @@ pub use events::{
 pub use index::{IndexSeries, IndexSettings, UpwellingError, index_series};
 pub use response::{DayInput, DayResponse, ResponseSettings};
 pub use season::{SeasonMetrics, season_metrics};
+pub use seasons::{Climatology, CoverageSettings, SeasonYear, analyse_seasons};

@@ -12,6 +12,7 @@ mod demo;
 mod grib2;
 mod grib2_writer;
 mod grid;
+mod merge;
 
 pub use assign::{
     PointSamples, SegmentWind, WindSource, assign_wind, load_sources, sample_points,
@@ -25,6 +26,7 @@ pub use demo::{
 pub use grib2::{Grib2Samples, sample_grib2, sample_grib2_with};
 pub use grib2_writer::{GridField, encode_wind_message};
 pub use grid::RegularGrid;
+pub use merge::assign_wind_merged;
 
 use crate::coast::LatLon;
 use crate::physics::Wind;
