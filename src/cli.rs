@@ -94,8 +94,8 @@ fn parse_percent(s: &str) -> Result<f64, String> {
 
 /// `shelfwind season`: season metrics per segment and year, and the climatology.
 pub fn run_season(args: &SeasonArgs) -> Result<(), CliError> {
-    use crate::export::{SeasonFormat, SegmentSeasons, render_seasons};
-    use crate::upwelling::{CoverageSettings, analyse_seasons};
+    use crate::export::{SeasonFormat, render_seasons};
+    use crate::upwelling::{CoverageSettings, analyse_segments};
     let coast = load_coast(&args.scenario)?;
     let sources = load_sources(&args.wind)?;
     let winds = crate::wind::assign_wind_merged(
@@ -118,31 +118,16 @@ pub fn run_season(args: &SeasonArgs) -> Result<(), CliError> {
         (None, None) => None,
         (from, to) => Some((from.unwrap_or(i32::MIN), to.unwrap_or(i32::MAX))),
     };
-    let mut out = Vec::with_capacity(coast.segments.len());
+    let mut series = Vec::with_capacity(coast.segments.len());
     for (seg, wind) in coast.segments.iter().zip(&winds) {
-        let series = index_series(seg, wind, &settings.index)?;
-        let southern = series.midpoint.lat_deg < 0.0;
-        let (seasons, climatology) = analyse_seasons(
-            &series.times,
-            &series.index_m3s_per_100m,
-            southern,
-            years,
-            &coverage,
-            &settings.events,
-        );
         let name = coast
             .scenario
             .as_ref()
             .and_then(|s| s.segments.iter().find(|c| c.id == seg.id))
             .map_or_else(|| seg.id.clone(), |c| c.label().to_string());
-        out.push(SegmentSeasons {
-            segment_id: seg.id.clone(),
-            name,
-            southern,
-            years: seasons,
-            climatology,
-        });
+        series.push((name, index_series(seg, wind, &settings.index)?));
     }
+    let out = analyse_segments(&series, years, &coverage, &settings.events);
     let format = match args.format {
         SeasonFormatArg::Table => SeasonFormat::Table,
         SeasonFormatArg::Csv => SeasonFormat::Csv,

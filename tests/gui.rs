@@ -237,3 +237,81 @@ fn save_then_reopen_gives_the_same_scenario() {
         "the saved scenario finds its forecast"
     );
 }
+
+/// The season view: a station record typed in, analysed in the background, shown in
+/// the metrics table, and the table exported as CSV.
+#[test]
+fn season_view_analyses_a_record_and_exports_the_table() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    // Two years of hourly northerlies at 10 m/s (no position: covers every segment).
+    let csv = dir.path().join("record.csv");
+    let mut text = String::from("time,speed_ms,direction_from_deg\n");
+    let t0 = chrono::DateTime::parse_from_rfc3339("2025-01-01T00:00:00Z")
+        .expect("time")
+        .to_utc();
+    for h in 0..(2 * 365 * 24) {
+        let t = t0 + chrono::Duration::hours(h);
+        text.push_str(&(t.format("%Y-%m-%dT%H:%M:%SZ").to_string() + ",10,0\n"));
+    }
+    std::fs::write(&csv, text).expect("write");
+    harness.get_by_label("Seasons").click();
+    harness.run_steps(2);
+    harness
+        .get_by_label("Compare seasons of historical wind…")
+        .click();
+    harness.run_steps(3);
+    let field = harness.get_by_role_and_label(
+        egui::accesskit::Role::MultilineTextInput,
+        "Wind record files (GRIB2 or CSV), one path per line",
+    );
+    field.focus();
+    harness.run_steps(2);
+    harness
+        .get_by_role_and_label(
+            egui::accesskit::Role::MultilineTextInput,
+            "Wind record files (GRIB2 or CSV), one path per line",
+        )
+        .type_text(csv.to_str().expect("utf-8"));
+    harness.run_steps(2);
+    harness.get_by_label("Analyse the record").click();
+    let start = Instant::now();
+    while harness.state().season.result.is_none() {
+        harness.step();
+        assert!(
+            start.elapsed() < Duration::from_mins(3),
+            "no seasons: {:?}",
+            harness.state().season.message
+        );
+        std::thread::sleep(Duration::from_millis(20));
+    }
+    harness.run_steps(3);
+    let result = harness.state().season.result.clone().expect("result");
+    assert_eq!(result.len(), 12, "every demo segment");
+    assert_eq!(result[0].years.len(), 2);
+    assert!(result[0].years.iter().all(|y| y.complete));
+    harness.get_by_label("Season metrics (Bograd et al. 2009); click a heading to sort");
+    let out = dir.path().join("seasons.csv");
+    // The export row is at the foot of the window: bring it into view first.
+    harness.get_by_label("Table (CSV)").scroll_to_me();
+    harness.run_steps(3);
+    let export = harness.get_by_role_and_label(egui::accesskit::Role::TextInput, "Export to");
+    export.focus();
+    harness.run_steps(2);
+    harness
+        .get_by_role_and_label(egui::accesskit::Role::TextInput, "Export to")
+        .type_text(out.to_str().expect("utf-8"));
+    harness.run_steps(2);
+    assert_eq!(
+        harness.state().season.export_path,
+        out.to_str().expect("utf-8")
+    );
+    harness.get_by_label("Table (CSV)").click_accesskit();
+    harness.run_steps(2);
+    let written = std::fs::read_to_string(&out).expect("exported");
+    assert_eq!(
+        written.lines().count(),
+        1 + 12 * 3,
+        "two seasons and a climatology row per segment"
+    );
+}

@@ -12,6 +12,7 @@ mod land_layer;
 mod map;
 mod panels;
 mod plots;
+mod season_view;
 mod state;
 
 pub use commands::{Command, FileAction};

@@ -160,6 +160,12 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
                 ui.close();
             }
         });
+        ui.menu_button("Seasons", |ui| {
+            if ui.button("Compare seasons of historical wind…").clicked() {
+                app.season.open = true;
+                ui.close();
+            }
+        });
         ui.menu_button("Help", |ui| {
             if ui.button("Cautions").clicked() {
                 app.dialogs.show_cautions = true;
@@ -832,6 +838,9 @@ fn windows_ui(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mut Vec<Co
                 }
             });
         });
+    }
+    if app.season.open || app.season.pending_png_or_job() {
+        super::season_view::season_window(app, ctx);
     }
     if app.dialogs.show_settings {
         super::plots::settings_window(app, ctx, commands);

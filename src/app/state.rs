@@ -209,6 +209,8 @@ pub struct ShelfwindApp {
     pub(super) options: AppOptions,
     pub(super) last_autosave_s: f64,
     pub(super) commands: Vec<Command>,
+    /// The season view (co-op managers).
+    pub season: super::season_view::SeasonView,
 }
 
 impl ShelfwindApp {
@@ -278,6 +280,7 @@ impl ShelfwindApp {
             options,
             last_autosave_s: 0.0,
             commands: Vec::new(),
+            season: super::season_view::SeasonView::default(),
         };
         let _ = app.map_memory.set_zoom(9.0);
         if let Some((lat, lon, zoom)) = app.remembered.map_view {

@@ -1,24 +1,9 @@
 //! The season comparison for a co-op's members: one row per segment and season with the
 //! metrics, then the climatology of each segment (mean across complete seasons).
 
-use crate::upwelling::{Climatology, SeasonYear};
+use crate::upwelling::SegmentSeasons;
 use serde_json::json;
 use std::fmt::Write as _;
-
-/// One segment's seasons and climatology.
-#[derive(Debug, Clone, PartialEq)]
-pub struct SegmentSeasons {
-    /// Segment id.
-    pub segment_id: String,
-    /// Segment name (or id).
-    pub name: String,
-    /// Seasons start on 1 July (southern hemisphere).
-    pub southern: bool,
-    /// The seasons.
-    pub years: Vec<SeasonYear>,
-    /// Across complete seasons.
-    pub climatology: Climatology,
-}
 
 /// Output formats of `season`.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]

@@ -13,4 +13,6 @@ pub use events::{
 pub use index::{IndexSeries, IndexSettings, UpwellingError, index_series};
 pub use response::{DayInput, DayResponse, ResponseSettings};
 pub use season::{SeasonMetrics, season_metrics};
-pub use seasons::{Climatology, CoverageSettings, SeasonYear, analyse_seasons};
+pub use seasons::{
+    Climatology, CoverageSettings, SeasonYear, SegmentSeasons, analyse_seasons, analyse_segments,
+};

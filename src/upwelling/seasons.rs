@@ -67,8 +67,58 @@ pub struct SeasonYear {
     /// Monthly means in season order (January…, or July… in the south); `None` where a
     /// month has too little data.
     pub monthly_mean: Vec<Option<f64>>,
+    /// Cumulative index by day of season (complete seasons only, gaps filled), m^3/s per
+    /// 100 m × days.
+    #[serde(skip)]
+    pub cumulative: Vec<f64>,
     /// Why metrics are missing, if they are.
     pub flag: String,
+}
+
+/// One segment's seasons and climatology.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SegmentSeasons {
+    /// Segment id.
+    pub segment_id: String,
+    /// Segment name (or id).
+    pub name: String,
+    /// Seasons start on 1 July (southern hemisphere).
+    pub southern: bool,
+    /// The seasons.
+    pub years: Vec<SeasonYear>,
+    /// Across complete seasons.
+    pub climatology: Climatology,
+}
+
+/// Seasons of every segment from its index series (names beside them).
+#[must_use]
+pub fn analyse_segments(
+    series: &[(String, super::IndexSeries)],
+    years: Option<(i32, i32)>,
+    coverage: &CoverageSettings,
+    events: &EventSettings,
+) -> Vec<SegmentSeasons> {
+    series
+        .iter()
+        .map(|(name, s)| {
+            let southern = s.midpoint.lat_deg < 0.0;
+            let (years, climatology) = analyse_seasons(
+                &s.times,
+                &s.index_m3s_per_100m,
+                southern,
+                years,
+                coverage,
+                events,
+            );
+            SegmentSeasons {
+                segment_id: s.segment_id.clone(),
+                name: name.clone(),
+                southern,
+                years,
+                climatology,
+            }
+        })
+        .collect()
 }
 
 /// Mean and spread across complete years.
@@ -226,6 +276,7 @@ pub fn analyse_seasons(
             event_count: evs.len(),
             mean_event_days,
             monthly_mean: monthly,
+            cumulative: Vec::new(),
             flag: String::new(),
         };
         if complete {
@@ -237,6 +288,7 @@ pub fn analyse_seasons(
                 year_out.total_upwelling = Some(m.total_m3s_per_100m_days);
             }
             year_out.filled_days = n_filled;
+            year_out.cumulative = super::cumulative(&filled);
         } else {
             year_out.flag = format!(
                 "incomplete: {:.0} % of days have data, {:.0} % needed",
