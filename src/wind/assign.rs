@@ -107,7 +107,7 @@ fn load_source(path: &Path) -> Result<WindSource, WindFileError> {
 
 /// For a position, the index of the nearest source that is a point series with a
 /// station position (`None` when there is none).
-fn nearest_station_of(sources: &[WindSource]) -> impl Fn(LatLon) -> Option<usize> + '_ {
+pub(super) fn nearest_station_of(sources: &[WindSource]) -> impl Fn(LatLon) -> Option<usize> + '_ {
     let stations: Vec<(usize, LatLon)> = sources
         .iter()
         .enumerate()

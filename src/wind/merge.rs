@@ -8,7 +8,7 @@
 //! are read, one message at a time.
 
 use super::{SegmentWind, WindError, WindSource, sample_grib2_with};
-use crate::coast::{LatLon, Segment, distance_m};
+use crate::coast::{LatLon, Segment};
 use crate::physics::Wind;
 use crate::progress::Progress;
 use chrono::{DateTime, Utc};
@@ -72,14 +72,7 @@ pub fn assign_wind_merged(
     }
     // A station file covers the points for which it is the nearest station (files
     // without a position cover everything), as for forecasts.
-    let stations: Vec<(usize, LatLon)> = sources
-        .iter()
-        .enumerate()
-        .filter_map(|(k, s)| match s {
-            WindSource::Series { series, .. } => series.position.map(|p| (k, p)),
-            WindSource::Grib2 { .. } => None,
-        })
-        .collect();
+    let nearest_station = super::assign::nearest_station_of(sources);
     let done = std::sync::atomic::AtomicUsize::new(0);
     let per_file: Vec<Result<FileSamples, WindError>> = sources
         .par_iter()
@@ -93,11 +86,7 @@ pub fn assign_wind_merged(
             }
             let covers = |p: LatLon| match source {
                 WindSource::Series { series, .. } if series.position.is_some() => {
-                    stations
-                        .iter()
-                        .min_by(|a, b| distance_m(a.1, p).total_cmp(&distance_m(b.1, p)))
-                        .map(|s| s.0)
-                        == Some(k)
+                    nearest_station(p) == Some(k)
                 }
                 _ => true,
             };
