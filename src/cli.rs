@@ -7,8 +7,10 @@ use crate::export::{
     IndexFormat, PlanFormat, index_records, render_plan, trip_sheet_html, write_index,
 };
 use crate::physics::DragChoice;
-use crate::plan::{PlanError, PlanRequest, build_plan};
-use crate::scenario::{Scenario, ScenarioError, is_scenario_text, load_scenario};
+use crate::plan::{ForecastError, PlanError};
+use crate::scenario::{
+    PlanChoice, Scenario, ScenarioError, is_scenario_text, load_scenario, plan_scenario,
+};
 use crate::upwelling::{IndexSettings, UpwellingError, index_series};
 use crate::wind::{WindError, assign_wind, load_sources};
 use clap::{Parser, Subcommand, ValueEnum};
@@ -203,18 +205,22 @@ pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
         }));
     };
     let sources = load_sources(&wind_paths(&args.wind, &coast))?;
-    let request = PlanRequest {
-        scenario,
-        segments: &coast.segments,
+    let choice = PlanChoice {
         vessel_id: args.vessel.as_deref(),
         port_id: args.port.as_deref(),
         from: args.from,
         days: usize::from(args.days),
         now: chrono::Utc::now(),
-        progress: None,
     };
-    let plan = build_plan(&request, &sources).map_err(|e| match e {
-        PlanError::Wind(w) => CliError::Wind(w),
+    let plan = plan_scenario(
+        scenario,
+        &coast.segments,
+        &sources,
+        &choice,
+        &crate::progress::Progress::new(),
+    )
+    .map_err(|e| match e {
+        PlanError::Forecast(ForecastError::Wind(w)) => CliError::Wind(w),
         other => CliError::Plan {
             path: args.scenario.clone(),
             message: other.to_string(),

@@ -21,6 +21,7 @@ pub mod atomic;
 pub mod cli;
 pub mod coast;
 pub mod export;
+pub mod localtime;
 pub mod physics;
 pub mod plan;
 pub mod progress;

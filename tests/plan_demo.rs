@@ -9,10 +9,13 @@
 
 use chrono::NaiveDate;
 use shelfwind::coast::{Land, resolve_segments};
+use shelfwind::export::plan_text::{excluded_text, ranked_lines};
 use shelfwind::export::{PlanFormat, render_plan};
-use shelfwind::plan::{Plan, PlanRequest, build_plan};
+use shelfwind::plan::{Plan, RankedStretch};
+use shelfwind::progress::Progress;
 use shelfwind::scenario::{
-    DEMO_FORECAST_FILE, Scenario, demo_scenario, parse_scenario, scenario_to_json,
+    DEMO_FORECAST_FILE, PlanChoice, Scenario, demo_scenario, parse_scenario, plan_scenario,
+    scenario_to_json,
 };
 use shelfwind::wind::{WindSource, demo_forecast_grib2, load_sources};
 use std::path::PathBuf;
@@ -28,17 +31,26 @@ fn demo_plan(vessel: &str, port: &str, from: Option<NaiveDate>, days: usize) -> 
     let dir = tempfile::tempdir().expect("temp dir");
     let path = dir.path().join(DEMO_FORECAST_FILE);
     std::fs::write(&path, demo_forecast_grib2()).expect("write");
-    let req = PlanRequest {
-        scenario: &scenario,
-        segments: &segments,
+    let choice = PlanChoice {
         vessel_id: Some(vessel),
         port_id: Some(port),
         from,
         days,
         now: chrono::Utc::now(),
-        progress: None,
     };
-    build_plan(&req, &[WindSource::Grib2 { path }]).expect("plan")
+    plan_scenario(
+        &scenario,
+        &segments,
+        &[WindSource::Grib2 { path }],
+        &choice,
+        &Progress::new(),
+    )
+    .expect("plan")
+}
+
+/// The reasons of a rank as the exports and the app show them.
+fn reasons(plan: &Plan, date: usize, r: &RankedStretch) -> Vec<String> {
+    ranked_lines(plan, plan.days[date].date, r)
 }
 
 fn best_score(plan: &Plan, date: &str) -> f64 {
@@ -61,7 +73,7 @@ fn the_demo_week_follows_its_story() {
     let wind_out: Vec<_> = thursday
         .excluded
         .iter()
-        .filter(|e| e.reason.contains("over this boat's 18 kt limit all day"))
+        .filter(|e| excluded_text(&plan, e).contains("over this boat's 18 kt limit all day"))
         .collect();
     assert_eq!(wind_out.len(), 4, "{:?}", thursday.excluded);
     // The relaxation after the blow is the best of the week; early in the week the bloom
@@ -72,17 +84,15 @@ fn the_demo_week_follows_its_story() {
             "{early}"
         );
     }
-    let monday_top = &plan.days[0].ranked[0];
+    let monday_top = reasons(&plan, 0, &plan.days[0].ranked[0]);
     assert!(
-        monday_top.reasons[0].contains("ended") && monday_top.reasons[0].contains("bloom expected"),
-        "{:?}",
-        monday_top.reasons
+        monday_top[0].contains("ended") && monday_top[0].contains("bloom expected"),
+        "{monday_top:?}"
     );
-    let friday_top = &plan.days[4].ranked[0];
+    let friday_top = reasons(&plan, 4, &plan.days[4].ranked[0]);
     assert!(
-        friday_top.reasons[0].starts_with("upwelling for 3 days ended today"),
-        "{:?}",
-        friday_top.reasons
+        friday_top[0].starts_with("upwelling for 3 days ended today"),
+        "{friday_top:?}"
     );
     // Closed segments are never ranked, and say why.
     for d in &plan.days {
@@ -93,15 +103,15 @@ fn the_demo_week_follows_its_story() {
         assert!(
             d.excluded
                 .iter()
-                .any(|e| e.reason == "closed to fishing: marine reserve (no take)")
+                .any(|e| excluded_text(&plan, e) == "closed to fishing: marine reserve (no take)")
         );
     }
     // Every number has its parts: score = 100 × productivity × window × distance.
-    for d in &plan.days {
+    for (k, d) in plan.days.iter().enumerate() {
         for r in &d.ranked {
             let recomposed = 100.0 * r.productivity * r.window_factor * r.distance_factor;
             assert!((recomposed - r.score).abs() < 1e-9);
-            assert_eq!(r.reasons.len(), 3);
+            assert_eq!(reasons(&plan, k, r).len(), 3);
         }
     }
 }
@@ -118,12 +128,8 @@ fn bigger_boats_go_further_and_the_largest_works_the_blow() {
         !large.days[0].ranked.is_empty(),
         "32 kt limit: some hours are workable"
     );
-    let top = &large.days[0].ranked[0];
-    assert!(
-        top.reasons[0].contains("production flushed offshore"),
-        "{:?}",
-        top.reasons
-    );
+    let top = reasons(&large, 0, &large.days[0].ranked[0]);
+    assert!(top[0].contains("production flushed offshore"), "{top:?}");
 }
 
 #[test]
@@ -161,23 +167,22 @@ fn over_the_limit_all_day_drops_out_with_the_reason() {
     }
     std::fs::write(&csv, text).expect("write");
     let sources = load_sources(&[csv]).expect("csv");
-    let req = PlanRequest {
-        scenario: &scenario,
-        segments: &segments,
+    let choice = PlanChoice {
         vessel_id: Some("little-auk"),
         port_id: Some("tern-harbour"),
         from: Some(day("2027-05-11")),
         days: 1,
         now: chrono::Utc::now(),
-        progress: None,
     };
-    let plan = build_plan(&req, &sources).expect("plan");
+    let plan =
+        plan_scenario(&scenario, &segments, &sources, &choice, &Progress::new()).expect("plan");
     assert!(plan.days[0].ranked.is_empty());
     for e in &plan.days[0].excluded {
         assert_eq!(
-            e.reason,
+            excluded_text(&plan, e),
             "wind up to 30 kt (05:00): over this boat's 18 kt limit all day"
         );
+        assert_eq!(e.exclusion.kind(), "over_wind_limit");
     }
 }
 

@@ -6,9 +6,11 @@
 
 use chrono::NaiveDate;
 use shelfwind::coast::{Land, resolve_segments};
+use shelfwind::export::plan_text::{excluded_text, notes, ranked_lines};
 use shelfwind::export::trip_sheet_html;
-use shelfwind::plan::{CAUTIONS, Plan, PlanRequest, build_plan};
-use shelfwind::scenario::{DEMO_FORECAST_FILE, Scenario, demo_scenario};
+use shelfwind::plan::{CAUTIONS, Plan};
+use shelfwind::progress::Progress;
+use shelfwind::scenario::{DEMO_FORECAST_FILE, PlanChoice, Scenario, demo_scenario, plan_scenario};
 use shelfwind::wind::{WindSource, demo_forecast_grib2};
 use std::collections::HashSet;
 use std::path::Path;
@@ -23,17 +25,21 @@ fn plan_for(scenario: &Scenario, vessel: &str, port: &str, from: &str) -> Plan {
     let dir = tempfile::tempdir().expect("temp dir");
     let path = dir.path().join(DEMO_FORECAST_FILE);
     std::fs::write(&path, demo_forecast_grib2()).expect("write");
-    let req = PlanRequest {
-        scenario,
-        segments: &segments,
+    let choice = PlanChoice {
         vessel_id: Some(vessel),
         port_id: Some(port),
         from: Some(day(from)),
         days: 1,
         now: chrono::Utc::now(),
-        progress: None,
     };
-    build_plan(&req, &[WindSource::Grib2 { path }]).expect("plan")
+    plan_scenario(
+        scenario,
+        &segments,
+        &[WindSource::Grib2 { path }],
+        &choice,
+        &Progress::new(),
+    )
+    .expect("plan")
 }
 
 fn demo_plan(vessel: &str, port: &str, from: &str) -> Plan {
@@ -145,8 +151,8 @@ fn the_demo_friday_sheet_has_what_the_skipper_needs() {
         "before the map"
     );
     assert_eq!(html.matches(&cautions).count(), 2);
-    for n in &plan.notes {
-        assert!(html.contains(&html_text(n)), "{n}");
+    for n in notes(&plan) {
+        assert!(html.contains(&html_text(&n)), "{n}");
     }
 
     // Every ranked stretch with its rank (ties as "=2"), window in local time and UTC,
@@ -163,9 +169,9 @@ fn the_demo_friday_sheet_has_what_the_skipper_needs() {
             html_text(&s.name)
         );
         assert!(html.contains(&row), "{row}");
-        for reason in &r.reasons {
+        for reason in ranked_lines(&plan, d.date, r) {
             assert!(
-                html.contains(&format!("<li>{}</li>", html_text(reason))),
+                html.contains(&format!("<li>{}</li>", html_text(&reason))),
                 "{reason}"
             );
         }
@@ -178,10 +184,11 @@ fn the_demo_friday_sheet_has_what_the_skipper_needs() {
     // Why the others are left out: closures by name, the far ones on one line.
     let mut far = 0;
     for e in &d.excluded {
-        if e.reason.contains("beyond this boat's") {
+        let reason = excluded_text(&plan, e);
+        if e.exclusion.is_out_of_range() {
             far += 1;
         } else {
-            assert!(html.contains(&html_text(&e.reason)), "{}", e.reason);
+            assert!(html.contains(&html_text(&reason)), "{reason}");
         }
     }
     assert!(far > 5);

@@ -1,18 +1,37 @@
-//! The background job that reads the wind and builds the plan, so the window never
-//! freezes; with progress and a Cancel button. A failed job leaves the previous plan
-//! (and forecast) in place.
+//! The background job that makes the plan, so the window never freezes; with progress
+//! and a Cancel button. It keeps the stages' results: picking another boat, port or day,
+//! renaming a segment or changing a closure ranks again from them without reading any
+//! file; only new wind files or a change of coast geometry sample the wind again, and a
+//! change of model settings recomputes the upwelling from the same samples. A failed job
+//! leaves the previous plan (and forecast) in place.
 
 use super::edit::Edit;
 use super::state::ShelfwindApp;
 use crate::coast::{Land, resolve_segments};
-use crate::plan::{Plan, PlanRequest, build_plan};
+use crate::plan::{
+    Forecast, Plan, SampledConditions, UpwellingSettings, forecast_key, rank_plan,
+    sample_forecast_conditions,
+};
 use crate::progress::Progress;
-use crate::scenario::Scenario;
-use crate::wind::load_sources;
+use crate::scenario::{PlanChoice, Scenario};
+use crate::wind::{SourceIdentity, load_sources};
+use chrono_tz::Tz;
 use eframe::egui;
 use std::path::PathBuf;
 use std::sync::Arc;
 use std::sync::mpsc::{Receiver, channel};
+
+/// The stages' results kept between jobs.
+#[derive(Clone)]
+pub struct StageCache {
+    conditions: Arc<SampledConditions>,
+    tz: Tz,
+    settings: UpwellingSettings,
+    forecast: Arc<Forecast>,
+}
+
+/// What a job gives back.
+type JobResult = Result<(Plan, StageCache), String>;
 
 /// A running plan job.
 pub struct PlanJob {
@@ -22,7 +41,7 @@ pub struct PlanJob {
     pub label: String,
     /// The new wind files, when the job imports a forecast.
     pub new_wind_files: Option<Vec<PathBuf>>,
-    rx: Receiver<Result<Plan, String>>,
+    rx: Receiver<JobResult>,
 }
 
 /// Everything the job needs, copied from the app so the thread owns it.
@@ -31,27 +50,68 @@ struct JobInput {
     winds: Vec<PathBuf>,
     vessel_id: Option<String>,
     port_id: Option<String>,
+    cache: Option<StageCache>,
 }
 
-fn run_job(input: &JobInput, progress: &Arc<Progress>) -> Result<Plan, String> {
+/// The conditions: from the cache when the files and the geometry are unchanged,
+/// sampled afresh otherwise.
+fn conditions(input: &JobInput, progress: &Progress) -> Result<Arc<SampledConditions>, String> {
+    let scenario = &input.scenario;
     let segments =
-        resolve_segments(&input.scenario.segments, Land::bundled()).map_err(|e| e.to_string())?;
+        resolve_segments(&scenario.segments, Land::bundled()).map_err(|e| e.to_string())?;
+    let ports = scenario.port_positions();
+    let geometry = scenario.forecast_geometry(&segments, &ports, Land::bundled());
+    let identities = input
+        .winds
+        .iter()
+        .map(|p| SourceIdentity::of(p))
+        .collect::<Result<Vec<_>, _>>()
+        .map_err(|e| e.to_string())?;
+    if let Some(cache) = &input.cache
+        && cache.conditions.fits(&identities, forecast_key(&geometry))
+    {
+        return Ok(cache.conditions.clone());
+    }
     let sources = load_sources(&input.winds).map_err(|e| e.to_string())?;
-    let request = PlanRequest {
-        scenario: &input.scenario,
-        segments: &segments,
+    sample_forecast_conditions(&geometry, &sources, progress)
+        .map(Arc::new)
+        .map_err(|e| e.to_string())
+}
+
+fn run_job(input: &JobInput, progress: &Progress) -> JobResult {
+    let scenario = &input.scenario;
+    let tz = scenario.tz().map_err(|e| e.to_string())?;
+    let settings = scenario.upwelling_settings();
+    let conditions = conditions(input, progress)?;
+    if progress.is_cancelled() {
+        return Err("stopped".into());
+    }
+    let forecast = match &input.cache {
+        Some(c)
+            if Arc::ptr_eq(&c.conditions, &conditions) && c.tz == tz && c.settings == settings =>
+        {
+            c.forecast.clone()
+        }
+        _ => Arc::new(conditions.forecast(tz, &settings)),
+    };
+    let choice = PlanChoice {
         vessel_id: input.vessel_id.as_deref(),
         port_id: input.port_id.as_deref(),
         from: None,
         days: 7,
         now: chrono::Utc::now(),
-        progress: Some(progress.clone()),
     };
-    let plan = build_plan(&request, &sources);
-    if progress.is_cancelled() {
-        return Err("stopped".into());
-    }
-    plan.map_err(|e| e.to_string())
+    let request = scenario.plan_request(&choice).map_err(|e| e.to_string())?;
+    let plan = rank_plan(&forecast, &request).map_err(|e| e.to_string())?;
+    Ok((
+        plan,
+        StageCache {
+            conditions,
+            tz,
+            settings,
+            forecast,
+        },
+    ))
 }
 
 impl ShelfwindApp {
@@ -93,6 +153,7 @@ impl ShelfwindApp {
             vessel_id: valid_vessel(&self.view.vessel_id),
             port_id: valid_port(&self.view.port_id),
             scenario,
+            cache: self.stage_cache.clone(),
         };
         if input.scenario.segments.is_empty() {
             self.plan = None;
@@ -143,7 +204,8 @@ impl ShelfwindApp {
         let Some(job) = self.job.take() else { return };
         let cancelled = job.progress.is_cancelled();
         match (result, job.new_wind_files) {
-            (Ok(plan), new_wind) => {
+            (Ok((plan, cache)), new_wind) => {
+                self.stage_cache = Some(cache);
                 if let Some(files) = new_wind {
                     self.edit(Edit::SetWindFiles(files));
                     // The edit marks the plan stale; this plan already uses the new files.

@@ -64,7 +64,7 @@ fn stretch_colour(
                 }));
             }
             let e = d.excluded.iter().find(|e| e.stretch == k)?;
-            Some(c32(if e.reason.contains("limit") {
+            Some(c32(if e.exclusion.is_wind() {
                 colour::SAFE_NOT
             } else {
                 colour::SAFE_EXCLUDED

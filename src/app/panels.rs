@@ -430,7 +430,7 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
             commands.push(Command::SetDay(app.view.day + 1));
         }
     });
-    for n in &plan.notes {
+    for n in crate::export::plan_text::notes(&plan) {
         ui.label(RichText::new(n).small().weak());
     }
     ui.separator();
@@ -507,7 +507,7 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
                         ))
                         .small(),
                     );
-                    for reason in &r.reasons {
+                    for reason in crate::export::plan_text::ranked_lines(&plan, day.date, r) {
                         ui.label(RichText::new(format!("• {reason}")).small());
                     }
                 });
@@ -528,7 +528,8 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
                             ui.label(
                                 RichText::new(format!(
                                     "{}: {}",
-                                    plan.stretches[e.stretch].name, e.reason
+                                    plan.stretches[e.stretch].name,
+                                    crate::export::plan_text::excluded_text(&plan, e)
                                 ))
                                 .small(),
                             );

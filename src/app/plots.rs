@@ -177,9 +177,7 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
                 let pts: Vec<[f64; 2]> = s
                     .days
                     .iter()
-                    .filter_map(|d| {
-                        noon_x(&plan, d.date, t0).map(|x| [x, d.cumulative_m3s_per_100m_days])
-                    })
+                    .map(|d| [noon_x(&plan, d.date, t0), d.cumulative_m3s_per_100m_days])
                     .collect();
                 p.line(Line::new(s.name.clone(), PlotPoints::from(pts)).color(PALETTE[k]));
             }
@@ -198,14 +196,12 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
                 let bars: Vec<Bar> = s
                     .days
                     .iter()
-                    .filter_map(|d| {
-                        noon_x(&plan, d.date, t0).map(|x| {
-                            Bar::new(
-                                x - 10.0 + width * (k as f64 + 0.5),
-                                100.0 * d.response.productivity,
-                            )
-                            .width(width * 0.9)
-                        })
+                    .map(|d| {
+                        Bar::new(
+                            noon_x(&plan, d.date, t0) - 10.0 + width * (k as f64 + 0.5),
+                            100.0 * d.response.productivity,
+                        )
+                        .width(width * 0.9)
                     })
                     .collect();
                 p.bar_chart(BarChart::new(s.name.clone(), bars).color(PALETTE[k]));
@@ -214,20 +210,15 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
     });
 }
 
-fn noon_x(plan: &Plan, date: chrono::NaiveDate, t0: chrono::DateTime<chrono::Utc>) -> Option<f64> {
-    use chrono::TimeZone;
-    let noon = plan
-        .time_zone
-        .from_local_datetime(&date.and_hms_opt(12, 0, 0)?)
-        .earliest()?;
-    Some(hours_since(t0, noon.with_timezone(&chrono::Utc)))
+fn noon_x(plan: &Plan, date: chrono::NaiveDate, t0: chrono::DateTime<chrono::Utc>) -> f64 {
+    hours_since(t0, crate::localtime::local_noon(plan.time_zone, date))
 }
 
 /// Runs of hours over the boat's wind limit (at the stretch or on the way), as x ranges.
 fn unsafe_runs(plan: &Plan, s: &StretchInfo, t0: chrono::DateTime<chrono::Utc>) -> Vec<(f64, f64)> {
     let mut runs: Vec<(f64, f64)> = Vec::new();
     for h in &s.hours {
-        if h.route_max_wind_kt
+        if s.route_wind_kt(h.time)
             .is_none_or(|w| w > plan.vessel.wind_limit_kt)
         {
             let x = hours_since(t0, h.time);

@@ -196,6 +196,8 @@ pub struct ShelfwindApp {
     /// Why the latest plan could not be made.
     pub plan_error: Option<String>,
     pub(super) job: Option<PlanJob>,
+    /// The stages' results, for ranking again without reading files.
+    pub(super) stage_cache: Option<super::jobs::StageCache>,
     /// The plan must be computed again (the document or the boat changed).
     pub(super) plan_stale: bool,
     /// View state.
@@ -260,6 +262,7 @@ impl ShelfwindApp {
             plan: None,
             plan_error: None,
             job: None,
+            stage_cache: None,
             plan_stale: true,
             view: View {
                 colouring: remembered.colouring,

@@ -4,6 +4,7 @@
 pub mod colour;
 mod index_table;
 mod plan_out;
+pub mod plan_text;
 mod season_out;
 mod trip_sheet;
 

@@ -1,6 +1,7 @@
 //! The plan for people and for other tools: a terminal table, CSV, JSON, GeoJSON of the
 //! stretches with their scores, and GPX 1.1 waypoints and routes for a chart plotter.
 
+use super::plan_text::{excluded_text, notes, ranked_lines};
 use crate::plan::{CAUTIONS, DayPlan, Plan, RankedStretch, StretchInfo};
 use chrono::{DateTime, Utc};
 use serde_json::{Value, json};
@@ -93,7 +94,7 @@ fn table(plan: &Plan) -> String {
         plan.port.name, plan.time_zone
     );
     let _ = writeln!(o, "\nCAUTION: {CAUTIONS}");
-    for n in &plan.notes {
+    for n in notes(plan) {
         let _ = writeln!(o, "Note: {n}");
     }
     for day in &plan.days {
@@ -128,7 +129,7 @@ fn table(plan: &Plan) -> String {
                     ""
                 }
             );
-            for reason in &r.reasons {
+            for reason in ranked_lines(plan, day.date, r) {
                 let _ = writeln!(o, "        - {reason}");
             }
         }
@@ -138,12 +139,13 @@ fn table(plan: &Plan) -> String {
             let (far, other): (Vec<_>, Vec<_>) = day
                 .excluded
                 .iter()
-                .partition(|e| e.reason.contains("beyond this boat's"));
+                .partition(|e| e.exclusion.is_out_of_range());
             for e in other {
                 let _ = writeln!(
                     o,
                     "        {}: {}",
-                    plan.stretches[e.stretch].name, e.reason
+                    plan.stretches[e.stretch].name,
+                    excluded_text(plan, e)
                 );
             }
             if !far.is_empty() {
@@ -175,6 +177,8 @@ fn csv(plan: &Plan) -> String {
         "name",
         "score",
         "productivity_pct",
+        "mean_index_m3s_per_100m",
+        "pumping_m_day",
         "window_factor",
         "distance_factor",
         "safe_from_local",
@@ -190,11 +194,13 @@ fn csv(plan: &Plan) -> String {
         "lon",
         "reasons",
         "excluded_reason",
+        "reason_kind",
     ]);
     for day in &plan.days {
         for r in &day.ranked {
             let s = &plan.stretches[r.stretch];
             let (from, to) = r.safe_window;
+            let (mean, pumping) = day_upwelling(s, day.date);
             let _ = w.write_record([
                 day.date.to_string(),
                 r.rank.to_string(),
@@ -204,6 +210,8 @@ fn csv(plan: &Plan) -> String {
                 s.name.clone(),
                 format!("{:.1}", r.score),
                 format!("{:.0}", 100.0 * r.productivity),
+                mean.map(|m| format!("{m:.1}")).unwrap_or_default(),
+                pumping.map(|p| format!("{p:.2}")).unwrap_or_default(),
                 format!("{:.2}", r.window_factor),
                 format!("{:.2}", r.distance_factor),
                 local(plan, from),
@@ -217,7 +225,8 @@ fn csv(plan: &Plan) -> String {
                 format!("{:.0}", r.max_wind_kt),
                 format!("{:.5}", s.centre.lat_deg),
                 format!("{:.5}", s.centre.lon_deg),
-                r.reasons.join("; "),
+                ranked_lines(plan, day.date, r).join("; "),
+                String::new(),
                 String::new(),
             ]);
         }
@@ -231,21 +240,38 @@ fn csv(plan: &Plan) -> String {
                 s.segment_id.clone(),
                 s.name.clone(),
             ];
-            row.extend(std::iter::repeat_n(String::new(), 9));
+            row.extend(std::iter::repeat_n(String::new(), 11));
             row.push(format!("{:.1}", s.distance_nm));
             row.extend(std::iter::repeat_n(String::new(), 3));
             row.push(format!("{:.5}", s.centre.lat_deg));
             row.push(format!("{:.5}", s.centre.lon_deg));
             row.push(String::new());
-            row.push(e.reason.clone());
+            row.push(excluded_text(plan, e));
+            row.push(e.exclusion.kind().to_string());
             let _ = w.write_record(&row);
         }
     }
     String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
 }
 
-fn ranked_json(plan: &Plan, r: &RankedStretch) -> Value {
+/// The day's mean index (m^3/s per 100 m) and mean Ekman pumping (m/day) of a stretch.
+fn day_upwelling(s: &StretchInfo, date: chrono::NaiveDate) -> (Option<f64>, Option<f64>) {
+    s.day(date).map_or((None, None), |d| {
+        (
+            d.mean_index_m3s_per_100m,
+            d.mean_pumping_m_s.map(|p| p * 86_400.0),
+        )
+    })
+}
+
+fn round_to(x: f64, places: i32) -> f64 {
+    let k = 10f64.powi(places);
+    (x * k).round() / k
+}
+
+fn ranked_json(plan: &Plan, date: chrono::NaiveDate, r: &RankedStretch) -> Value {
     let s = &plan.stretches[r.stretch];
+    let (mean, pumping) = day_upwelling(s, date);
     json!({
         "rank": r.rank,
         "tied_with_above": r.tied_with_above,
@@ -257,6 +283,8 @@ fn ranked_json(plan: &Plan, r: &RankedStretch) -> Value {
             "productivity": (r.productivity * 1000.0).round() / 1000.0,
             "window": (r.window_factor * 1000.0).round() / 1000.0,
             "distance": (r.distance_factor * 1000.0).round() / 1000.0,
+            "mean_index_m3s_per_100m": mean.map(|m| round_to(m, 1)),
+            "pumping_m_day": pumping.map(|p| round_to(p, 3)),
         },
         "safe_from_utc": r.safe_window.0.to_rfc3339_opts(chrono::SecondsFormat::Secs, true),
         "safe_to_utc": r.safe_window.1.to_rfc3339_opts(chrono::SecondsFormat::Secs, true),
@@ -268,18 +296,19 @@ fn ranked_json(plan: &Plan, r: &RankedStretch) -> Value {
         "fuel_l": r.fuel_l.round(),
         "max_wind_kt": r.max_wind_kt.round(),
         "centre": {"lat": s.centre.lat_deg, "lon": s.centre.lon_deg},
-        "reasons": r.reasons,
+        "reasons": ranked_lines(plan, date, r),
     })
 }
 
 fn day_json(plan: &Plan, day: &DayPlan) -> Value {
     json!({
         "date": day.date.to_string(),
-        "ranked": day.ranked.iter().map(|r| ranked_json(plan, r)).collect::<Vec<_>>(),
+        "ranked": day.ranked.iter().map(|r| ranked_json(plan, day.date, r)).collect::<Vec<_>>(),
         "excluded": day.excluded.iter().map(|e| json!({
             "stretch_id": plan.stretches[e.stretch].id,
             "name": plan.stretches[e.stretch].name,
-            "reason": e.reason,
+            "reason_kind": e.exclusion.kind(),
+            "reason": excluded_text(plan, e),
         })).collect::<Vec<_>>(),
     })
 }
@@ -291,7 +320,7 @@ fn json_plan(plan: &Plan) -> Value {
         "vessel": plan.vessel,
         "home_port": plan.port,
         "cautions": CAUTIONS,
-        "notes": plan.notes,
+        "notes": notes(plan),
         "days": plan.days.iter().map(|d| day_json(plan, d)).collect::<Vec<_>>(),
     })
 }
@@ -312,9 +341,9 @@ fn feature(plan: &Plan, k: usize, s: &StretchInfo) -> Value {
         .iter()
         .map(|d| {
             if let Some(r) = d.ranked.iter().find(|r| r.stretch == k) {
-                json!({"date": d.date.to_string(), "rank": r.rank, "score": (r.score * 10.0).round() / 10.0, "reasons": r.reasons})
+                json!({"date": d.date.to_string(), "rank": r.rank, "score": (r.score * 10.0).round() / 10.0, "reasons": ranked_lines(plan, d.date, r)})
             } else {
-                let why = d.excluded.iter().find(|e| e.stretch == k).map(|e| e.reason.clone()).unwrap_or_default();
+                let why = d.excluded.iter().find(|e| e.stretch == k).map(|e| excluded_text(plan, e)).unwrap_or_default();
                 json!({"date": d.date.to_string(), "excluded": why})
             }
         })
@@ -408,7 +437,11 @@ fn gpx(plan: &Plan) -> String {
             "    <name>{}</name>",
             xml(&format!("{} to {}", day.date.format("%a %-d %b"), s.name))
         );
-        let _ = writeln!(o, "    <desc>{}</desc>", xml(&best.reasons.join("; ")));
+        let _ = writeln!(
+            o,
+            "    <desc>{}</desc>",
+            xml(&ranked_lines(plan, day.date, best).join("; "))
+        );
         for (lat, lon, name) in [
             (
                 plan.port.position.lat_deg,

@@ -14,8 +14,10 @@ mod map;
 mod plots;
 
 use super::colour::{hex, productivity_colour};
+use super::plan_text::{excluded_text, notes, ranked_lines};
 use crate::coast::{Land, LatLon};
-use crate::plan::{CAUTIONS, DayPlan, Plan, RankedStretch, local_midnight};
+use crate::localtime::{local_midnight, local_noon};
+use crate::plan::{CAUTIONS, DayPlan, Plan, RankedStretch};
 use chrono::{DateTime, Duration, NaiveDate, Utc};
 use chrono_tz::Tz;
 use std::fmt::Write as _;
@@ -136,7 +138,7 @@ fn day_bounds(tz: Tz, date: NaiveDate) -> (DateTime<Utc>, DateTime<Utc>) {
 
 /// "UTC-07:00" on a given day.
 fn utc_offset(tz: Tz, date: NaiveDate) -> String {
-    (local_midnight(tz, date) + Duration::hours(12))
+    local_noon(tz, date)
         .with_timezone(&tz)
         .format("UTC%:z")
         .to_string()
@@ -266,8 +268,8 @@ fn cautions(o: &mut String, plan: &Plan) {
     let _ = writeln!(o, "<p class=\"text\">{}</p>", esc(CAUTIONS));
     if !plan.notes.is_empty() {
         let _ = writeln!(o, "<ul>");
-        for n in &plan.notes {
-            let _ = writeln!(o, "<li>{}</li>", esc(n));
+        for n in notes(plan) {
+            let _ = writeln!(o, "<li>{}</li>", esc(&n));
         }
         let _ = writeln!(o, "</ul>");
     }
@@ -377,8 +379,8 @@ fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan) {
             r.fuel_l
         );
         let _ = write!(o, "<tr class=\"reasons\"><td></td><td colspan=\"10\"><ul>");
-        for reason in &r.reasons {
-            let _ = write!(o, "<li>{}</li>", esc(reason));
+        for reason in ranked_lines(plan, day.date, r) {
+            let _ = write!(o, "<li>{}</li>", esc(&reason));
         }
         let _ = writeln!(o, "</ul></td></tr>");
         let _ = writeln!(o, "</tbody>");
@@ -401,18 +403,19 @@ fn excluded_section(o: &mut String, plan: &Plan, day: &DayPlan) {
     let (far, other): (Vec<_>, Vec<_>) = day
         .excluded
         .iter()
-        .partition(|e| e.reason.contains("beyond this boat's"));
-    let mut groups: Vec<(&str, Vec<&str>)> = Vec::new();
+        .partition(|e| e.exclusion.is_out_of_range());
+    let mut groups: Vec<(String, Vec<&str>)> = Vec::new();
     for e in other {
         let name = plan.stretches[e.stretch].name.as_str();
-        match groups.iter_mut().find(|g| g.0 == e.reason) {
+        let reason = excluded_text(plan, e);
+        match groups.iter_mut().find(|g| g.0 == reason) {
             Some(g) => g.1.push(name),
-            None => groups.push((e.reason.as_str(), vec![name])),
+            None => groups.push((reason, vec![name])),
         }
     }
     for (reason, names) in groups {
         let names: Vec<String> = names.iter().map(|n| esc(n)).collect();
-        let _ = writeln!(o, "<li><b>{}</b>: {}</li>", names.join(", "), esc(reason));
+        let _ = writeln!(o, "<li><b>{}</b>: {}</li>", names.join(", "), esc(&reason));
     }
     if !far.is_empty() {
         let names: Vec<String> = far

@@ -21,7 +21,7 @@ pub use ekman::{
     EkmanTransport, ekman_depth_empirical_m, ekman_depth_theoretical_m, ekman_transport,
     surface_current_empirical_m_s, upwelling_index_m3s_per_100m,
 };
-pub use pumping::{EARTH_RADIUS_M, StressGrid, ekman_pumping_m_s};
+pub use pumping::{ProbeStress, PumpingProbes, ekman_pumping_m_s};
 pub use stress::{RHO_AIR_KG_M3, RHO_WATER_KG_M3, WindStress, wind_stress};
 pub use units::{
     KMH_IN_M_S, KNOT_IN_M_S, NAUTICAL_MILE_M, Wind, bearing_deg, km_h_to_m_s, knots_to_m_s,

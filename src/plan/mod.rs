@@ -1,17 +1,30 @@
-//! From upwelling to a decision: for a boat and its home port, the distance and steaming
-//! time to each stretch, the hours inside the boat's limits, the expected productivity,
-//! and a ranked list per local day in which every rank carries its reasons.
+//! From upwelling to a decision. Two stages:
+//! - [`forecast`](sample_forecast_conditions): the stretches cut from the coast, the
+//!   wind sampled once at every point they need, and their upwelling (computed by
+//!   [`crate::upwelling`]) — independent of boat and port;
+//! - [`rank_plan`]: for a boat and its home port, the distance, the safe window inside
+//!   the boat's limits, the score and a ranked list per local day, with typed reasons
+//!   and exclusions.
 
-mod build;
+mod boat;
+mod forecast;
+mod rank;
 mod reasons;
 mod settings;
+mod window;
 
-pub(crate) use build::local_midnight;
-pub use build::{
-    DayPlan, Excluded, Plan, PlanError, PlanRequest, RankedStretch, StretchDay, StretchHour,
-    StretchInfo, build_plan,
+pub use boat::{Port, Vessel};
+pub use forecast::{
+    Forecast, ForecastError, ForecastGeometry, Latitude, PortRoutes, SampledConditions,
+    StretchForecast, StretchHour, UpwellingSettings, forecast_key, sample_forecast_conditions,
 };
+pub use rank::{
+    DayPlan, Excluded, Plan, PlanError, PlanNote, PlanRequest, RankedStretch, StretchInfo,
+    rank_plan,
+};
+pub use reasons::{Exclusion, Reasons, TripReason, UpwellingReason, WindReason};
 pub use settings::TripSettings;
+pub use window::{WorkingHour, longest_safe_run, run_span};
 
 /// The cautions shown with every plan (DESIGN.md, Safety).
 pub const CAUTIONS: &str = "Not a navigation aid and no substitute for official marine forecasts and warnings. \

@@ -1,10 +1,12 @@
 //! The scenario document: a co-op's or a skipper's coast, ports, boats, wind files and
 //! model settings, kept in one versioned JSON file that can be shared with the fleet.
 
+mod compose;
 mod demo;
 mod document;
 mod file;
 
+pub use compose::{PlanChoice, plan_scenario};
 pub use demo::{
     DEMO_FORECAST_FILE, DEMO_SCENARIO_FILE, DEMO_SCENARIO_JSON, demo_scenario, write_demo,
 };

@@ -28,11 +28,16 @@ impl Default for EventSettings {
 }
 
 /// One upwelling event.
+///
+/// Each sample of the index stands for the interval from its time to the next sample
+/// (the last of a series, or one before a gap, for as long as the step before it): so
+/// `n` hourly values above the threshold make an event of `n` hours, as `n` hourly
+/// values inside a boat's limit make a window of `n` hours.
 #[derive(Debug, Clone, PartialEq)]
 pub struct UpwellingEvent {
-    /// First time above the threshold.
+    /// Time of the first sample above the threshold.
     pub onset: DateTime<Utc>,
-    /// Last time above the threshold.
+    /// End of the interval of the last sample above the threshold.
     pub end: DateTime<Utc>,
     /// Hours from onset to end.
     pub duration_h: f64,
@@ -40,27 +45,31 @@ pub struct UpwellingEvent {
     pub peak_m3s_per_100m: f64,
     /// When the peak came.
     pub peak_time: DateTime<Utc>,
-    /// Index integrated over the event, m^3/s per 100 m × days.
+    /// Index integrated over the event (each sample over its interval),
+    /// m^3/s per 100 m × days.
     pub integrated_m3s_per_100m_days: f64,
-    /// Whether the event was still going at the end of the series.
+    /// Whether the event was still going at the end of the series: its end is then the
+    /// end of the series, and its length at least `duration_h`.
     pub ongoing: bool,
-}
-
-/// A relaxation: from the end of an event until the next onset (or the series end).
-#[derive(Debug, Clone, PartialEq)]
-pub struct Relaxation {
-    /// End of the event before.
-    pub start: DateTime<Utc>,
-    /// Onset of the next event, or the last time of the series.
-    pub end: DateTime<Utc>,
 }
 
 fn hours(a: DateTime<Utc>, b: DateTime<Utc>) -> f64 {
     (b - a).num_seconds() as f64 / 3600.0
 }
 
-/// Finds the upwelling events of a series (times increasing). The integral uses the
-/// trapezoid rule on the actual time steps.
+/// The interval sample `k` stands for, hours: the shorter of the steps on either side
+/// (so a gap in the record after it does not count as upwelling).
+fn interval_h(times: &[DateTime<Utc>], k: usize) -> f64 {
+    let before = k.checked_sub(1).map(|j| hours(times[j], times[k]));
+    let after = times.get(k + 1).map(|t| hours(times[k], *t));
+    match (before, after) {
+        (Some(a), Some(b)) => a.min(b),
+        (Some(x), None) | (None, Some(x)) => x,
+        (None, None) => 0.0,
+    }
+}
+
+/// Finds the upwelling events of a series (times increasing).
 #[must_use]
 pub fn detect_events(
     times: &[DateTime<Utc>],
@@ -68,6 +77,8 @@ pub fn detect_events(
     settings: &EventSettings,
 ) -> Vec<UpwellingEvent> {
     let n = times.len().min(index.len());
+    let end_of =
+        |k: usize| times[k] + chrono::Duration::seconds((interval_h(times, k) * 3600.0) as i64);
     let mut runs: Vec<(usize, usize)> = Vec::new();
     let mut k = 0;
     while k < n {
@@ -77,7 +88,7 @@ pub fn detect_events(
                 k += 1;
             }
             match runs.last_mut() {
-                Some(last) if hours(times[last.1], times[start]) <= settings.max_gap_h => {
+                Some(last) if hours(end_of(last.1), times[start]) <= settings.max_gap_h => {
                     last.1 = k;
                 }
                 _ => runs.push((start, k)),
@@ -86,37 +97,23 @@ pub fn detect_events(
         k += 1;
     }
     runs.into_iter()
-        .filter(|&(a, b)| hours(times[a], times[b]) >= settings.min_duration_h)
+        .filter(|&(a, b)| hours(times[a], end_of(b)) >= settings.min_duration_h)
         .map(|(a, b)| {
             let (peak_k, peak) = (a..=b)
                 .map(|k| (k, index[k]))
                 .fold((a, f64::MIN), |m, x| if x.1 > m.1 { x } else { m });
-            let integrated = (a..b)
-                .map(|k| 0.5 * (index[k] + index[k + 1]) * hours(times[k], times[k + 1]) / 24.0)
+            let integrated = (a..=b)
+                .map(|k| index[k] * interval_h(times, k) / 24.0)
                 .sum();
             UpwellingEvent {
                 onset: times[a],
-                end: times[b],
-                duration_h: hours(times[a], times[b]),
+                end: end_of(b),
+                duration_h: hours(times[a], end_of(b)),
                 peak_m3s_per_100m: peak,
                 peak_time: times[peak_k],
                 integrated_m3s_per_100m_days: integrated,
                 ongoing: b + 1 == n,
             }
-        })
-        .collect()
-}
-
-/// The relaxations after each finished event.
-#[must_use]
-pub fn relaxations(events: &[UpwellingEvent], series_end: DateTime<Utc>) -> Vec<Relaxation> {
-    events
-        .iter()
-        .enumerate()
-        .filter(|(_, e)| !e.ongoing)
-        .map(|(k, e)| Relaxation {
-            start: e.end,
-            end: events.get(k + 1).map_or(series_end, |n| n.onset),
         })
         .collect()
 }
@@ -164,20 +161,39 @@ mod tests {
         let t = hourly(&v);
         let e = detect_events(&t, &v, &EventSettings::default());
         assert_eq!(e.len(), 2);
+        // 48 hourly samples from hour 10 (the lull bridged) make 48 hours, ending at
+        // the end of hour 57.
         assert_eq!(e[0].onset, t[10]);
-        assert_eq!(e[0].end, t[57]);
-        assert_abs_diff_eq!(e[0].duration_h, 47.0);
+        assert_eq!(e[0].end, t[58]);
+        assert_abs_diff_eq!(e[0].duration_h, 48.0);
         assert_abs_diff_eq!(e[0].peak_m3s_per_100m, 100.0);
         assert!(!e[0].ongoing);
-        // Trapezoid: 47 h mostly at 100 less the lull (two ramps down to 20 and back).
-        let expected =
-            (19.0 * 100.0 + 0.5 * 120.0 + 2.0 * 20.0 + 0.5 * 120.0 + 24.0 * 100.0) / 24.0;
+        // Each hour at its value: 45 h at 100 and the 3 h lull at 20, by hand.
+        let expected = (45.0 * 100.0 + 3.0 * 20.0) / 24.0;
         assert_abs_diff_eq!(e[0].integrated_m3s_per_100m_days, expected, epsilon = 1e-9);
         assert!(e[1].ongoing);
-        assert_abs_diff_eq!(e[1].duration_h, 23.0);
-        let r = relaxations(&e, *t.last().expect("times"));
-        assert_eq!(r.len(), 1);
-        assert_eq!((r[0].start, r[0].end), (t[57], e[1].onset));
+        assert_abs_diff_eq!(e[1].duration_h, 24.0);
+    }
+
+    /// Issue 19: 18 hourly values above the threshold are an 18-hour event, which the
+    /// 18-hour minimum keeps; 17 are not. Six-hourly values: 4 samples are 24 hours.
+    #[test]
+    fn n_samples_make_n_intervals() {
+        let mut v = vec![0.0; 3];
+        v.extend(vec![100.0; 18]);
+        v.extend(vec![0.0; 3]);
+        let t = hourly(&v);
+        let e = detect_events(&t, &v, &EventSettings::default());
+        assert_eq!(e.len(), 1);
+        assert_abs_diff_eq!(e[0].duration_h, 18.0);
+        let mut short = vec![0.0; 3];
+        short.extend(vec![100.0; 17]);
+        short.extend(vec![0.0; 3]);
+        assert!(detect_events(&hourly(&short), &short, &EventSettings::default()).is_empty());
+        let six: Vec<DateTime<Utc>> = hourly(&[0.0; 36]).into_iter().step_by(6).collect();
+        let values = [0.0, 100.0, 100.0, 100.0, 100.0, 0.0];
+        let e = detect_events(&six, &values, &EventSettings::default());
+        assert_abs_diff_eq!(e[0].duration_h, 24.0);
     }
 
     #[test]

@@ -1,15 +1,15 @@
 //! From wind at the coast to the coastal upwelling index, its events and seasons, and
 //! the lagged biological response.
 
+mod daily;
 mod events;
 mod index;
 mod response;
 mod season;
 mod seasons;
 
-pub use events::{
-    EventSettings, Relaxation, UpwellingEvent, cumulative, detect_events, relaxations,
-};
+pub use daily::{EventPhase, UpwellingDay, daily_upwelling};
+pub use events::{EventSettings, UpwellingEvent, cumulative, detect_events};
 pub use index::{IndexSeries, IndexSettings, UpwellingError, index_series};
 pub use response::{DayInput, DayResponse, ResponseSettings};
 pub use season::{SeasonMetrics, season_metrics};

@@ -34,7 +34,10 @@ pub struct ResponseSettings {
     /// Above the optimum the response falls as `exp(−(u − optimum)/scale)`,
     /// m^3/s per 100 m (planning heuristic).
     pub flush_scale_m3s_per_100m: f64,
-    /// Events longer than this (days) are penalised as `exp(−(L − this)/this)`.
+    /// Events longer than this (days) are penalised as `exp(−(L − this)/this)` on
+    /// every day of the event, `L` being the event's length from onset to end. An event
+    /// still going at the end of the forecast is taken to end there: its length is
+    /// what the forecast shows, a lower bound.
     pub long_event_days: f64,
     /// Bonus to expected productivity just after a sustained event ends (0–1).
     pub relaxation_bonus: f64,
@@ -71,8 +74,9 @@ pub struct DayInput {
     pub index_m3s_per_100m: f64,
     /// Daily mean Ekman pumping just offshore, m/s (0 where no grid gives it).
     pub pumping_m_s: f64,
-    /// Days since the onset of the event this day is in, if any.
-    pub event_age_days: Option<f64>,
+    /// Length of the event this day is in, days (to the end of the record for an event
+    /// still going there), if the day is in one.
+    pub event_length_days: Option<f64>,
     /// Days since the last event ended, and that event's length in days, if one has.
     pub after_event: Option<(f64, f64)>,
 }
@@ -86,7 +90,9 @@ pub struct DayResponse {
     pub lagged: f64,
     /// The relaxation bonus (0 to `relaxation_bonus`).
     pub relaxation: f64,
-    /// Expected productivity: lagged response plus bonus, scaled to 0–1.
+    /// Expected productivity: `(lagged + relaxation) / (1 + relaxation_bonus)`, 0–1.
+    /// Without a bonus it reaches at most `1 / (1 + relaxation_bonus)` (0.77 with the
+    /// default 0.3).
     pub productivity: f64,
 }
 
@@ -135,8 +141,9 @@ impl ResponseSettings {
         pumping_m_s * self.pumping_width_km * 1000.0 * 100.0
     }
 
-    /// The response for consecutive days (days before the first are taken as giving
-    /// nothing: a short forecast carries little history).
+    /// The response for consecutive days. Days before the first given are taken as
+    /// giving no upwelling (a short forecast carries little history), as are days
+    /// without wind.
     #[must_use]
     pub fn respond(&self, days: &[DayInput]) -> Vec<DayResponse> {
         let kernel = self.kernel();
@@ -146,8 +153,8 @@ impl ResponseSettings {
                 let u = d.index_m3s_per_100m + self.pumping_as_index(d.pumping_m_s);
                 let long = self.long_event_days.max(0.1);
                 let penalty = d
-                    .event_age_days
-                    .map_or(1.0, |age| (-(age - long).max(0.0) / long).exp());
+                    .event_length_days
+                    .map_or(1.0, |length| (-(length - long).max(0.0) / long).exp());
                 self.dome(u) * penalty
             })
             .collect();
@@ -232,7 +239,8 @@ mod tests {
     fn long_events_are_penalised_and_relaxation_earns_a_bonus() {
         let s = ResponseSettings::default();
         let mut days = pulse(0, 70.0, 1);
-        days[0].event_age_days = Some(10.0);
+        // A 10-day event: exp(−(10 − 5)/5) = exp(−1) on each of its days.
+        days[0].event_length_days = Some(10.0);
         assert_abs_diff_eq!(s.respond(&days)[0].useful, (-1.0f64).exp(), epsilon = 1e-12);
         let after = DayInput {
             after_event: Some((1.0, 3.0)),

@@ -1,15 +1,9 @@
-//! Loading wind files and giving each coast segment its wind.
-//!
-//! Each segment takes its wind from the first file that covers it: a grid covers a
-//! segment when every piece midpoint lies inside it with values at every step; a point
-//! series without a position covers every segment; a point series with a position covers
-//! the segments to which it is the nearest of the positioned series given.
+//! Loading wind files and giving each coast segment its wind, by the coverage rule of
+//! [`super::conditions`] (anchored at the segment's length-weighted midpoint).
 
-use super::{
-    PointSeries, WindError, WindFileError, WindSeries, read_csv_series, sample_grib2,
-    sample_grib2_with,
-};
-use crate::coast::{LatLon, Segment, distance_m};
+use super::conditions::{Conditions, PointGroup, sample_conditions, sample_merged};
+use super::{PointSeries, WindError, WindFileError, read_csv_series};
+use crate::coast::Segment;
 use crate::physics::Wind;
 use crate::progress::Progress;
 use chrono::{DateTime, Utc};
@@ -105,185 +99,96 @@ fn load_source(path: &Path) -> Result<WindSource, WindFileError> {
     })
 }
 
-/// For a position, the index of the nearest source that is a point series with a
-/// station position (`None` when there is none).
-pub(super) fn nearest_station_of(sources: &[WindSource]) -> impl Fn(LatLon) -> Option<usize> + '_ {
-    let stations: Vec<(usize, LatLon)> = sources
+/// The groups of a segment list: each segment's piece midpoints, with its
+/// length-weighted midpoint as the anchor and the extra point.
+fn segment_groups(segments: &[Segment]) -> Vec<PointGroup> {
+    segments
         .iter()
-        .enumerate()
-        .filter_map(|(k, s)| match s {
-            WindSource::Series { series, .. } => series.position.map(|p| (k, p)),
-            WindSource::Grib2 { .. } => None,
+        .map(|s| {
+            let mid = s.weighted_midpoint();
+            PointGroup::new(
+                s.pieces().iter().map(|p| p.midpoint).collect(),
+                mid,
+                Some(mid),
+            )
         })
-        .collect();
-    move |p: LatLon| {
-        stations
-            .iter()
-            .min_by(|a, b| distance_m(a.1, p).total_cmp(&distance_m(b.1, p)))
-            .map(|s| s.0)
-    }
+        .collect()
 }
 
-/// Gives every segment its wind, from the first source that covers it.
-pub fn assign_wind(
+/// Turns each segment's group wind into its [`SegmentWind`], or names the first
+/// segment without wind.
+fn segment_winds(
     sources: &[WindSource],
     segments: &[Segment],
+    conditions: Conditions,
 ) -> Result<Vec<SegmentWind>, WindError> {
-    let pieces: Vec<_> = segments.iter().map(Segment::pieces).collect();
-    let midpoints: Vec<LatLon> = segments.iter().map(Segment::weighted_midpoint).collect();
-    let nearest_station = nearest_station_of(sources);
-    let mut out: Vec<Option<SegmentWind>> = vec![None; segments.len()];
-    for (k, source) in sources.iter().enumerate() {
-        let pending: Vec<usize> = (0..segments.len()).filter(|&s| out[s].is_none()).collect();
-        if pending.is_empty() {
-            break;
-        }
-        match source {
-            WindSource::Series { series, .. } => {
-                for s in pending {
-                    if series.position.is_none() || nearest_station(midpoints[s]) == Some(k) {
-                        let w = &series.series;
-                        out[s] = Some(SegmentWind {
-                            source: k,
-                            times: w.times.clone(),
-                            pieces: vec![w.wind.clone(); pieces[s].len()],
-                            midpoint: w.wind.clone(),
-                        });
-                    }
-                }
-            }
-            WindSource::Grib2 { path } => {
-                let mut points = Vec::new();
-                for &s in &pending {
-                    points.extend(pieces[s].iter().map(|p| p.midpoint));
-                    points.push(midpoints[s]);
-                }
-                let file = std::fs::File::open(path).map_err(|e| WindError::File {
-                    path: path.clone(),
-                    source: e.into(),
-                })?;
-                let samples =
-                    sample_grib2(std::io::BufReader::with_capacity(1 << 16, file), &points)
-                        .map_err(|source| WindError::File {
-                            path: path.clone(),
-                            source,
-                        })?;
-                let mut cursor = samples.points.into_iter();
-                for s in pending {
-                    let piece_winds: Vec<Option<Vec<Wind>>> =
-                        cursor.by_ref().take(pieces[s].len()).collect();
-                    let mid = cursor.next().flatten();
-                    let Some(piece_winds) = piece_winds.into_iter().collect::<Option<Vec<_>>>()
-                    else {
-                        continue;
-                    };
-                    let midpoint = mid.unwrap_or_else(|| length_weighted(&pieces[s], &piece_winds));
-                    out[s] = Some(SegmentWind {
-                        source: k,
-                        times: samples.times.clone(),
-                        pieces: piece_winds,
-                        midpoint,
-                    });
-                }
-            }
-        }
-    }
-    out.into_iter()
-        .enumerate()
-        .map(|(s, w)| {
-            w.ok_or_else(|| WindError::Uncovered {
-                id: segments[s].id.clone(),
-                lat_deg: midpoints[s].lat_deg,
-                lon_deg: midpoints[s].lon_deg,
-                files: sources.len(),
+    segments
+        .iter()
+        .zip(conditions.groups)
+        .map(|(seg, g)| {
+            let Some(g) = g else {
+                let mid = seg.weighted_midpoint();
+                return Err(WindError::Uncovered {
+                    id: seg.id.clone(),
+                    lat_deg: mid.lat_deg,
+                    lon_deg: mid.lon_deg,
+                    files: sources.len(),
+                });
+            };
+            let midpoint = g
+                .extra
+                .unwrap_or_else(|| length_weighted(&seg.pieces(), &g.points));
+            Ok(SegmentWind {
+                source: g.source,
+                times: g.times.to_vec(),
+                pieces: g.points,
+                midpoint,
             })
         })
         .collect()
 }
 
+/// Gives every segment its wind, from the first source that covers it (the rule of
+/// [`sample_conditions`]).
+pub fn assign_wind(
+    sources: &[WindSource],
+    segments: &[Segment],
+) -> Result<Vec<SegmentWind>, WindError> {
+    let conditions = sample_conditions(sources, &segment_groups(segments), &Progress::new())?;
+    segment_winds(sources, segments, conditions)
+}
+
+/// Gives every segment the union in time of every source that covers it (a long
+/// record read in parallel, [`sample_merged`]). `progress` counts files read.
+pub fn assign_wind_merged(
+    sources: &[WindSource],
+    segments: &[Segment],
+    progress: &Progress,
+) -> Result<Vec<SegmentWind>, WindError> {
+    let conditions = sample_merged(sources, &segment_groups(segments), progress)?;
+    segment_winds(sources, segments, conditions)
+}
+
 /// Length-weighted mean of the pieces' winds at each time.
 fn length_weighted(pieces: &[crate::coast::Piece], winds: &[Vec<Wind>]) -> Vec<Wind> {
-    let total: f64 = pieces.iter().map(|p| p.length_m).sum();
     let steps = winds.first().map_or(0, Vec::len);
     (0..steps)
         .map(|t| {
-            let (mut u, mut v) = (0.0, 0.0);
-            for (p, w) in pieces.iter().zip(winds) {
-                u += w[t].u_m_s * p.length_m / total;
-                v += w[t].v_m_s * p.length_m / total;
-            }
-            Wind::new(u, v)
+            let at: Vec<Wind> = winds.iter().map(|w| w[t]).collect();
+            length_weighted_at(pieces, &at)
         })
         .collect()
 }
 
-/// Wind at a list of points, from [`sample_points`].
-#[derive(Debug, Clone, PartialEq, Default)]
-pub struct PointSamples {
-    /// For each point, its wind, or `None` where no file covers it.
-    pub series: Vec<Option<WindSeries>>,
-    /// The latest reference (issue) time among the GRIB2 files used, if any.
-    pub latest_reference: Option<DateTime<Utc>>,
-}
-
-/// The wind at arbitrary points (routes, probes around a stretch), each from the first
-/// source that covers it, by the same rules as segments.
-pub fn sample_points(sources: &[WindSource], points: &[LatLon]) -> Result<PointSamples, WindError> {
-    sample_points_with(sources, points, &Progress::new())
-}
-
-/// Like [`sample_points`], reporting progress through each GRIB2 file and stopping
-/// when asked to.
-pub fn sample_points_with(
-    sources: &[WindSource],
-    points: &[LatLon],
-    progress: &Progress,
-) -> Result<PointSamples, WindError> {
-    let nearest_station = nearest_station_of(sources);
-    let mut out: Vec<Option<WindSeries>> = vec![None; points.len()];
-    let mut latest_reference: Option<DateTime<Utc>> = None;
-    for (k, source) in sources.iter().enumerate() {
-        let pending: Vec<usize> = (0..points.len()).filter(|&i| out[i].is_none()).collect();
-        if pending.is_empty() {
-            break;
-        }
-        match source {
-            WindSource::Series { series, .. } => {
-                for i in pending {
-                    if series.position.is_none() || nearest_station(points[i]) == Some(k) {
-                        out[i] = Some(series.series.clone());
-                    }
-                }
-            }
-            WindSource::Grib2 { path } => {
-                let wanted: Vec<LatLon> = pending.iter().map(|&i| points[i]).collect();
-                let file = std::fs::File::open(path).map_err(|e| WindError::File {
-                    path: path.clone(),
-                    source: e.into(),
-                })?;
-                let samples = sample_grib2_with(
-                    std::io::BufReader::with_capacity(1 << 16, file),
-                    &wanted,
-                    progress,
-                )
-                .map_err(|source| WindError::File {
-                    path: path.clone(),
-                    source,
-                })?;
-                if let Some(t) = samples.latest_reference {
-                    latest_reference = Some(latest_reference.map_or(t, |x| x.max(t)));
-                }
-                for (i, wind) in pending.into_iter().zip(samples.points) {
-                    out[i] = wind.map(|wind| WindSeries {
-                        times: samples.times.clone(),
-                        wind,
-                    });
-                }
-            }
-        }
+/// Length-weighted mean of the pieces' winds at one time: the wind of a segment whose
+/// midpoint no file covers while all its pieces are covered.
+#[must_use]
+pub fn length_weighted_at(pieces: &[crate::coast::Piece], winds: &[Wind]) -> Wind {
+    let total: f64 = pieces.iter().map(|p| p.length_m).sum();
+    let (mut u, mut v) = (0.0, 0.0);
+    for (p, w) in pieces.iter().zip(winds) {
+        u += w.u_m_s * p.length_m / total;
+        v += w.v_m_s * p.length_m / total;
     }
-    Ok(PointSamples {
-        series: out,
-        latest_reference,
-    })
+    Wind::new(u, v)
 }

@@ -7,16 +7,19 @@
 //! never with the size of the grid.
 
 mod assign;
+mod conditions;
 mod csv;
 mod demo;
 mod grib2;
 mod grib2_writer;
 mod grid;
-mod merge;
 
 pub use assign::{
-    PointSamples, SegmentWind, WindSource, assign_wind, load_sources, sample_points,
-    sample_points_with,
+    SegmentWind, WindSource, assign_wind, assign_wind_merged, length_weighted_at, load_sources,
+};
+pub use conditions::{
+    Conditions, GroupWind, PointGroup, SourceIdentity, groups_fingerprint, sample_conditions,
+    sample_merged,
 };
 pub use csv::read_csv_series;
 pub use demo::{
@@ -26,7 +29,6 @@ pub use demo::{
 pub use grib2::{Grib2Samples, sample_grib2, sample_grib2_with};
 pub use grib2_writer::{GridField, encode_wind_message};
 pub use grid::RegularGrid;
-pub use merge::assign_wind_merged;
 
 use crate::coast::LatLon;
 use crate::physics::Wind;
@@ -48,21 +50,34 @@ impl WindSeries {
     /// `max_gap_h` hours.
     #[must_use]
     pub fn at(&self, t: DateTime<Utc>, max_gap_h: f64) -> Option<Wind> {
-        let k = self.times.partition_point(|x| *x < t);
-        if k < self.times.len() && self.times[k] == t {
-            return Some(self.wind[k]);
-        }
-        if k == 0 || k >= self.times.len() {
-            return None;
-        }
-        let (a, b) = (self.times[k - 1], self.times[k]);
-        let span_s = (b - a).num_seconds() as f64;
-        if span_s > max_gap_h * 3600.0 {
-            return None;
-        }
-        let frac = (t - a).num_seconds() as f64 / span_s;
-        Some(self.wind[k - 1].lerp(self.wind[k], frac))
+        wind_at_time(&self.times, &self.wind, t, max_gap_h)
     }
+}
+
+/// The wind at time `t` from times (strictly increasing) and winds, linear in time
+/// between the two nearest steps (components interpolated); `None` outside the series or
+/// across a gap longer than `max_gap_h` hours.
+#[must_use]
+pub fn wind_at_time(
+    times: &[DateTime<Utc>],
+    wind: &[Wind],
+    t: DateTime<Utc>,
+    max_gap_h: f64,
+) -> Option<Wind> {
+    let k = times.partition_point(|x| *x < t);
+    if k < times.len() && times[k] == t {
+        return wind.get(k).copied();
+    }
+    if k == 0 || k >= times.len() {
+        return None;
+    }
+    let (a, b) = (times[k - 1], times[k]);
+    let span_s = (b - a).num_seconds() as f64;
+    if span_s > max_gap_h * 3600.0 {
+        return None;
+    }
+    let frac = (t - a).num_seconds() as f64 / span_s;
+    Some(wind.get(k - 1)?.lerp(*wind.get(k)?, frac))
 }
 
 /// A point series read from a CSV file.

@@ -139,8 +139,8 @@ fn no_data(o: &mut String) {
 
 /// The wind that decides the safe window: the strongest on the way and at the stretch,
 /// knots (the wind at the stretch where part of the way has no forecast).
-fn deciding_wind_kt(h: &StretchHour) -> f64 {
-    h.route_max_wind_kt
+fn deciding_wind_kt(s: &StretchInfo, h: &StretchHour) -> f64 {
+    s.route_wind_kt(h.time)
         .unwrap_or_else(|| m_s_to_knots(h.wind.speed_m_s()))
 }
 
@@ -158,7 +158,7 @@ fn wind_plot(
     let limit = plan.vessel.wind_limit_kt;
     let strongest = hours
         .iter()
-        .map(|h| deciding_wind_kt(h))
+        .map(|h| deciding_wind_kt(s, h))
         .fold(0.0, f64::max);
     let (_, hi, step) = nice_range(0.0, strongest.max(limit * 1.2).max(5.0));
     let chart = Chart {
@@ -194,7 +194,7 @@ fn wind_plot(
     );
     let top = chart.y(hi);
     let bottom = chart.y(0.0);
-    for h in hours.iter().filter(|h| deciding_wind_kt(h) > limit) {
+    for h in hours.iter().filter(|h| deciding_wind_kt(s, h) > limit) {
         let x0 = chart.x(h.time);
         let x1 = chart.x(h.time + Duration::hours(1));
         let _ = writeln!(
@@ -232,7 +232,7 @@ fn wind_plot(
             .map(|h| {
                 (
                     chart.x(h.time + Duration::minutes(30)),
-                    chart.y(deciding_wind_kt(h)),
+                    chart.y(deciding_wind_kt(s, h)),
                 )
             })
             .collect();

@@ -1,0 +1,279 @@
+//! Words for the plan's typed values: the reasons of each rank, why a stretch is left
+//! out, and the plan's notes. The command line, the exports and the app all show these,
+//! so they say the same thing everywhere. Times are local, in the plan's time zone.
+
+use crate::localtime::local_day;
+use crate::plan::{
+    Excluded, Exclusion, Plan, PlanNote, RankedStretch, Reasons, TripReason, UpwellingReason,
+    WindReason,
+};
+use chrono::{DateTime, NaiveDate, Utc};
+use chrono_tz::Tz;
+
+fn hhmm(tz: Tz, t: DateTime<Utc>) -> String {
+    t.with_timezone(&tz).format("%H:%M").to_string()
+}
+
+/// "3 h 30 min", "45 min".
+#[must_use]
+pub fn duration_text(minutes: f64) -> String {
+    let m = minutes.round() as i64;
+    match (m / 60, m % 60) {
+        (0, m) => format!("{m} min"),
+        (h, 0) => format!("{h} h"),
+        (h, m) => format!("{h} h {m:02} min"),
+    }
+}
+
+/// How long ago, in local days, something that ended at `ended` is on `date`: an end
+/// at 23:00 is "yesterday" the next day.
+fn days_ago(tz: Tz, ended: DateTime<Utc>, date: NaiveDate) -> String {
+    // `ended` closes an interval: an end at midnight belongs to the day before.
+    let end_day = local_day(tz, ended - chrono::Duration::seconds(1));
+    match (date - end_day).num_days() {
+        i64::MIN..=0 => "today".into(),
+        1 => "yesterday".into(),
+        n => format!("{n} days ago"),
+    }
+}
+
+fn days_text(days: f64) -> String {
+    if days < 1.5 {
+        let h = (days * 24.0).round().max(1.0) as i64;
+        return if h == 1 {
+            "1 hour".into()
+        } else {
+            format!("{h} hours")
+        };
+    }
+    format!("{} days", days.round() as i64)
+}
+
+/// A wind speed against a limit: one decimal when whole knots would hide which side of
+/// the limit it is on.
+fn knots_vs(wind_kt: f64, limit_kt: f64) -> String {
+    if (wind_kt.round() - limit_kt.round()).abs() < 1.0 {
+        format!("{wind_kt:.1} kt")
+    } else {
+        format!("{wind_kt:.0} kt")
+    }
+}
+
+/// Why a stretch is left out, in a line.
+#[must_use]
+pub fn exclusion_text(e: &Exclusion, tz: Tz, port_name: &str) -> String {
+    match e {
+        Exclusion::Closed(c) => {
+            let reason = if c.reason.is_empty() {
+                "no reason given"
+            } else {
+                &c.reason
+            };
+            let dates = match (c.from, c.to) {
+                (Some(f), Some(t)) => {
+                    format!(" ({} to {})", f.format("%-d %b"), t.format("%-d %b %Y"))
+                }
+                (None, Some(t)) => format!(" (until {})", t.format("%-d %b %Y")),
+                (Some(f), None) => format!(" (from {})", f.format("%-d %b %Y")),
+                (None, None) => String::new(),
+            };
+            format!("closed to fishing: {reason}{dates}")
+        }
+        Exclusion::NearEquator { lat_deg } => format!(
+            "too close to the equator for Ekman theory (under 5°; centre at {lat_deg:.1}°): no upwelling index"
+        ),
+        Exclusion::BeyondRange {
+            distance_nm,
+            range_nm,
+        } => format!(
+            "{distance_nm:.0} nm from {port_name}: beyond this boat's {range_nm:.0} nm range"
+        ),
+        Exclusion::NoForecast => "no forecast for this day's working hours".into(),
+        Exclusion::NoRouteForecast => "no forecast for part of the way from port".into(),
+        Exclusion::OverWindLimit {
+            max_wind_kt,
+            at,
+            limit_kt,
+        } => format!(
+            "wind up to {} ({}): over this boat's {limit_kt:.0} kt limit all day",
+            knots_vs(*max_wind_kt, *limit_kt),
+            hhmm(tz, *at)
+        ),
+        Exclusion::WindowTooShort {
+            window,
+            limit_kt,
+            steam_h,
+            min_fishing_h,
+        } => format!(
+            "only {}–{} under this boat's {limit_kt:.0} kt limit: too short for {} steaming each way and {min_fishing_h:.0} h fishing",
+            hhmm(tz, window.0),
+            hhmm(tz, window.1),
+            duration_text(steam_h * 60.0),
+        ),
+    }
+}
+
+fn upwelling_text(r: &Reasons, tz: Tz, date: NaiveDate) -> String {
+    let productivity = format!("expected productivity {:.0} %", 100.0 * r.productivity);
+    match r.upwelling {
+        UpwellingReason::Flushing {
+            age_days,
+            peak_m3s_per_100m,
+        } => format!(
+            "strong upwelling for {} (peak {peak_m3s_per_100m:.0} m³/s per 100 m): production flushed offshore; {productivity}",
+            days_text(age_days)
+        ),
+        UpwellingReason::Building { age_days } => format!(
+            "upwelling for {} so far: bloom building; {productivity}",
+            days_text(age_days)
+        ),
+        UpwellingReason::BloomExpected { length_days, ended } => format!(
+            "upwelling for {} ended {}: bloom expected; {productivity}",
+            days_text(length_days),
+            days_ago(tz, ended, date)
+        ),
+        UpwellingReason::Lagged { length_days, ended } => format!(
+            "upwelling for {} ended {}: bloom expected as it follows the upwelling by days; {productivity}",
+            days_text(length_days),
+            days_ago(tz, ended, date)
+        ),
+        UpwellingReason::Downwelling { mean_m3s_per_100m } => format!(
+            "downwelling ({mean_m3s_per_100m:.0} m³/s per 100 m): warm water held against the coast; {productivity}"
+        ),
+        UpwellingReason::Fading { window_days } => format!(
+            "upwelling more than {} ago: bloom fading; {productivity}",
+            days_text(window_days)
+        ),
+        UpwellingReason::NoEvent => format!(
+            "no upwelling event in the forecast so far: little fresh production; {productivity}"
+        ),
+    }
+}
+
+fn wind_text(w: &WindReason, tz: Tz) -> String {
+    let describe = |at: DateTime<Utc>, wind: Option<f64>, limit: f64| match wind {
+        Some(kt) => format!("wind {} at {}", knots_vs(kt, limit), hhmm(tz, at)),
+        None => format!("no forecast at {}", hhmm(tz, at)),
+    };
+    match *w {
+        WindReason::UnderAllDay {
+            limit_kt,
+            max_wind_kt,
+        } => format!(
+            "wind under this boat's {limit_kt:.0} kt limit all day (up to {max_wind_kt:.0} kt)"
+        ),
+        WindReason::OverAfter {
+            at,
+            wind_kt,
+            until,
+            limit_kt,
+        } => format!(
+            "{}: over this boat's {limit_kt:.0} kt limit after {}; back in by then",
+            describe(at, wind_kt, limit_kt),
+            hhmm(tz, until)
+        ),
+        WindReason::OverUntil {
+            at,
+            wind_kt,
+            from,
+            limit_kt,
+        } => format!(
+            "{}: over this boat's {limit_kt:.0} kt limit until {}; go after that",
+            describe(at, wind_kt, limit_kt),
+            hhmm(tz, from)
+        ),
+    }
+}
+
+fn trip_text(t: &TripReason, port_name: &str) -> String {
+    let mut s = format!(
+        "{:.0} nm from {port_name}: {} each way, about {:.0} l of fuel",
+        t.distance_nm,
+        duration_text(t.steam_minutes),
+        t.fuel_l
+    );
+    if t.crosses_land {
+        s.push_str(" (straight line crosses land: the way by sea is longer)");
+    }
+    s
+}
+
+/// The reasons of a rank, one line each: the upwelling, the wind, the trip, and for a
+/// stretch between 5° and 10° from the equator, a caution.
+#[must_use]
+pub fn reason_lines(r: &Reasons, tz: Tz, date: NaiveDate, port_name: &str) -> Vec<String> {
+    let mut lines = vec![
+        upwelling_text(r, tz, date),
+        wind_text(&r.wind, tz),
+        trip_text(&r.trip, port_name),
+    ];
+    if let Some(lat) = r.near_equator_lat_deg {
+        lines.push(format!(
+            "{lat:.1}° from the equator: the index is large and unreliable this close to it (under 10°)"
+        ));
+    }
+    lines
+}
+
+/// The reasons of a ranked stretch of a plan's day.
+#[must_use]
+pub fn ranked_lines(plan: &Plan, date: NaiveDate, r: &RankedStretch) -> Vec<String> {
+    reason_lines(&r.reasons, plan.time_zone, date, &plan.port.name)
+}
+
+/// Why a stretch of a plan is left out.
+#[must_use]
+pub fn excluded_text(plan: &Plan, e: &Excluded) -> String {
+    exclusion_text(&e.exclusion, plan.time_zone, &plan.port.name)
+}
+
+/// A plan-wide note.
+#[must_use]
+pub fn note_text(n: &PlanNote, port_name: &str) -> String {
+    match n {
+        PlanNote::GreatCircleDistances => format!(
+            "Distances are great-circle from {port_name} to each stretch's centre; where that line crosses land the way by sea is longer (marked)."
+        ),
+        PlanNote::WaveLimitNotChecked { limit_m } => format!(
+            "Wave limit {limit_m} m not checked: the forecast has no wave height. Check the sea state yourself."
+        ),
+        PlanNote::NearEquator => "Some stretches lie between 5° and 10° from the equator, where the upwelling index is large and unreliable.".into(),
+    }
+}
+
+/// The plan's notes, as lines.
+#[must_use]
+pub fn notes(plan: &Plan) -> Vec<String> {
+    plan.notes
+        .iter()
+        .map(|n| note_text(n, &plan.port.name))
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn durations_read_like_a_skipper_says_them() {
+        assert_eq!(duration_text(210.0), "3 h 30 min");
+        assert_eq!(duration_text(45.2), "45 min");
+        assert_eq!(duration_text(120.0), "2 h");
+        assert_eq!(duration_text(62.0), "1 h 02 min");
+    }
+
+    /// Issue 19: an event that ended at 23:00 local is "yesterday" on the next day,
+    /// not "today".
+    #[test]
+    fn an_event_ending_late_ended_yesterday() {
+        let tz: Tz = "Europe/Lisbon".parse().expect("zone");
+        // 23:00 WEST on 3 May 2027 is 22:00 UTC.
+        let ended: DateTime<Utc> = "2027-05-03T22:00:00Z".parse().expect("time");
+        let date: NaiveDate = "2027-05-04".parse().expect("date");
+        assert_eq!(days_ago(tz, ended, date), "yesterday");
+        assert_eq!(
+            days_ago(tz, ended, "2027-05-03".parse().expect("date")),
+            "today"
+        );
+    }
+}

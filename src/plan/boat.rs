@@ -1,0 +1,35 @@
+//! Boats and home ports: what the skipper sets, and where trips start.
+
+use crate::coast::LatLon;
+use serde::{Deserialize, Serialize};
+
+/// A home port.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Port {
+    /// Identifier, unique among ports.
+    pub id: String,
+    /// Display name.
+    pub name: String,
+    /// Position of the harbour mouth.
+    pub position: LatLon,
+}
+
+/// A boat and the limits its skipper sets.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Vessel {
+    /// Identifier, unique among vessels.
+    pub id: String,
+    /// Display name.
+    pub name: String,
+    /// Cruising speed, knots.
+    pub cruise_speed_kt: f64,
+    /// Fuel burnt per hour at cruising speed, litres per hour.
+    pub fuel_l_per_h: f64,
+    /// Highest sustained wind the skipper will work in, knots.
+    pub wind_limit_kt: f64,
+    /// Highest significant wave height the skipper will work in, metres (optional).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub wave_limit_m: Option<f64>,
+    /// Greatest distance from port for a day trip, nautical miles (one way).
+    pub range_nm: f64,
+}

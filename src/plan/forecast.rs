@@ -1,0 +1,603 @@
+//! The forecast of every stretch, before any boat or port is chosen: the stretches cut
+//! from the coast, the wind sampled at the points they need (conditions), and their
+//! upwelling hour by hour and day by day. A change of boat, port or day re-ranks from
+//! here; only a change of wind files or coast geometry samples again, and a change of
+//! model settings recomputes the upwelling from the same samples.
+
+use crate::coast::{Land, LatLon, Segment, destination, distance_m, initial_bearing_deg};
+use crate::localtime::local_day;
+use crate::physics::{
+    LatitudeCheck, NAUTICAL_MILE_M, ProbeStress, PumpingProbes, Wind, check_latitude,
+    coriolis_parameter, ekman_pumping_m_s, ekman_transport, m_s_to_knots, wind_stress,
+};
+use crate::progress::Progress;
+use crate::upwelling::{
+    EventSettings, IndexSettings, ResponseSettings, UpwellingDay, UpwellingEvent, daily_upwelling,
+    detect_events, index_series,
+};
+use crate::wind::{
+    Conditions, GroupWind, PointGroup, SegmentWind, SourceIdentity, WindError, WindSource,
+    groups_fingerprint, length_weighted_at, sample_conditions, wind_at_time,
+};
+use chrono::{DateTime, Duration, NaiveDate, Timelike, Utc};
+use chrono_tz::Tz;
+use std::sync::Arc;
+
+/// Distance from the coast of the Ekman pumping probes, and their spacing, metres.
+const PUMPING_OFFSHORE_M: f64 = 10_000.0;
+const PUMPING_HALF_SPAN_M: f64 = 5_000.0;
+/// Longest gap in a wind series bridged by interpolation in time, hours.
+const MAX_WIND_GAP_H: f64 = 6.0;
+/// The first stretch of the way out is the harbour itself, often inside the land
+/// polygons: land there does not count as crossing land, metres.
+const HARBOUR_M: f64 = 1500.0;
+
+/// How close a stretch is to the equator, where Ekman theory fails.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Latitude {
+    /// 10° or more from the equator.
+    Fine,
+    /// Between 5° and 10°: the index is large and unreliable.
+    NearEquator,
+    /// Within 5°: no index.
+    TooClose,
+}
+
+/// The wind and index of a stretch in one hour.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct StretchHour {
+    /// The hour, UTC.
+    pub time: DateTime<Utc>,
+    /// Wind at the stretch centre.
+    pub wind: Wind,
+    /// Alongshore wind stress, N/m^2, positive toward the stretch's alongshore bearing.
+    pub alongshore_stress_pa: f64,
+    /// Coastal upwelling index, m^3/s per 100 m (the length-weighted mean over the
+    /// stretch's pieces, as `shelfwind index` computes it for a segment).
+    pub index_m3s_per_100m: f64,
+    /// Ekman pumping just offshore, m/s, where a grid gives it.
+    pub pumping_m_s: Option<f64>,
+    /// Ekman transport at the centre, toward east and north, m^2/s.
+    pub transport_m2_s: (f64, f64),
+}
+
+/// A stretch of coast and its upwelling over the forecast.
+#[derive(Debug, Clone, PartialEq)]
+pub struct StretchForecast {
+    /// Stretch id, `<segment id>/<n>`.
+    pub id: String,
+    /// The segment's id.
+    pub segment_id: String,
+    /// Which stretch of its segment (0-based), and how many the segment has.
+    pub part: (usize, usize),
+    /// Its line.
+    pub points: Vec<LatLon>,
+    /// Length-weighted centre.
+    pub centre: LatLon,
+    /// Mean direction along the stretch, degrees true.
+    pub alongshore_bearing_deg: f64,
+    /// Mean offshore normal, degrees true.
+    pub offshore_bearing_deg: f64,
+    /// How close to the equator it is.
+    pub latitude: Latitude,
+    /// Whether some wind file covers it.
+    pub has_wind: bool,
+    /// Hourly values (empty without wind or too near the equator).
+    pub hours: Vec<StretchHour>,
+    /// Daily values over every day of the forecast.
+    pub days: Vec<UpwellingDay>,
+    /// Upwelling events in the wind record.
+    pub events: Vec<UpwellingEvent>,
+}
+
+impl StretchForecast {
+    /// The hour at `t`, if the stretch has wind then. Hours are hourly, so the index is
+    /// found by arithmetic first (one memory access on a long coast), by search after.
+    #[must_use]
+    pub fn hour_at(&self, t: DateTime<Utc>) -> Option<&StretchHour> {
+        let first = self.hours.first()?;
+        let guess = usize::try_from((t - first.time).num_hours()).ok()?;
+        match self.hours.get(guess) {
+            Some(h) if h.time == t => Some(h),
+            _ => self
+                .hours
+                .binary_search_by_key(&t, |h| h.time)
+                .ok()
+                .map(|k| &self.hours[k]),
+        }
+    }
+
+    /// The day `date`, if the forecast has it.
+    #[must_use]
+    pub fn day(&self, date: NaiveDate) -> Option<&UpwellingDay> {
+        self.days.iter().find(|d| d.date == date)
+    }
+}
+
+/// The way from one port to every stretch.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PortRoutes {
+    /// The port's position.
+    pub port: LatLon,
+    /// Per stretch: great-circle distance, nm.
+    pub distance_nm: Vec<f64>,
+    /// Per stretch: whether that line crosses land (the way by sea is longer).
+    pub crosses_land: Vec<bool>,
+    /// Per stretch, per hour of [`Forecast::timeline`]: the strongest wind on the way
+    /// and at the stretch, knots; `None` where part of the way has no forecast.
+    pub max_wind_kt: Vec<Arc<[Option<f64>]>>,
+}
+
+/// Model settings that the upwelling stage uses.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct UpwellingSettings {
+    /// The index: drag law and densities.
+    pub index: IndexSettings,
+    /// Event thresholds.
+    pub events: EventSettings,
+    /// The response model.
+    pub response: ResponseSettings,
+}
+
+/// What the conditions are sampled for: the coast geometry and the ports.
+#[derive(Debug, Clone, Copy)]
+pub struct ForecastGeometry<'a> {
+    /// The segments, sea sides resolved.
+    pub segments: &'a [Segment],
+    /// Length of the stretches, nm.
+    pub stretch_length_nm: f64,
+    /// Positions of the home ports.
+    pub ports: &'a [LatLon],
+    /// Spacing of the points on the way from port, nm.
+    pub route_step_nm: f64,
+    /// Land, to tell whether a way out crosses it.
+    pub land: &'a Land,
+}
+
+/// Conditions sampled for a coast and its ports, with what identifies them.
+#[derive(Debug, Clone)]
+pub struct SampledConditions {
+    /// The files sampled.
+    pub sources: Vec<SourceIdentity>,
+    /// Fingerprint of the points sampled.
+    pub geometry: u64,
+    /// The stretches' geometry.
+    stretches: Vec<StretchForecast>,
+    /// Where each stretch's groups are.
+    layout: Vec<StretchGroups>,
+    /// The sampled wind.
+    conditions: Conditions,
+    /// Every whole hour the wind covers.
+    pub timeline: Vec<DateTime<Utc>>,
+    /// The ways from each port.
+    routes: Vec<PortRoutes>,
+    stretch_pieces: Vec<Segment>,
+}
+
+#[derive(Debug, Clone, Copy)]
+struct StretchGroups {
+    /// The group of the piece midpoints (with the centre as its extra point).
+    pieces: usize,
+    /// The group of the pumping probes, and where they are (east, west, north, south).
+    pumping: usize,
+    probes: [LatLon; 4],
+}
+
+/// The forecast of every stretch.
+#[derive(Debug, Clone)]
+pub struct Forecast {
+    /// IANA time zone of local days.
+    pub time_zone: Tz,
+    /// Every stretch.
+    pub stretches: Vec<Arc<StretchForecast>>,
+    /// Every whole hour the wind covers, UTC.
+    pub timeline: Vec<DateTime<Utc>>,
+    /// The local days of the forecast.
+    pub days: Vec<NaiveDate>,
+    /// The ways from each port given.
+    pub routes: Vec<PortRoutes>,
+    /// The latest issue time among the GRIB2 files, if any.
+    pub latest_reference: Option<DateTime<Utc>>,
+    /// The settings the upwelling was computed with.
+    pub settings: UpwellingSettings,
+}
+
+/// Why no forecast could be made.
+#[derive(Debug, thiserror::Error)]
+pub enum ForecastError {
+    /// Wind files.
+    #[error(transparent)]
+    Wind(#[from] WindError),
+    /// No stretch has any wind.
+    #[error("no wind file covers any stretch of the coast: give a forecast that covers it")]
+    NoWind,
+}
+
+fn mean_bearing(pairs: impl Iterator<Item = (f64, f64)>) -> f64 {
+    let (mut x, mut y) = (0.0, 0.0);
+    for (bearing, weight) in pairs {
+        x += weight * bearing.to_radians().sin();
+        y += weight * bearing.to_radians().cos();
+    }
+    crate::physics::bearing_deg(x.atan2(y).to_degrees())
+}
+
+/// Cuts the segments into stretches (geometry only).
+fn cut_stretches(segments: &[Segment], stretch_length_nm: f64) -> Vec<(Segment, StretchForecast)> {
+    let mut out = Vec::new();
+    for seg in segments {
+        let parts = seg.stretches(stretch_length_nm * NAUTICAL_MILE_M);
+        let count = parts.len();
+        for (k, part) in parts.into_iter().enumerate() {
+            let pieces = part.pieces();
+            let centre = part.weighted_midpoint();
+            let latitude = match check_latitude(centre.lat_deg) {
+                Err(_) => Latitude::TooClose,
+                Ok(LatitudeCheck::NearEquator) => Latitude::NearEquator,
+                Ok(_) => Latitude::Fine,
+            };
+            let info = StretchForecast {
+                id: part.id.clone(),
+                segment_id: seg.id.clone(),
+                part: (k, count),
+                points: part.points.clone(),
+                centre,
+                alongshore_bearing_deg: mean_bearing(
+                    pieces
+                        .iter()
+                        .map(|p| (p.alongshore_bearing_deg, p.length_m)),
+                ),
+                offshore_bearing_deg: mean_bearing(
+                    pieces.iter().map(|p| (p.offshore_bearing_deg, p.length_m)),
+                ),
+                latitude,
+                has_wind: false,
+                hours: Vec::new(),
+                days: Vec::new(),
+                events: Vec::new(),
+            };
+            out.push((part, info));
+        }
+    }
+    out
+}
+
+/// Points on the great circle from `port` to `to`, every `step_nm`, the port first.
+fn route_points(port: LatLon, to: LatLon, step_nm: f64) -> Vec<LatLon> {
+    let total_m = distance_m(port, to);
+    let steps = (total_m / (step_nm * NAUTICAL_MILE_M)).ceil() as usize;
+    let bearing = initial_bearing_deg(port, to);
+    (0..steps)
+        .map(|s| destination(port, bearing, total_m * s as f64 / steps as f64))
+        .collect()
+}
+
+/// The four pumping probes offshore of a stretch (east, west, north, south), and their
+/// group: grids only, since winds at different stations have no curl between them.
+fn pumping_group(s: &StretchForecast) -> ([LatLon; 4], PointGroup) {
+    let off = destination(s.centre, s.offshore_bearing_deg, PUMPING_OFFSHORE_M);
+    let probes = [90.0, 270.0, 0.0, 180.0].map(|b| destination(off, b, PUMPING_HALF_SPAN_M));
+    let group = PointGroup {
+        grids_only: true,
+        ..PointGroup::new(probes.to_vec(), off, None)
+    };
+    (probes, group)
+}
+
+/// Every whole hour from the first to the last time any group has.
+fn hourly_timeline(conditions: &Conditions) -> Vec<DateTime<Utc>> {
+    let ends = conditions
+        .groups
+        .iter()
+        .flatten()
+        .flat_map(|g| [g.times.first(), g.times.last()])
+        .flatten();
+    let (Some(first), Some(last)) = (ends.clone().min(), ends.max()) else {
+        return Vec::new();
+    };
+    let first_hour = first
+        .with_minute(0)
+        .and_then(|t| t.with_second(0))
+        .unwrap_or(*first);
+    (0..=(*last - first_hour).num_hours())
+        .map(|k| first_hour + Duration::hours(k))
+        .collect()
+}
+
+/// The wind of a group's point `i` at `t`, interpolated in time.
+fn wind_at(g: &GroupWind, i: usize, t: DateTime<Utc>) -> Option<Wind> {
+    series_at(&g.times, &g.points[i], t)
+}
+
+fn series_at(times: &[DateTime<Utc>], wind: &[Wind], t: DateTime<Utc>) -> Option<Wind> {
+    wind_at_time(times, wind, t, MAX_WIND_GAP_H)
+}
+
+/// The points a coast and its ports need, in groups, and where each stretch's are.
+struct Layout {
+    cut: Vec<(Segment, StretchForecast)>,
+    groups: Vec<PointGroup>,
+    stretch_groups: Vec<StretchGroups>,
+    /// Per port, per stretch: first route group, number of route points, whether the
+    /// way crosses land.
+    route_groups: Vec<(usize, usize, bool)>,
+}
+
+fn layout(geometry: &ForecastGeometry<'_>) -> Layout {
+    let cut = cut_stretches(geometry.segments, geometry.stretch_length_nm);
+    let mut groups = Vec::new();
+    let mut stretch_groups = Vec::with_capacity(cut.len());
+    for (part, s) in &cut {
+        let (probes, pumping) = pumping_group(s);
+        stretch_groups.push(StretchGroups {
+            pieces: groups.len(),
+            pumping: groups.len() + 1,
+            probes,
+        });
+        groups.push(PointGroup::new(
+            part.pieces().iter().map(|p| p.midpoint).collect(),
+            s.centre,
+            Some(s.centre),
+        ));
+        groups.push(pumping);
+    }
+    // Route points: one group each, every port × every stretch.
+    let mut route_groups = Vec::new();
+    for &port in geometry.ports {
+        for (_, s) in &cut {
+            let pts = route_points(port, s.centre, geometry.route_step_nm);
+            let crosses = pts
+                .iter()
+                .skip(1)
+                .any(|p| distance_m(port, *p) > HARBOUR_M && geometry.land.is_land(*p));
+            route_groups.push((groups.len(), pts.len(), crosses));
+            groups.extend(pts.into_iter().map(PointGroup::point));
+        }
+    }
+    Layout {
+        cut,
+        groups,
+        stretch_groups,
+        route_groups,
+    }
+}
+
+/// What identifies the points a coast and its ports need: conditions sampled for an
+/// equal key fit (see [`SampledConditions::fits`]).
+#[must_use]
+pub fn forecast_key(geometry: &ForecastGeometry<'_>) -> u64 {
+    groups_fingerprint(&layout(geometry).groups)
+}
+
+/// Samples the wind for a coast and its ports. Reads every file once.
+pub fn sample_forecast_conditions(
+    geometry: &ForecastGeometry<'_>,
+    sources: &[WindSource],
+    progress: &Progress,
+) -> Result<SampledConditions, ForecastError> {
+    let Layout {
+        cut,
+        groups,
+        stretch_groups: layout,
+        route_groups,
+    } = self::layout(geometry);
+    let identities = sources
+        .iter()
+        .map(|s| SourceIdentity::of(s.path()))
+        .collect::<Result<Vec<_>, _>>()?;
+    let fingerprint = groups_fingerprint(&groups);
+    let conditions = sample_conditions(sources, &groups, progress)?;
+    if conditions.groups.iter().all(Option::is_none) {
+        return Err(ForecastError::NoWind);
+    }
+    let timeline = hourly_timeline(&conditions);
+    let (stretch_pieces, stretches): (Vec<Segment>, Vec<StretchForecast>) = cut.into_iter().unzip();
+    let n = stretches.len();
+    let routes = geometry
+        .ports
+        .iter()
+        .enumerate()
+        .map(|(p, &port)| {
+            port_routes(
+                port,
+                &stretches,
+                &layout,
+                &route_groups[p * n..(p + 1) * n],
+                &conditions,
+                &timeline,
+            )
+        })
+        .collect();
+    Ok(SampledConditions {
+        sources: identities,
+        geometry: fingerprint,
+        stretches,
+        layout,
+        conditions,
+        timeline,
+        routes,
+        stretch_pieces,
+    })
+}
+
+/// The ways from one port: distance, land crossed, and the strongest wind on the way
+/// each hour.
+fn port_routes(
+    port: LatLon,
+    stretches: &[StretchForecast],
+    layout: &[StretchGroups],
+    route_groups: &[(usize, usize, bool)],
+    conditions: &Conditions,
+    timeline: &[DateTime<Utc>],
+) -> PortRoutes {
+    let mut out = PortRoutes {
+        port,
+        distance_nm: Vec::with_capacity(stretches.len()),
+        crosses_land: Vec::with_capacity(stretches.len()),
+        max_wind_kt: Vec::with_capacity(stretches.len()),
+    };
+    for ((s, l), &(first, n, crosses)) in stretches.iter().zip(layout).zip(route_groups) {
+        out.distance_nm
+            .push(distance_m(port, s.centre) / NAUTICAL_MILE_M);
+        let way: Vec<Option<&GroupWind>> = conditions.groups[first..first + n]
+            .iter()
+            .map(Option::as_ref)
+            .collect();
+        out.crosses_land.push(crosses);
+        let centre = conditions.groups[l.pieces].as_ref();
+        let max: Vec<Option<f64>> = timeline
+            .iter()
+            .map(|&t| {
+                let at_centre = centre.and_then(|g| centre_wind_at(g, t));
+                way.iter()
+                    .map(|g| g.and_then(|g| wind_at(g, 0, t)))
+                    .chain(std::iter::once(at_centre))
+                    .try_fold(0.0_f64, |m, w| {
+                        w.map(|w| m.max(m_s_to_knots(w.speed_m_s())))
+                    })
+            })
+            .collect();
+        out.max_wind_kt.push(max.into());
+    }
+    out
+}
+
+/// The wind at a stretch's centre (the group's extra point), interpolated in time.
+fn centre_wind_at(g: &GroupWind, t: DateTime<Utc>) -> Option<Wind> {
+    g.extra.as_ref().and_then(|e| series_at(&g.times, e, t))
+}
+
+impl SampledConditions {
+    /// Whether these conditions were sampled from the same files (unchanged on disk) at
+    /// the same points as `geometry` would need.
+    #[must_use]
+    pub fn fits(&self, sources: &[SourceIdentity], geometry: u64) -> bool {
+        self.sources == sources && self.geometry == geometry
+    }
+
+    /// Computes the upwelling of every stretch from the sampled wind.
+    #[must_use]
+    pub fn forecast(&self, tz: Tz, settings: &UpwellingSettings) -> Forecast {
+        let days: Vec<NaiveDate> = match (self.timeline.first(), self.timeline.last()) {
+            (Some(a), Some(b)) => local_day(tz, *a)
+                .iter_days()
+                .take_while(|d| *d <= local_day(tz, *b))
+                .collect(),
+            _ => Vec::new(),
+        };
+        let stretches = self
+            .stretches
+            .iter()
+            .zip(&self.layout)
+            .zip(&self.stretch_pieces)
+            .map(|((s, l), part)| Arc::new(self.stretch_upwelling(s, l, part, tz, &days, settings)))
+            .collect();
+        Forecast {
+            time_zone: tz,
+            stretches,
+            timeline: self.timeline.clone(),
+            days,
+            routes: self.routes.clone(),
+            latest_reference: self.conditions.latest_reference,
+            settings: *settings,
+        }
+    }
+
+    fn stretch_upwelling(
+        &self,
+        s: &StretchForecast,
+        l: &StretchGroups,
+        part: &Segment,
+        tz: Tz,
+        days: &[NaiveDate],
+        settings: &UpwellingSettings,
+    ) -> StretchForecast {
+        let mut s = s.clone();
+        let Some(g) = self.conditions.groups[l.pieces].as_ref() else {
+            return s;
+        };
+        s.has_wind = true;
+        if s.latitude == Latitude::TooClose {
+            return s;
+        }
+        // The stretch's wind on the hourly timeline, where every piece has it.
+        let mut wind = SegmentWind {
+            source: g.source,
+            times: Vec::new(),
+            pieces: vec![Vec::new(); g.points.len()],
+            midpoint: Vec::new(),
+        };
+        for &t in &self.timeline {
+            let at: Option<Vec<Wind>> = (0..g.points.len()).map(|i| wind_at(g, i, t)).collect();
+            let Some(at) = at else { continue };
+            let centre =
+                centre_wind_at(g, t).unwrap_or_else(|| length_weighted_at(&part.pieces(), &at));
+            wind.times.push(t);
+            for (p, w) in wind.pieces.iter_mut().zip(at) {
+                p.push(w);
+            }
+            wind.midpoint.push(centre);
+        }
+        let Ok(series) = index_series(part, &wind, &settings.index) else {
+            return s;
+        };
+        let probes = self.conditions.groups[l.pumping].as_ref();
+        let f_centre = coriolis_parameter(s.centre.lat_deg);
+        let along = s.alongshore_bearing_deg.to_radians();
+        let idx = &settings.index;
+        s.hours = series
+            .times
+            .iter()
+            .zip(&series.wind)
+            .zip(&series.index_m3s_per_100m)
+            .map(|((&time, &wind), &index)| {
+                let tau = wind_stress(wind, &idx.drag, idx.rho_air_kg_m3);
+                let m = ekman_transport(tau, f_centre, idx.rho_water_kg_m3);
+                StretchHour {
+                    time,
+                    wind,
+                    alongshore_stress_pa: tau.x_pa * along.sin() + tau.y_pa * along.cos(),
+                    index_m3s_per_100m: index,
+                    pumping_m_s: probes.and_then(|p| pumping_at(p, &l.probes, time, idx)),
+                    transport_m2_s: (m.x_m2_s, m.y_m2_s),
+                }
+            })
+            .collect();
+        let pumping: Vec<Option<f64>> = s.hours.iter().map(|h| h.pumping_m_s).collect();
+        s.events = detect_events(&series.times, &series.index_m3s_per_100m, &settings.events);
+        s.days = daily_upwelling(
+            tz,
+            days,
+            &series.times,
+            &series.index_m3s_per_100m,
+            &pumping,
+            &s.events,
+            &settings.response,
+        );
+        s
+    }
+}
+
+/// Ekman pumping at the probes of one stretch at `t`, from one grid.
+fn pumping_at(
+    g: &GroupWind,
+    probes: &[LatLon; 4],
+    t: DateTime<Utc>,
+    idx: &IndexSettings,
+) -> Option<f64> {
+    let stress = |i: usize| -> Option<ProbeStress> {
+        Some(ProbeStress {
+            stress: wind_stress(wind_at(g, i, t)?, &idx.drag, idx.rho_air_kg_m3),
+            lat_deg: probes[i].lat_deg,
+        })
+    };
+    let p = PumpingProbes {
+        east: stress(0)?,
+        west: stress(1)?,
+        north: stress(2)?,
+        south: stress(3)?,
+        dx_m: distance_m(probes[1], probes[0]),
+        dy_m: distance_m(probes[3], probes[2]),
+    };
+    ekman_pumping_m_s(&p, idx.rho_water_kg_m3)
+}

@@ -1,0 +1,487 @@
+//! Ranking the stretches for one boat and home port, day by day, from the forecast:
+//! closures, range, the safe window inside the boat's wind limit, the score and the
+//! typed reasons.
+
+use super::forecast::{Forecast, Latitude, StretchForecast};
+use super::reasons::{Exclusion, Reasons, TripReason, UpwellingReason, WindReason};
+use super::window::{WorkingHour, longest_safe_run, run_span};
+use super::{Port, TripSettings, Vessel};
+use crate::coast::{Closure, CoastSegment};
+use crate::localtime::{local_day, local_time};
+use crate::upwelling::{EventPhase, UpwellingDay};
+use chrono::{DateTime, NaiveDate, Utc};
+use chrono_tz::Tz;
+use std::sync::Arc;
+
+/// A stretch as one plan sees it: the forecast stretch, with the name and closure of
+/// its segment and the way to it from the plan's port.
+#[derive(Debug, Clone, PartialEq)]
+pub struct StretchInfo {
+    /// The stretch and its upwelling (shared with the forecast, never copied).
+    pub forecast: Arc<StretchForecast>,
+    /// Name to show: the segment's name, with `n/m` when it has several stretches.
+    pub name: String,
+    /// Closure, if the segment has one.
+    pub closure: Option<Closure>,
+    /// Great-circle distance from the home port to the centre, nm.
+    pub distance_nm: f64,
+    /// Whether that straight line crosses land (the way by sea is longer).
+    pub crosses_land: bool,
+    /// Per hour of the forecast timeline, the strongest wind on the way and at the
+    /// stretch, knots.
+    route_max_wind_kt: Arc<[Option<f64>]>,
+    timeline_start: Option<DateTime<Utc>>,
+}
+
+// A stretch in a plan *is* its forecast stretch plus what the plan adds; reading
+// `s.hours` or `s.points` through it keeps every face simple.
+impl std::ops::Deref for StretchInfo {
+    type Target = StretchForecast;
+    fn deref(&self) -> &StretchForecast {
+        &self.forecast
+    }
+}
+
+impl StretchInfo {
+    /// The strongest wind on the way from port and at the stretch at hour `t`, knots.
+    #[must_use]
+    pub fn route_wind_kt(&self, t: DateTime<Utc>) -> Option<f64> {
+        let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
+        self.route_max_wind_kt.get(k).copied().flatten()
+    }
+}
+
+/// A stretch's place in a day's ranking.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RankedStretch {
+    /// Index into [`Plan::stretches`].
+    pub stretch: usize,
+    /// 1-based rank; tied stretches share the rank of the first of them.
+    pub rank: usize,
+    /// Within the tie margin of the stretch above.
+    pub tied_with_above: bool,
+    /// Score, 0–100.
+    pub score: f64,
+    /// Expected productivity, 0–1.
+    pub productivity: f64,
+    /// Share of a full fishing day the safe window allows, 0–1.
+    pub window_factor: f64,
+    /// Distance factor, 1 at the port to `1 − distance_weight` at the boat's range.
+    pub distance_factor: f64,
+    /// Start and end of the longest safe window within working hours.
+    pub safe_window: (DateTime<Utc>, DateTime<Utc>),
+    /// Fishing hours on the ground inside that window.
+    pub fishing_hours: f64,
+    /// Steaming time each way, minutes.
+    pub steam_minutes: f64,
+    /// Fuel for the round trip, litres.
+    pub fuel_l: f64,
+    /// Strongest wind at the stretch and on the way in working hours, knots.
+    pub max_wind_kt: f64,
+    /// Why it ranks here.
+    pub reasons: Reasons,
+}
+
+/// A stretch left out of a day's ranking, and why.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Excluded {
+    /// Index into [`Plan::stretches`].
+    pub stretch: usize,
+    /// Why.
+    pub exclusion: Exclusion,
+}
+
+/// One local day of the plan.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DayPlan {
+    /// The local day.
+    pub date: NaiveDate,
+    /// Ranked stretches, best first.
+    pub ranked: Vec<RankedStretch>,
+    /// Stretches left out, with the reason.
+    pub excluded: Vec<Excluded>,
+}
+
+/// Plan-wide notes: how the plan was made and what it did not check.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum PlanNote {
+    /// Distances are great-circle from the port; a way over land is marked.
+    GreatCircleDistances,
+    /// The boat has a wave limit, which the wind forecast cannot check.
+    WaveLimitNotChecked {
+        /// The limit, m.
+        limit_m: f64,
+    },
+    /// Some stretches lie between 5° and 10° from the equator.
+    NearEquator,
+}
+
+/// The whole plan.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Plan {
+    /// Scenario name.
+    pub scenario_name: String,
+    /// IANA time zone of local days and times.
+    pub time_zone: Tz,
+    /// The boat.
+    pub vessel: Vessel,
+    /// The home port.
+    pub port: Port,
+    /// Every stretch.
+    pub stretches: Vec<StretchInfo>,
+    /// The planned days.
+    pub days: Vec<DayPlan>,
+    /// Plan-wide notes.
+    pub notes: Vec<PlanNote>,
+}
+
+/// Why no plan could be made.
+#[derive(Debug, thiserror::Error)]
+pub enum PlanError {
+    /// Something in the scenario is missing or unknown.
+    #[error("{0}")]
+    Scenario(String),
+    /// The forecast could not be made.
+    #[error(transparent)]
+    Forecast(#[from] super::ForecastError),
+}
+
+/// What to rank, for whom.
+#[derive(Debug, Clone, Copy)]
+pub struct PlanRequest<'a> {
+    /// Scenario name, for the headings.
+    pub scenario_name: &'a str,
+    /// The drawn coast: segment names and closures.
+    pub coast: &'a [CoastSegment],
+    /// The boat.
+    pub vessel: &'a Vessel,
+    /// The home port (one of the ports the forecast was sampled for).
+    pub port: &'a Port,
+    /// Trip settings.
+    pub trip: &'a TripSettings,
+    /// First local day; today if the forecast covers it, else the day the newest
+    /// forecast was issued, else its first day.
+    pub from: Option<NaiveDate>,
+    /// Number of days.
+    pub days: usize,
+    /// "Now", for the default first day.
+    pub now: DateTime<Utc>,
+}
+
+/// The default first day: today when the forecast covers it; else the day the newest
+/// forecast was issued (earlier steps are the recent past, which the response needs);
+/// else the first day of the forecast.
+fn first_day(forecast: &Forecast, now: DateTime<Utc>) -> Option<NaiveDate> {
+    let tz = forecast.time_zone;
+    let covered = |d: &NaiveDate| forecast.days.contains(d);
+    Some(local_day(tz, now))
+        .filter(covered)
+        .or_else(|| {
+            forecast
+                .latest_reference
+                .map(|t| local_day(tz, t))
+                .filter(covered)
+        })
+        .or_else(|| forecast.days.first().copied())
+}
+
+/// Ranks the forecast's stretches for one boat and port, day by day. Fast: no file is
+/// read and nothing of the upwelling is computed again.
+pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, PlanError> {
+    let routes = forecast
+        .routes
+        .iter()
+        .find(|r| r.port == req.port.position)
+        .ok_or_else(|| {
+            PlanError::Scenario(format!(
+                "port {:?} was added after the forecast was read: read it again",
+                req.port.id
+            ))
+        })?;
+    let stretches: Vec<StretchInfo> = forecast
+        .stretches
+        .iter()
+        .enumerate()
+        .map(|(k, s)| {
+            let drawn = req.coast.iter().find(|c| c.id == s.segment_id);
+            let label = drawn.map_or(s.segment_id.as_str(), CoastSegment::label);
+            let (n, count) = s.part;
+            StretchInfo {
+                forecast: s.clone(),
+                name: if count > 1 {
+                    format!("{label} {}/{count}", n + 1)
+                } else {
+                    label.to_string()
+                },
+                closure: drawn.and_then(|c| c.closure.clone()),
+                distance_nm: routes.distance_nm[k],
+                crosses_land: routes.crosses_land[k],
+                route_max_wind_kt: routes.max_wind_kt[k].clone(),
+                timeline_start: forecast.timeline.first().copied(),
+            }
+        })
+        .collect();
+    let from = req
+        .from
+        .or_else(|| first_day(forecast, req.now))
+        .ok_or(PlanError::Forecast(super::ForecastError::NoWind))?;
+    let ranker = DayRanker {
+        tz: forecast.time_zone,
+        vessel: req.vessel,
+        trip: req.trip,
+        relaxation_window_days: forecast.settings.response.relaxation_window_days,
+    };
+    let days = (0..req.days.max(1))
+        .filter_map(|k| from.checked_add_days(chrono::Days::new(k as u64)))
+        .map(|d| ranker.rank_day(d, &stretches))
+        .collect();
+    let mut notes = vec![PlanNote::GreatCircleDistances];
+    if let Some(limit_m) = req.vessel.wave_limit_m {
+        notes.push(PlanNote::WaveLimitNotChecked { limit_m });
+    }
+    if stretches
+        .iter()
+        .any(|s| s.latitude == Latitude::NearEquator)
+    {
+        notes.push(PlanNote::NearEquator);
+    }
+    Ok(Plan {
+        scenario_name: req.scenario_name.to_string(),
+        time_zone: forecast.time_zone,
+        vessel: req.vessel.clone(),
+        port: req.port.clone(),
+        stretches,
+        days,
+        notes,
+    })
+}
+
+/// A lagged response at least this strong (0–1) is worth naming as the bloom following
+/// an event (a planning choice of this tool, not a published threshold).
+const LAGGED_BLOOM: f64 = 0.2;
+
+/// What ranking a day needs besides the stretches.
+struct DayRanker<'a> {
+    tz: Tz,
+    vessel: &'a Vessel,
+    trip: &'a TripSettings,
+    relaxation_window_days: f64,
+}
+
+impl DayRanker<'_> {
+    /// Ranks the stretches for one local day.
+    fn rank_day(&self, date: NaiveDate, stretches: &[StretchInfo]) -> DayPlan {
+        let mut ranked = Vec::new();
+        let mut excluded = Vec::new();
+        for (k, s) in stretches.iter().enumerate() {
+            match self.judge(date, s) {
+                Ok(mut r) => {
+                    r.stretch = k;
+                    ranked.push(r);
+                }
+                Err(exclusion) => excluded.push(Excluded {
+                    stretch: k,
+                    exclusion,
+                }),
+            }
+        }
+        ranked.sort_by(|x, y| y.score.total_cmp(&x.score).then(x.stretch.cmp(&y.stretch)));
+        self.mark_ties(&mut ranked);
+        DayPlan {
+            date,
+            ranked,
+            excluded,
+        }
+    }
+
+    /// A tie group is measured from its first member, so that a slow slide of scores
+    /// does not chain every stretch into one tie.
+    fn mark_ties(&self, ranked: &mut [RankedStretch]) {
+        let mut rank = 0;
+        let mut leader_score = f64::INFINITY;
+        for (i, r) in ranked.iter_mut().enumerate() {
+            let tied = i > 0 && (leader_score - r.score) < self.trip.tie_margin_points;
+            if !tied {
+                rank = i + 1;
+                leader_score = r.score;
+            }
+            r.rank = rank;
+            r.tied_with_above = tied;
+        }
+    }
+
+    /// The working hours of a day: wall-clock local times, the same on clock-change
+    /// days.
+    fn working_hours(&self, date: NaiveDate, s: &StretchInfo) -> Vec<WorkingHour> {
+        let start = local_time(self.tz, date, self.trip.day_start_hour);
+        let end = local_time(self.tz, date, self.trip.day_end_hour);
+        s.hours
+            .iter()
+            .filter(|h| h.time >= start && h.time < end)
+            .map(|h| (h.time, s.route_wind_kt(h.time)))
+            .collect()
+    }
+
+    /// Ranks one stretch on one day, or says why it is left out.
+    fn judge(&self, date: NaiveDate, s: &StretchInfo) -> Result<RankedStretch, Exclusion> {
+        let vessel = self.vessel;
+        if let Some(c) = s.closure.as_ref().filter(|c| c.applies_on(date)) {
+            return Err(Exclusion::Closed(c.clone()));
+        }
+        if s.latitude == Latitude::TooClose {
+            return Err(Exclusion::NearEquator {
+                lat_deg: s.centre.lat_deg,
+            });
+        }
+        if s.distance_nm > vessel.range_nm {
+            return Err(Exclusion::BeyondRange {
+                distance_nm: s.distance_nm,
+                range_nm: vessel.range_nm,
+            });
+        }
+        let working = self.working_hours(date, s);
+        let day = s
+            .day(date)
+            .filter(|d| d.mean_index_m3s_per_100m.is_some())
+            .ok_or(Exclusion::NoForecast)?;
+        if working.is_empty() {
+            return Err(Exclusion::NoForecast);
+        }
+        let max_wind_kt = working.iter().filter_map(|h| h.1).fold(0.0, f64::max);
+        let Some(run) = longest_safe_run(&working, vessel.wind_limit_kt) else {
+            return Err(never_safe(&working, vessel.wind_limit_kt));
+        };
+        let steam_h = s.distance_nm / vessel.cruise_speed_kt;
+        let window = run_span(&working, run);
+        let window_h = (run.1 - run.0 + 1) as f64;
+        let fishing_hours = window_h - 2.0 * steam_h;
+        if fishing_hours < self.trip.min_fishing_hours {
+            return Err(Exclusion::WindowTooShort {
+                window,
+                limit_kt: vessel.wind_limit_kt,
+                steam_h,
+                min_fishing_h: self.trip.min_fishing_hours,
+            });
+        }
+        let window_factor = (fishing_hours / self.trip.target_fishing_hours).min(1.0);
+        let distance_factor =
+            1.0 - self.trip.distance_weight * (s.distance_nm / vessel.range_nm).min(1.0);
+        let productivity = day.response.productivity.clamp(0.0, 1.0);
+        let trip = TripReason {
+            distance_nm: s.distance_nm,
+            steam_minutes: steam_h * 60.0,
+            fuel_l: 2.0 * steam_h * vessel.fuel_l_per_h,
+            crosses_land: s.crosses_land,
+        };
+        Ok(RankedStretch {
+            stretch: 0,
+            rank: 0,
+            tied_with_above: false,
+            score: 100.0 * productivity * window_factor * distance_factor,
+            productivity,
+            window_factor,
+            distance_factor,
+            safe_window: window,
+            fishing_hours,
+            steam_minutes: trip.steam_minutes,
+            fuel_l: trip.fuel_l,
+            max_wind_kt,
+            reasons: Reasons {
+                upwelling: self.upwelling_reason(s, day),
+                productivity,
+                wind: wind_reason(&working, window, vessel.wind_limit_kt, max_wind_kt),
+                trip,
+                near_equator_lat_deg: (s.latitude == Latitude::NearEquator)
+                    .then_some(s.centre.lat_deg),
+            },
+        })
+    }
+
+    /// What the upwelling did, from the day's phase in the events: the same phase and
+    /// relaxation window the response model scored.
+    fn upwelling_reason(&self, s: &StretchForecast, day: &UpwellingDay) -> UpwellingReason {
+        let mean = day.mean_index_m3s_per_100m.unwrap_or(0.0);
+        match day.phase {
+            EventPhase::During { event, age_days } => {
+                if day.response.useful < 0.4 && mean > 0.0 {
+                    UpwellingReason::Flushing {
+                        age_days,
+                        peak_m3s_per_100m: s.events[event].peak_m3s_per_100m,
+                    }
+                } else {
+                    UpwellingReason::Building { age_days }
+                }
+            }
+            EventPhase::After { event, days_since }
+                if days_since <= self.relaxation_window_days =>
+            {
+                UpwellingReason::BloomExpected {
+                    length_days: s.events[event].duration_h / 24.0,
+                    ended: s.events[event].end,
+                }
+            }
+            EventPhase::After { event, .. } if day.response.lagged >= LAGGED_BLOOM => {
+                UpwellingReason::Lagged {
+                    length_days: s.events[event].duration_h / 24.0,
+                    ended: s.events[event].end,
+                }
+            }
+            _ if mean < 0.0 => UpwellingReason::Downwelling {
+                mean_m3s_per_100m: mean,
+            },
+            EventPhase::After { .. } => UpwellingReason::Fading {
+                window_days: self.relaxation_window_days,
+            },
+            EventPhase::Quiet => UpwellingReason::NoEvent,
+        }
+    }
+}
+
+/// Why no hour of the day is safe.
+fn never_safe(working: &[WorkingHour], limit_kt: f64) -> Exclusion {
+    let worst = working.iter().filter_map(|h| h.1.map(|w| (h.0, w))).fold(
+        None,
+        |m: Option<(DateTime<Utc>, f64)>, x| match m {
+            Some(m) if m.1 >= x.1 => Some(m),
+            _ => Some(x),
+        },
+    );
+    match worst {
+        None => Exclusion::NoRouteForecast,
+        Some((at, max_wind_kt)) => Exclusion::OverWindLimit {
+            max_wind_kt,
+            at,
+            limit_kt,
+        },
+    }
+}
+
+/// What the wind allows around the safe window.
+fn wind_reason(
+    working: &[WorkingHour],
+    (from, to): (DateTime<Utc>, DateTime<Utc>),
+    limit_kt: f64,
+    max_wind_kt: f64,
+) -> WindReason {
+    let over = |h: &&WorkingHour| h.1.is_none_or(|w| w > limit_kt);
+    if let Some(h) = working.iter().filter(over).find(|h| h.0 >= to) {
+        return WindReason::OverAfter {
+            at: h.0,
+            wind_kt: h.1,
+            until: to,
+            limit_kt,
+        };
+    }
+    if let Some(h) = working.iter().filter(over).rev().find(|h| h.0 < from) {
+        return WindReason::OverUntil {
+            at: h.0,
+            wind_kt: h.1,
+            from,
+            limit_kt,
+        };
+    }
+    WindReason::UnderAllDay {
+        limit_kt,
+        max_wind_kt,
+    }
+}

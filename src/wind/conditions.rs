@@ -1,0 +1,395 @@
+//! Conditions: every wind source sampled once at the points the coast needs, by one
+//! coverage rule shared by `index`, `plan` and `season`.
+//!
+//! Points come in groups that must take their wind from one source: the piece midpoints
+//! of a segment or stretch, the four pumping probes offshore of a stretch, a point on the
+//! way from port. A source covers a group when
+//! - it is a grid with values at every point of the group at every step;
+//! - it is a point series without a position (it applies everywhere);
+//! - it is a point series with a position, and it is the nearest of the positioned
+//!   series given to the group's anchor.
+//!
+//! Groups that need spatial differences (Ekman pumping) take grids only: two stations'
+//! winds differ for reasons that have nothing to do with a wind-stress curl.
+//!
+//! A forecast takes, for each group, the first source that covers it
+//! ([`sample_conditions`]); a long record takes every source that covers it, joined in
+//! time, the first source winning where two give the same time ([`sample_merged`]).
+
+use super::{WindError, WindFileError, WindSource, sample_grib2_with};
+use crate::coast::{LatLon, distance_m};
+use crate::physics::Wind;
+use crate::progress::Progress;
+use chrono::{DateTime, Utc};
+use rayon::prelude::*;
+use std::collections::BTreeMap;
+use std::hash::{Hash, Hasher};
+use std::path::{Path, PathBuf};
+use std::sync::Arc;
+use std::time::SystemTime;
+
+/// Points that must take their wind from one source.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PointGroup {
+    /// Points that must all be covered.
+    pub points: Vec<LatLon>,
+    /// A point sampled from the same source when that source covers it (a segment's
+    /// length-weighted midpoint); it does not decide coverage.
+    pub extra: Option<LatLon>,
+    /// Where the nearest-station rule measures from.
+    pub anchor: LatLon,
+    /// Only gridded sources may cover the group.
+    pub grids_only: bool,
+}
+
+impl PointGroup {
+    /// A group of points measured from `anchor`, with an optional extra point.
+    #[must_use]
+    pub fn new(points: Vec<LatLon>, anchor: LatLon, extra: Option<LatLon>) -> Self {
+        Self {
+            points,
+            extra,
+            anchor,
+            grids_only: false,
+        }
+    }
+
+    /// A single point.
+    #[must_use]
+    pub fn point(p: LatLon) -> Self {
+        Self::new(vec![p], p, None)
+    }
+}
+
+/// The wind one group gets.
+#[derive(Debug, Clone, PartialEq)]
+pub struct GroupWind {
+    /// Index of the first source used, in the list given.
+    pub source: usize,
+    /// Valid times, UTC, increasing (shared by every group read from the same file).
+    pub times: Arc<[DateTime<Utc>]>,
+    /// For each point of the group, the wind at each time.
+    pub points: Vec<Vec<Wind>>,
+    /// The wind at the extra point at each time, where the source covers it.
+    pub extra: Option<Vec<Wind>>,
+}
+
+/// The wind of every group.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Conditions {
+    /// For each group, its wind, or `None` where no source covers it.
+    pub groups: Vec<Option<GroupWind>>,
+    /// The latest reference (issue) time among the GRIB2 files used, if any.
+    pub latest_reference: Option<DateTime<Utc>>,
+}
+
+/// What identifies a source file's contents without reading it: its path, size and
+/// modification time. A file whose identity is unchanged is not read again.
+#[derive(Debug, Clone, PartialEq, Eq, Hash)]
+pub struct SourceIdentity {
+    /// The file.
+    pub path: PathBuf,
+    /// Its size, bytes.
+    pub len: u64,
+    /// Its modification time.
+    pub modified: Option<SystemTime>,
+}
+
+impl SourceIdentity {
+    /// The identity of a file now.
+    pub fn of(path: &Path) -> Result<Self, WindError> {
+        let meta = std::fs::metadata(path).map_err(|e| WindError::File {
+            path: path.to_path_buf(),
+            source: e.into(),
+        })?;
+        Ok(Self {
+            path: path.to_path_buf(),
+            len: meta.len(),
+            modified: meta.modified().ok(),
+        })
+    }
+}
+
+/// A fingerprint of the groups' geometry, to tell whether sampled conditions still fit.
+#[must_use]
+pub fn groups_fingerprint(groups: &[PointGroup]) -> u64 {
+    let mut h = std::collections::hash_map::DefaultHasher::new();
+    let point = |p: &LatLon, h: &mut std::collections::hash_map::DefaultHasher| {
+        p.lat_deg.to_bits().hash(h);
+        p.lon_deg.to_bits().hash(h);
+    };
+    for g in groups {
+        g.points.len().hash(&mut h);
+        for p in &g.points {
+            point(p, &mut h);
+        }
+        if let Some(p) = &g.extra {
+            point(p, &mut h);
+        }
+        point(&g.anchor, &mut h);
+        g.grids_only.hash(&mut h);
+    }
+    h.finish()
+}
+
+/// One source's wind at a list of points.
+struct SourceSamples {
+    times: Vec<DateTime<Utc>>,
+    /// Per point; for a point series every point has the series.
+    points: Vec<Option<Vec<Wind>>>,
+    latest_reference: Option<DateTime<Utc>>,
+}
+
+fn read_source(
+    source: &WindSource,
+    points: &[LatLon],
+    progress: &Progress,
+) -> Result<SourceSamples, WindError> {
+    match source {
+        WindSource::Series { series, .. } => Ok(SourceSamples {
+            times: series.series.times.clone(),
+            points: vec![Some(series.series.wind.clone()); points.len()],
+            latest_reference: None,
+        }),
+        WindSource::Grib2 { path } => {
+            let bad = |source: WindFileError| WindError::File {
+                path: path.clone(),
+                source,
+            };
+            let file = std::fs::File::open(path).map_err(|e| bad(e.into()))?;
+            let s = sample_grib2_with(
+                std::io::BufReader::with_capacity(1 << 16, file),
+                points,
+                progress,
+            )
+            .map_err(bad)?;
+            Ok(SourceSamples {
+                times: s.times,
+                points: s.points,
+                latest_reference: s.latest_reference,
+            })
+        }
+    }
+}
+
+/// For an anchor, the index of the nearest source that is a point series with a
+/// station position (`None` when there is none).
+fn nearest_station_of(sources: &[WindSource]) -> impl Fn(LatLon) -> Option<usize> + '_ {
+    let stations: Vec<(usize, LatLon)> = sources
+        .iter()
+        .enumerate()
+        .filter_map(|(k, s)| match s {
+            WindSource::Series { series, .. } => series.position.map(|p| (k, p)),
+            WindSource::Grib2 { .. } => None,
+        })
+        .collect();
+    move |p: LatLon| {
+        stations
+            .iter()
+            .min_by(|a, b| distance_m(a.1, p).total_cmp(&distance_m(b.1, p)))
+            .map(|s| s.0)
+    }
+}
+
+/// The points of groups laid end to end: each group's points, then its extra point.
+fn flatten(groups: &[&PointGroup]) -> Vec<LatLon> {
+    groups
+        .iter()
+        .flat_map(|g| g.points.iter().copied().chain(g.extra))
+        .collect()
+}
+
+/// A covered group's wind: at each of its points, and at its extra point.
+type CoveredWind = (Vec<Vec<Wind>>, Option<Vec<Wind>>);
+
+/// The one coverage rule: the wind source `k` gives group `g`, whose points' samples
+/// from that source are `samples` (its points, then its extra point), or `None`.
+fn cover(
+    sources: &[WindSource],
+    k: usize,
+    g: &PointGroup,
+    samples: &mut dyn Iterator<Item = Option<Vec<Wind>>>,
+    nearest_station: &dyn Fn(LatLon) -> Option<usize>,
+) -> Option<CoveredWind> {
+    let at_points: Vec<Option<Vec<Wind>>> = (&mut *samples).take(g.points.len()).collect();
+    let extra = if g.extra.is_some() {
+        samples.next().flatten()
+    } else {
+        None
+    };
+    let allowed = match &sources[k] {
+        WindSource::Series { series, .. } => {
+            !g.grids_only && (series.position.is_none() || nearest_station(g.anchor) == Some(k))
+        }
+        WindSource::Grib2 { .. } => true,
+    };
+    if !allowed {
+        return None;
+    }
+    let at_points: Option<Vec<Vec<Wind>>> = at_points.into_iter().collect();
+    at_points.map(|p| (p, extra))
+}
+
+/// Samples the sources at the groups' points: each group takes its wind from the first
+/// source that covers it. GRIB2 files are read one after the other, each only for the
+/// groups still without wind; `progress` follows each file and can stop the reading.
+pub fn sample_conditions(
+    sources: &[WindSource],
+    groups: &[PointGroup],
+    progress: &Progress,
+) -> Result<Conditions, WindError> {
+    let nearest_station = nearest_station_of(sources);
+    let mut out = Conditions {
+        groups: vec![None; groups.len()],
+        latest_reference: None,
+    };
+    for k in 0..sources.len() {
+        let pending: Vec<usize> = (0..groups.len())
+            .filter(|&g| out.groups[g].is_none())
+            .collect();
+        if pending.is_empty() {
+            break;
+        }
+        let pending_groups: Vec<&PointGroup> = pending.iter().map(|&g| &groups[g]).collect();
+        let read = read_source(&sources[k], &flatten(&pending_groups), progress)?;
+        if let Some(t) = read.latest_reference {
+            out.latest_reference = Some(out.latest_reference.map_or(t, |x| x.max(t)));
+        }
+        let times: Arc<[DateTime<Utc>]> = read.times.into();
+        let mut samples = read.points.into_iter();
+        for (g, group) in pending.into_iter().zip(pending_groups) {
+            if let Some((points, extra)) = cover(sources, k, group, &mut samples, &nearest_station)
+            {
+                out.groups[g] = Some(GroupWind {
+                    source: k,
+                    times: times.clone(),
+                    points,
+                    extra,
+                });
+            }
+        }
+    }
+    Ok(out)
+}
+
+/// Samples a long record: every source is read (in parallel) at every group's points,
+/// and each group takes the union in time of every source that covers it; where two
+/// sources give the same time, the one given first wins. `progress` counts files read.
+pub fn sample_merged(
+    sources: &[WindSource],
+    groups: &[PointGroup],
+    progress: &Progress,
+) -> Result<Conditions, WindError> {
+    if sources.is_empty() {
+        return Err(WindError::NoFiles);
+    }
+    let all: Vec<&PointGroup> = groups.iter().collect();
+    let points = flatten(&all);
+    let done = std::sync::atomic::AtomicUsize::new(0);
+    let per_file: Vec<Result<SourceSamples, WindError>> = sources
+        .par_iter()
+        .map(|source| {
+            if progress.is_cancelled() {
+                return Err(WindError::File {
+                    path: source.path().to_path_buf(),
+                    source: WindFileError::Cancelled,
+                });
+            }
+            let r = read_source(source, &points, &Progress::new());
+            let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
+            progress.set(n as f32 / sources.len() as f32);
+            r
+        })
+        .collect();
+    let per_file: Vec<SourceSamples> = per_file.into_iter().collect::<Result<_, _>>()?;
+    let nearest_station = nearest_station_of(sources);
+    let mut cursors: Vec<_> = per_file.iter().map(|f| f.points.iter().cloned()).collect();
+    let mut out = Conditions {
+        groups: Vec::with_capacity(groups.len()),
+        latest_reference: per_file.iter().filter_map(|f| f.latest_reference).max(),
+    };
+    for group in groups {
+        // time → (point winds, extra wind), the first file giving a time wins.
+        let mut merged: BTreeMap<DateTime<Utc>, (Vec<Wind>, Option<Wind>)> = BTreeMap::new();
+        let mut first = None;
+        for (k, file) in per_file.iter().enumerate() {
+            let Some((points, extra)) = cover(sources, k, group, &mut cursors[k], &nearest_station)
+            else {
+                continue;
+            };
+            first.get_or_insert(k);
+            for (i, t) in file.times.iter().enumerate() {
+                merged.entry(*t).or_insert_with(|| {
+                    (
+                        points.iter().map(|w| w[i]).collect(),
+                        extra.as_ref().map(|w| w[i]),
+                    )
+                });
+            }
+        }
+        out.groups.push(first.map(|source| {
+            let n = group.points.len();
+            let mut times = Vec::with_capacity(merged.len());
+            let mut g = GroupWind {
+                source,
+                times: Arc::from([]),
+                points: vec![Vec::with_capacity(merged.len()); n],
+                extra: group.extra.map(|_| Vec::with_capacity(merged.len())),
+            };
+            for (t, (at_points, at_extra)) in merged {
+                times.push(t);
+                for (p, w) in g.points.iter_mut().zip(at_points) {
+                    p.push(w);
+                }
+                // The extra point keeps a value only where every time has one.
+                match (&mut g.extra, at_extra) {
+                    (Some(e), Some(w)) => e.push(w),
+                    (e @ Some(_), None) => *e = None,
+                    _ => {}
+                }
+            }
+            g.times = times.into();
+            g
+        }));
+    }
+    Ok(out)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::wind::{PointSeries, WindSeries};
+
+    fn station(position: Option<LatLon>, u: f64) -> WindSource {
+        let t = DateTime::parse_from_rfc3339("2027-05-01T00:00:00Z")
+            .expect("valid")
+            .to_utc();
+        WindSource::Series {
+            path: PathBuf::from("s.csv"),
+            series: PointSeries {
+                position,
+                series: WindSeries {
+                    times: vec![t],
+                    wind: vec![Wind::new(u, 0.0)],
+                },
+            },
+        }
+    }
+
+    /// A group takes the nearest station; a pumping group takes no station at all.
+    #[test]
+    fn nearest_station_and_grids_only() {
+        let sources = [
+            station(Some(LatLon::new(36.0, -122.0)), 1.0),
+            station(Some(LatLon::new(38.0, -122.0)), 2.0),
+        ];
+        let near_north = PointGroup::point(LatLon::new(37.9, -122.1));
+        let mut probes = PointGroup::point(LatLon::new(36.1, -122.1));
+        probes.grids_only = true;
+        let c = sample_conditions(&sources, &[near_north, probes], &Progress::new())
+            .expect("stations read");
+        let g = c.groups[0].as_ref().expect("covered");
+        assert_eq!((g.source, g.points[0][0].u_m_s), (1, 2.0));
+        assert!(c.groups[1].is_none());
+    }
+}
