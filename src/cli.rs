@@ -9,7 +9,8 @@ use crate::export::{
 use crate::physics::DragChoice;
 use crate::plan::{ForecastError, PlanError};
 use crate::scenario::{
-    PlanChoice, Scenario, ScenarioError, is_scenario_text, load_scenario, plan_scenario,
+    PlanChoice, Scenario, ScenarioError, is_scenario_text, parse_scenario, plan_scenario,
+    segment_names,
 };
 use crate::upwelling::{IndexSettings, UpwellingError, index_series};
 use crate::wind::{WindError, assign_wind, load_sources};
@@ -97,39 +98,40 @@ fn parse_percent(s: &str) -> Result<f64, String> {
 /// `shelfwind season`: season metrics per segment and year, and the climatology.
 pub fn run_season(args: &SeasonArgs) -> Result<(), CliError> {
     use crate::export::{SeasonFormat, render_seasons};
-    use crate::upwelling::{CoverageSettings, analyse_segments};
+    use crate::upwelling::{CoverageSettings, RecordError, RecordSettings, analyse_record};
     let coast = load_coast(&args.scenario)?;
     let sources = load_sources(&args.wind)?;
-    let winds = crate::wind::assign_wind_merged(
-        &sources,
-        &coast.segments,
-        &crate::progress::Progress::new(),
-    )?;
     let settings = coast
         .scenario
         .as_ref()
         .map(|s| s.settings.clone())
         .unwrap_or_default();
-    let coverage = CoverageSettings {
-        min_year: args
-            .min_coverage
-            .map_or(settings.seasons.min_year, |p| p / 100.0),
-        ..settings.seasons
+    let record = RecordSettings {
+        index: settings.index,
+        events: settings.events,
+        coverage: CoverageSettings {
+            min_year: args
+                .min_coverage
+                .map_or(settings.seasons.min_year, |p| p / 100.0),
+            ..settings.seasons
+        },
+        years: match (args.from, args.to) {
+            (None, None) => None,
+            (from, to) => Some((from.unwrap_or(i32::MIN), to.unwrap_or(i32::MAX))),
+        },
     };
-    let years = match (args.from, args.to) {
-        (None, None) => None,
-        (from, to) => Some((from.unwrap_or(i32::MIN), to.unwrap_or(i32::MAX))),
-    };
-    let mut series = Vec::with_capacity(coast.segments.len());
-    for (seg, wind) in coast.segments.iter().zip(&winds) {
-        let name = coast
-            .scenario
-            .as_ref()
-            .and_then(|s| s.segments.iter().find(|c| c.id == seg.id))
-            .map_or_else(|| seg.id.clone(), |c| c.label().to_string());
-        series.push((name, index_series(seg, wind, &settings.index)?));
-    }
-    let out = analyse_segments(&series, years, &coverage, &settings.events);
+    let names = segment_names(coast.scenario.as_ref(), &coast.segments);
+    let out = analyse_record(
+        &coast.segments,
+        &names,
+        &sources,
+        &record,
+        &crate::progress::Progress::new(),
+    )
+    .map_err(|e| match e {
+        RecordError::Wind(w) => CliError::Wind(w),
+        RecordError::Upwelling(u) => CliError::Upwelling(u),
+    })?;
     let format = match args.format {
         SeasonFormatArg::Table => SeasonFormat::Table,
         SeasonFormatArg::Csv => SeasonFormat::Csv,
@@ -303,25 +305,35 @@ pub struct IndexArgs {
     pub out: Option<PathBuf>,
 }
 
-fn parse_density(s: &str, lo: f64, hi: f64, what: &str) -> Result<f64, String> {
+fn parse_density(
+    s: &str,
+    range: &std::ops::RangeInclusive<f64>,
+    what: &str,
+) -> Result<f64, String> {
     let x: f64 = s
         .parse()
         .map_err(|_| format!("{what} {s:?} is not a number"))?;
-    if x.is_finite() && (lo..=hi).contains(&x) {
+    if x.is_finite() && range.contains(&x) {
         Ok(x)
     } else {
         Err(format!(
-            "{what} {s} kg/m^3 is out of range: expected {lo} to {hi}"
+            "{what} {s} kg/m^3 is out of range: expected {} to {}",
+            range.start(),
+            range.end()
         ))
     }
 }
 
 fn parse_rho_air(s: &str) -> Result<f64, String> {
-    parse_density(s, 0.5, 2.0, "air density")
+    parse_density(s, &crate::physics::RHO_AIR_RANGE_KG_M3, "air density")
 }
 
 fn parse_rho_water(s: &str) -> Result<f64, String> {
-    parse_density(s, 950.0, 1100.0, "sea-water density")
+    parse_density(
+        s,
+        &crate::physics::RHO_WATER_RANGE_KG_M3,
+        "sea-water density",
+    )
 }
 
 /// Everything that can stop a command.
@@ -407,7 +419,10 @@ pub fn load_coast(path: &Path) -> Result<LoadedCoast, CliError> {
     })?;
     let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
     let (drawn, scenario) = if is_scenario_text(&text) {
-        let scenario = load_scenario(path)?;
+        let scenario = parse_scenario(&text).map_err(|source| ScenarioError::File {
+            path: path.into(),
+            source: Box::new(source),
+        })?;
         (scenario.segments.clone(), Some(scenario))
     } else {
         let drawn = read_coast_geojson(&text).map_err(|source| CliError::Coast {

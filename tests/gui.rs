@@ -51,6 +51,21 @@ fn wait_for_plan(harness: &mut Harness<'static, ShelfwindApp>) {
     harness.run_steps(3);
 }
 
+/// Steps the app until `done` holds (background work ends between frames).
+fn wait_until(
+    harness: &mut Harness<'static, ShelfwindApp>,
+    what: &str,
+    done: impl Fn(&ShelfwindApp) -> bool,
+) {
+    let start = Instant::now();
+    while !done(harness.state()) {
+        harness.step();
+        assert!(start.elapsed() < Duration::from_mins(2), "never: {what}");
+        std::thread::sleep(Duration::from_millis(20));
+    }
+    harness.run_steps(2);
+}
+
 /// Types into the path field of the file dialog (focus first, then the text).
 fn type_path(harness: &mut Harness<'static, ShelfwindApp>, text: &str) {
     harness
@@ -219,16 +234,20 @@ fn save_then_reopen_gives_the_same_scenario() {
     harness.run_steps(3);
     type_path(&mut harness, path.to_str().expect("utf-8"));
     harness.get_by_label("Save here").click();
-    harness.run_steps(3);
+    harness.run_steps(1);
+    wait_until(&mut harness, "saved", |a| !a.is_busy());
     assert!(!harness.state().doc.dirty);
     let saved = harness.state().doc.scenario.clone();
     harness.state_mut().send(shelfwind::app::Command::OpenDemo);
-    harness.run_steps(2);
+    harness.run_steps(1);
+    wait_until(&mut harness, "the demo", |a| !a.is_busy());
+    assert_eq!(harness.state().doc.path, None);
     harness.state_mut().send(shelfwind::app::Command::File(
         shelfwind::app::FileAction::OpenScenario,
         path.clone(),
     ));
-    harness.run_steps(2);
+    harness.run_steps(1);
+    wait_until(&mut harness, "the saved scenario", |a| a.doc.path.is_some());
     assert_eq!(harness.state().doc.path.as_deref(), Some(path.as_path()));
     assert_eq!(harness.state().doc.scenario, saved);
     wait_for_plan(&mut harness);
@@ -307,11 +326,133 @@ fn season_view_analyses_a_record_and_exports_the_table() {
         out.to_str().expect("utf-8")
     );
     harness.get_by_label("Table (CSV)").click_accesskit();
-    harness.run_steps(2);
+    wait_until(&mut harness, "the table written", |a| {
+        a.season.message.is_some()
+    });
     let written = std::fs::read_to_string(&out).expect("exported");
     assert_eq!(
         written.lines().count(),
         1 + 12 * 3,
         "two seasons and a climatology row per segment"
+    );
+}
+
+/// Replaces the text of a labelled single-line field: focus, select all, type, Enter.
+fn retype(harness: &mut Harness<'static, ShelfwindApp>, label: &str, text: &str) {
+    harness
+        .get_by_role_and_label(egui::accesskit::Role::TextInput, label)
+        .focus();
+    harness.run_steps(2);
+    harness.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
+    harness.run_steps(1);
+    harness
+        .get_by_role_and_label(egui::accesskit::Role::TextInput, label)
+        .type_text(text);
+    harness.run_steps(2);
+    harness.key_press(egui::Key::Enter);
+    harness.run_steps(2);
+}
+
+fn field_value(
+    harness: &Harness<'static, ShelfwindApp>,
+    role: egui::accesskit::Role,
+    label: &str,
+) -> String {
+    harness
+        .get_by_role_and_label(role, label)
+        .value()
+        .unwrap_or_default()
+}
+
+/// Typing into every field of the segment editor keeps what was typed: in the
+/// document after two frames, in the field on screen, and in the ranked list after the
+/// re-rank; undo brings the old name back into the field.
+#[test]
+fn typing_in_the_segment_editor_keeps_the_text() {
+    use egui::accesskit::Role;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let seg = |a: &ShelfwindApp, id: &str| {
+        a.doc
+            .scenario
+            .segments
+            .iter()
+            .find(|s| s.id == id)
+            .cloned()
+            .expect("segment")
+    };
+    let id = harness.state().doc.scenario.segments[0].id.clone();
+    let old_name = seg(harness.state(), &id).name;
+    let old_notes = seg(harness.state(), &id).notes;
+    harness
+        .state_mut()
+        .send(shelfwind::app::Command::EditSegment(Some(id.clone())));
+    harness.run_steps(3);
+    assert_eq!(
+        field_value(&harness, Role::TextInput, "Segment name"),
+        old_name
+    );
+    retype(&mut harness, "Segment name", "Gannet Reach");
+    assert_eq!(seg(harness.state(), &id).name, "Gannet Reach");
+    assert_eq!(
+        field_value(&harness, Role::TextInput, "Segment name"),
+        "Gannet Reach"
+    );
+    // Notes: multi-line; focus moves away with a click on the name field.
+    harness
+        .get_by_role_and_label(Role::MultilineTextInput, "Notes")
+        .focus();
+    harness.run_steps(2);
+    harness
+        .get_by_role_and_label(Role::MultilineTextInput, "Notes")
+        .type_text("kelp edge, mind the pots");
+    harness.run_steps(2);
+    harness
+        .get_by_role_and_label(Role::TextInput, "Segment name")
+        .focus();
+    harness.run_steps(2);
+    assert_eq!(
+        seg(harness.state(), &id).notes,
+        format!("{old_notes}kelp edge, mind the pots")
+    );
+    // A seasonal closure with its reason and dates.
+    harness.get_by_label("Closed to fishing").click();
+    harness.run_steps(3);
+    retype(&mut harness, "Reason for the closure", "spawning season");
+    retype(&mut harness, "Closed from", "2027-05-01");
+    retype(&mut harness, "to", "2027-06-30");
+    let c = seg(harness.state(), &id).closure.expect("closed");
+    assert_eq!(c.reason, "spawning season");
+    assert_eq!(c.from.map(|d| d.to_string()).as_deref(), Some("2027-05-01"));
+    assert_eq!(c.to.map(|d| d.to_string()).as_deref(), Some("2027-06-30"));
+    // A bad date is refused next to the field, and the closure keeps its dates.
+    retype(&mut harness, "to", "30/06/2027");
+    harness.get_by_label("\"30/06/2027\" is not a date: expected YYYY-MM-DD, e.g. 2027-05-31");
+    let c = seg(harness.state(), &id).closure.expect("closed");
+    assert_eq!(c.to.map(|d| d.to_string()).as_deref(), Some("2027-06-30"));
+    // The new name reaches the plan; undo goes back one edit at a time (to, from,
+    // reason, closed, notes, name) and the fields follow.
+    wait_for_plan(&mut harness);
+    let plan = harness.state().plan.clone().expect("plan");
+    assert!(
+        plan.stretches
+            .iter()
+            .any(|s| s.name.starts_with("Gannet Reach"))
+    );
+    let undo = |harness: &mut Harness<'static, ShelfwindApp>, n: usize| {
+        for _ in 0..n {
+            harness.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+            harness.run_steps(2);
+        }
+    };
+    undo(&mut harness, 4);
+    assert_eq!(seg(harness.state(), &id).closure, None);
+    assert_eq!(seg(harness.state(), &id).name, "Gannet Reach");
+    undo(&mut harness, 2);
+    assert_eq!(seg(harness.state(), &id).notes, old_notes);
+    assert_eq!(seg(harness.state(), &id).name, old_name);
+    assert_eq!(
+        field_value(&harness, Role::TextInput, "Segment name"),
+        old_name
     );
 }

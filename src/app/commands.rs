@@ -219,7 +219,7 @@ impl ShelfwindApp {
                 Some(path) => self.file_action(FileAction::SaveScenarioAs, &path, ctx),
                 None => self.ask_file(FileAction::SaveScenarioAs),
             },
-            Command::OpenDemo => self.open_demo(),
+            Command::OpenDemo => self.open_demo(ctx),
             Command::Recover => self.recover(),
             Command::DiscardRecovery => self.discard_recovery(),
             Command::CancelJob => {

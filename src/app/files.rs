@@ -5,10 +5,14 @@
 use super::commands::{Command, FileAction};
 use super::edit::Edit;
 use super::state::{AppOptions, ShelfwindApp};
+use super::tasks::Task;
 use crate::atomic::write_atomic;
-use crate::coast::{read_coast_geojson, write_coast_geojson};
+use crate::coast::{CoastSegment, read_coast_geojson, write_coast_geojson};
 use crate::export::{PlanFormat, render_plan};
-use crate::scenario::{load_scenario, parse_scenario, save_scenario, scenario_to_json, write_demo};
+use crate::scenario::{
+    Scenario, demo_scenario, load_scenario, parse_scenario, save_scenario, scenario_to_json,
+    write_demo,
+};
 use eframe::egui;
 use std::path::{Path, PathBuf};
 use std::sync::mpsc::{Receiver, channel};
@@ -61,41 +65,134 @@ pub(super) fn find_recovery(options: &AppOptions, _current: Option<&Path>) -> Op
     })
 }
 
+/// What a file task gives back; applied on the UI thread when it arrives.
+pub enum FileOutcome {
+    /// A scenario to work on: read from a file, or the bundled demo written out.
+    Opened {
+        /// The scenario.
+        scenario: Scenario,
+        /// Its file (none for the demo).
+        path: Option<PathBuf>,
+        /// The folder its wind files are read against.
+        base_dir: PathBuf,
+        /// Something to tell the user (a file that could not be opened instead).
+        note: Option<String>,
+    },
+    /// Coast segments read from a GeoJSON file.
+    Coast(Vec<CoastSegment>),
+    /// The scenario as saved to `path` (wind files relative to it).
+    Saved {
+        /// The scenario as written.
+        scenario: Scenario,
+        /// Where.
+        path: PathBuf,
+    },
+    /// A file was written: what to tell the user.
+    Written(String),
+}
+
+/// A file task's result: the outcome, or what went wrong (nothing has changed).
+pub type FileResult = Result<FileOutcome, String>;
+
+/// Where the demo's files go: the app's folder, or a temporary one.
+fn demo_dir(options: &AppOptions) -> PathBuf {
+    match &options.storage_dir {
+        Some(d) => d.join("demo"),
+        None => std::env::temp_dir().join(format!("shelfwind-demo-{}", std::process::id())),
+    }
+}
+
+/// Writes the demo's files (the forecast is made here) and returns the demo scenario.
+fn write_demo_files(dir: PathBuf, note: Option<String>) -> FileResult {
+    let scenario = demo_scenario().map_err(|e| format!("the bundled demo cannot be read: {e}"))?;
+    write_demo(&dir)
+        .map_err(|e| format!("cannot write the demo forecast to {}: {e}", dir.display()))?;
+    Ok(FileOutcome::Opened {
+        scenario,
+        path: None,
+        base_dir: dir,
+        note,
+    })
+}
+
+/// Reads a scenario file.
+fn read_scenario_file(path: PathBuf) -> FileResult {
+    let scenario = load_scenario(&path)
+        .map_err(|e| format!("The scenario was not opened; nothing changed.\n\n{e}"))?;
+    let base_dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
+    Ok(FileOutcome::Opened {
+        scenario,
+        path: Some(path),
+        base_dir,
+        note: None,
+    })
+}
+
+/// Reads a GeoJSON coast.
+fn read_coast_file(path: &Path) -> FileResult {
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| format!("The coast was not imported: {e}: {}", path.display()))?;
+    read_coast_geojson(&text)
+        .map(FileOutcome::Coast)
+        .map_err(|e| {
+            format!(
+                "The coast was not imported; nothing changed.\n\n{e}: {}",
+                path.display()
+            )
+        })
+}
+
+/// Writes bytes made by `make` to `path`, whole or not at all.
+fn write_file(path: &Path, make: impl FnOnce() -> String, done: &str) -> FileResult {
+    write_atomic(path, make().as_bytes())
+        .map(|()| FileOutcome::Written(format!("{done} {}", path.display())))
+        .map_err(|e| format!("cannot write {}: {e}", path.display()))
+}
+
 impl ShelfwindApp {
     /// The folder relative wind files are read against.
     pub(super) fn base_dir(&self) -> PathBuf {
         self.doc.base_dir.clone()
     }
 
-    /// Opens the bundled demo (its forecast written to the app's folder, or a temporary
-    /// one, so it can be read like any other file).
-    pub(super) fn open_demo(&mut self) {
-        let dir = match &self.options.storage_dir {
-            Some(d) => d.join("demo"),
-            None => std::env::temp_dir().join(format!("shelfwind-demo-{}", std::process::id())),
-        };
-        match (crate::scenario::demo_scenario(), write_demo(&dir)) {
-            (Ok(scenario), Ok(_)) => {
-                self.replace_document(scenario, None, dir);
-            }
-            (Err(e), _) => {
-                self.dialogs.error = Some(format!("the bundled demo cannot be read: {e}"));
-            }
-            (_, Err(e)) => {
-                self.dialogs.error = Some(format!(
-                    "cannot write the demo forecast to {}: {e}",
-                    dir.display()
-                ));
-            }
+    /// Runs file work in the background; one file task at a time.
+    fn start_file_task(
+        &mut self,
+        name: &str,
+        ctx: &egui::Context,
+        work: impl FnOnce() -> FileResult + Send + 'static,
+    ) {
+        if let Some(t) = &self.file_task {
+            self.dialogs.error = Some(format!(
+                "Still busy with the last file ({}): try again in a moment.",
+                t.name
+            ));
+            return;
+        }
+        match Task::spawn(name, ctx, work) {
+            Ok(t) => self.file_task = Some(t),
+            Err(e) => self.dialogs.error = Some(e),
         }
     }
 
-    fn replace_document(
-        &mut self,
-        scenario: crate::scenario::Scenario,
-        path: Option<PathBuf>,
-        base_dir: PathBuf,
-    ) {
+    /// Opens the bundled demo (its forecast written to the app's folder, or a temporary
+    /// one, so it can be read like any other file).
+    pub(super) fn open_demo(&mut self, ctx: &egui::Context) {
+        let dir = demo_dir(&self.options);
+        self.start_file_task("demo", ctx, move || write_demo_files(dir, None));
+    }
+
+    /// Opens a scenario at start: the file asked for, or the demo when it cannot be
+    /// read (saying why).
+    pub(super) fn open_at_start(&mut self, ctx: &egui::Context, path: Option<PathBuf>) {
+        let dir = demo_dir(&self.options);
+        self.start_file_task("opening", ctx, move || match path {
+            Some(p) => read_scenario_file(p).or_else(|e| write_demo_files(dir, Some(e))),
+            None => write_demo_files(dir, None),
+        });
+    }
+
+    fn replace_document(&mut self, scenario: Scenario, path: Option<PathBuf>, base_dir: PathBuf) {
         self.doc = super::state::Document {
             scenario,
             path,
@@ -113,19 +210,50 @@ impl ShelfwindApp {
         self.view.fit_coast = true;
     }
 
-    /// Opens a scenario file; on failure the current scenario stays.
-    pub(super) fn open_scenario(&mut self, path: &Path) {
-        match load_scenario(path) {
-            Ok(s) => {
-                let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
-                self.replace_document(s, Some(path.to_path_buf()), dir);
-                self.remembered.last_scenario = Some(path.to_path_buf());
+    /// Takes a finished file task's result; on failure nothing has changed.
+    pub(super) fn poll_file_task(&mut self) {
+        let Some(result) = self.file_task.as_ref().and_then(Task::poll) else {
+            return;
+        };
+        self.file_task = None;
+        match result.and_then(|r| r) {
+            Ok(FileOutcome::Opened {
+                scenario,
+                path,
+                base_dir,
+                note,
+            }) => {
+                if path.is_some() {
+                    self.remembered.last_scenario.clone_from(&path);
+                }
+                self.replace_document(scenario, path, base_dir);
+                self.dialogs.error = note;
             }
-            Err(e) => {
-                self.dialogs.error = Some(format!(
-                    "The scenario was not opened; nothing changed.\n\n{e}"
-                ));
+            Ok(FileOutcome::Coast(segments)) => {
+                let n = segments.len();
+                self.edit(Edit::AddSegments(segments));
+                self.dialogs.info = Some(format!("Imported {n} segment(s)."));
             }
+            Ok(FileOutcome::Saved { scenario, path }) => {
+                let mut current = self.doc.scenario.clone();
+                current.wind_files.clone_from(&scenario.wind_files);
+                if current == scenario {
+                    self.doc.scenario = scenario;
+                    self.doc.base_dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
+                    self.doc.path = Some(path.clone());
+                    self.doc.dirty = false;
+                    self.remembered.last_scenario = Some(path.clone());
+                    self.discard_recovery();
+                    self.dialogs.info = Some(format!("Saved {}", path.display()));
+                } else {
+                    self.dialogs.info = Some(format!(
+                        "Saved {}; the changes made while saving are not saved yet.",
+                        path.display()
+                    ));
+                }
+            }
+            Ok(FileOutcome::Written(info)) => self.dialogs.info = Some(info),
+            Err(e) => self.dialogs.error = Some(e),
         }
     }
 
@@ -171,80 +299,67 @@ impl ShelfwindApp {
         }
     }
 
-    /// Does a file action, reporting errors without losing anything.
+    /// Does a file action in the background, reporting errors without losing anything.
     pub(super) fn file_action(&mut self, action: FileAction, path: &Path, ctx: &egui::Context) {
         self.dialogs.path_prompt = None;
-        let result: Result<Option<String>, String> = match action {
+        let path = path.to_path_buf();
+        match action {
             FileAction::OpenScenario => {
-                self.open_scenario(path);
-                Ok(None)
+                self.start_file_task("opening", ctx, move || read_scenario_file(path));
             }
-            FileAction::SaveScenarioAs => self.save_as(path),
+            FileAction::SaveScenarioAs => self.save_as(path, ctx),
             FileAction::ImportWind => {
                 if path.exists() {
-                    self.start_plan_job(ctx, Some(vec![path.to_path_buf()]));
-                    Ok(None)
+                    self.start_plan_job(ctx, Some(vec![path]));
                 } else {
-                    Err(format!(
+                    self.dialogs.error = Some(format!(
                         "The forecast was not imported: no file at {}",
                         path.display()
-                    ))
+                    ));
                 }
             }
-            FileAction::ImportCoast => std::fs::read_to_string(path)
-                .map_err(|e| format!("The coast was not imported: {e}: {}", path.display()))
-                .and_then(|text| {
-                    read_coast_geojson(&text).map_err(|e| {
-                        format!(
-                            "The coast was not imported; nothing changed.\n\n{e}: {}",
-                            path.display()
-                        )
-                    })
-                })
-                .map(|segments| {
-                    let n = segments.len();
-                    self.edit(Edit::AddSegments(segments));
-                    Some(format!("Imported {n} segment(s)."))
-                }),
-            FileAction::ExportCoast => write_atomic(
-                path,
-                write_coast_geojson(&self.doc.scenario.segments).as_bytes(),
-            )
-            .map(|()| Some(format!("Coast written to {}", path.display())))
-            .map_err(|e| format!("cannot write {}: {e}", path.display())),
+            FileAction::ImportCoast => {
+                self.start_file_task("coast", ctx, move || read_coast_file(&path));
+            }
+            FileAction::ExportCoast => {
+                let segments = self.doc.scenario.segments.clone();
+                self.start_file_task("coast-export", ctx, move || {
+                    write_file(&path, || write_coast_geojson(&segments), "Coast written to")
+                });
+            }
             FileAction::ExportPlanCsv
             | FileAction::ExportPlanJson
             | FileAction::ExportPlanGeoJson
             | FileAction::ExportGpx
-            | FileAction::ExportTripSheet => self.export_plan(action, path),
-        };
-        match result {
-            Ok(Some(info)) => self.dialogs.info = Some(info),
-            Ok(None) => {}
-            Err(e) => self.dialogs.error = Some(e),
+            | FileAction::ExportTripSheet => self.export_plan(action, path, ctx),
         }
     }
 
-    fn export_plan(&self, action: FileAction, path: &Path) -> Result<Option<String>, String> {
-        let Some(plan) = &self.plan else {
-            return Err(
+    fn export_plan(&mut self, action: FileAction, path: PathBuf, ctx: &egui::Context) {
+        let Some(plan) = self.plan.clone() else {
+            self.dialogs.error = Some(
                 "There is no plan to export yet: the forecast is still being read, or it failed."
                     .into(),
             );
+            return;
         };
-        let text = match action {
-            FileAction::ExportPlanCsv => render_plan(plan, PlanFormat::Csv),
-            FileAction::ExportPlanJson => render_plan(plan, PlanFormat::Json),
-            FileAction::ExportPlanGeoJson => render_plan(plan, PlanFormat::GeoJson),
-            FileAction::ExportGpx => render_plan(plan, PlanFormat::Gpx),
-            _ => crate::export::trip_sheet_html(plan, crate::coast::Land::bundled(), self.view.day),
-        };
-        write_atomic(path, text.as_bytes())
-            .map(|()| Some(format!("Written to {}", path.display())))
-            .map_err(|e| format!("cannot write {}: {e}", path.display()))
+        let day = self.view.day;
+        self.start_file_task("export", ctx, move || {
+            write_file(
+                &path,
+                || match action {
+                    FileAction::ExportPlanCsv => render_plan(&plan, PlanFormat::Csv),
+                    FileAction::ExportPlanJson => render_plan(&plan, PlanFormat::Json),
+                    FileAction::ExportPlanGeoJson => render_plan(&plan, PlanFormat::GeoJson),
+                    FileAction::ExportGpx => render_plan(&plan, PlanFormat::Gpx),
+                    _ => crate::export::trip_sheet_html(&plan, crate::coast::Land::bundled(), day),
+                },
+                "Written to",
+            )
+        });
     }
 
-    fn save_as(&mut self, path: &Path) -> Result<Option<String>, String> {
+    fn save_as(&mut self, path: PathBuf, ctx: &egui::Context) {
         // Wind files are kept relative to the scenario when they sit beside it.
         let mut scenario = self.doc.scenario.clone();
         let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
@@ -253,36 +368,35 @@ impl ShelfwindApp {
             .into_iter()
             .map(|p| p.strip_prefix(&dir).map(Path::to_path_buf).unwrap_or(p))
             .collect();
-        save_scenario(path, &scenario).map_err(|e| format!("The scenario was not saved: {e}"))?;
-        self.doc.scenario = scenario;
-        self.doc.path = Some(path.to_path_buf());
-        self.doc.base_dir = dir;
-        self.doc.dirty = false;
-        self.remembered.last_scenario = Some(path.to_path_buf());
-        self.discard_recovery();
-        Ok(Some(format!("Saved {}", path.display())))
+        self.start_file_task("saving", ctx, move || {
+            save_scenario(&path, &scenario)
+                .map(|()| FileOutcome::Saved { scenario, path })
+                .map_err(|e| format!("The scenario was not saved: {e}"))
+        });
     }
 
-    /// Writes unsaved changes to the recovery file every so often.
+    /// Writes unsaved changes to the recovery file every so often, in the background;
+    /// a failure shows in the status line.
     pub(super) fn autosave(&mut self, ctx: &egui::Context) {
+        if let Some(r) = self.autosave_task.as_ref().and_then(Task::poll) {
+            self.autosave_task = None;
+            self.recovery_problem = r.and_then(|r| r).err();
+        }
         let now = ctx.input(|i| i.time);
-        if !self.doc.dirty || now - self.last_autosave_s < self.options.autosave_s {
+        if !self.doc.dirty
+            || now - self.last_autosave_s < self.options.autosave_s
+            || self.autosave_task.is_some()
+        {
             return;
         }
         self.last_autosave_s = now;
-        self.write_recovery();
-    }
-
-    /// Writes the recovery file now.
-    pub fn write_recovery(&self) {
-        if let (Some(path), Ok(text)) = (
-            recovery_path(&self.options),
-            scenario_to_json(&self.doc.scenario),
-        ) {
-            if let Some(dir) = path.parent() {
-                let _ = std::fs::create_dir_all(dir);
-            }
-            let _ = write_atomic(&path, text.as_bytes());
+        let Some(path) = recovery_path(&self.options) else {
+            return;
+        };
+        let scenario = self.doc.scenario.clone();
+        match Task::spawn("recovery", ctx, move || write_recovery(&path, &scenario)) {
+            Ok(t) => self.autosave_task = Some(t),
+            Err(e) => self.recovery_problem = Some(e),
         }
     }
 
@@ -309,6 +423,17 @@ impl ShelfwindApp {
             let _ = std::fs::remove_file(p);
         }
     }
+}
+
+/// Writes the recovery file.
+fn write_recovery(path: &Path, scenario: &Scenario) -> Result<(), String> {
+    let text = scenario_to_json(scenario).map_err(|e| e.to_string())?;
+    if let Some(dir) = path.parent() {
+        std::fs::create_dir_all(dir)
+            .map_err(|e| format!("cannot keep unsaved changes in {}: {e}", dir.display()))?;
+    }
+    write_atomic(path, text.as_bytes())
+        .map_err(|e| format!("cannot keep unsaved changes in {}: {e}", path.display()))
 }
 
 fn spawn_native_dialog(action: FileAction, dir: &Path) -> Receiver<Option<PathBuf>> {

@@ -144,8 +144,8 @@ impl LandMesh {
 
 /// The walkers plugin that paints the sea and the land.
 pub struct LandLayer<'a> {
-    /// The triangulated land.
-    pub mesh: &'a LandMesh,
+    /// The triangulated land (`None` while it is being prepared: only the sea is drawn).
+    pub mesh: Option<&'a LandMesh>,
     /// Paint the sea colour first (off when online tiles are underneath).
     pub paint_sea: bool,
 }
@@ -160,13 +160,19 @@ impl Plugin for LandLayer<'_> {
     ) {
         let rect = ui.max_rect();
         let painter = ui.painter_at(rect);
+        let Some(mesh) = self.mesh else {
+            if self.paint_sea {
+                painter.rect_filled(rect, 0.0, SEA);
+            }
+            return;
+        };
         let key = ViewKey {
             rect,
             zoom: projector.zoom(),
             origin: projector.project(lat_lon(0.0, 0.0)).to_pos2(),
             paint_sea: self.paint_sea,
         };
-        let Ok(mut cache) = self.mesh.cache.lock() else {
+        let Ok(mut cache) = mesh.cache.lock() else {
             return;
         };
         if let Some((k, shapes)) = cache.as_ref()
@@ -175,7 +181,7 @@ impl Plugin for LandLayer<'_> {
             painter.extend(shapes.iter().cloned());
             return;
         }
-        let shapes = self.mesh.shapes(rect, projector, self.paint_sea);
+        let shapes = mesh.shapes(rect, projector, self.paint_sea);
         painter.extend(shapes.iter().cloned());
         *cache = Some((key, shapes));
     }

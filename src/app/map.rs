@@ -5,10 +5,7 @@ use super::commands::Command;
 use super::edit::Edit;
 use super::land_layer::LandLayer;
 use super::state::{AppOptions, BaseLayer, Colouring, ShelfwindApp, Tool};
-use crate::coast::{
-    CoastSegment, Land, LatLon, SeaSide, SideFinding, destination, find_sea_side,
-    initial_bearing_deg, midpoint,
-};
+use crate::coast::{CoastSegment, LatLon, SeaSide, destination, initial_bearing_deg, midpoint};
 use crate::export::colour::{self, Rgb};
 use crate::physics::m_s_to_knots;
 use crate::plan::{Plan, StretchInfo};
@@ -35,42 +32,52 @@ pub(super) fn online_tiles(ctx: &egui::Context, options: &AppOptions) -> walkers
     walkers::HttpTiles::with_options(walkers::sources::OpenStreetMap, http, ctx.clone())
 }
 
-/// The value used to colour a stretch, and its colour.
-fn stretch_colour(
-    plan: &Plan,
-    k: usize,
-    s: &StretchInfo,
-    colouring: Colouring,
-    day: usize,
-    time: Option<chrono::DateTime<chrono::Utc>>,
-) -> Option<Color32> {
-    match colouring {
-        Colouring::IndexNow => {
-            let t = time?;
-            Some(c32(colour::index_colour(s.hour_at(t)?.index_m3s_per_100m)))
+/// How a stretch stands on the chosen day for the chosen boat.
+#[derive(Debug, Clone, Copy, PartialEq)]
+enum DayStatus {
+    /// Ranked; with a full fishing day inside the safe window or not.
+    Ranked { full_day: bool },
+    /// Left out; for the wind or for another reason.
+    Excluded { wind: bool },
+}
+
+/// The status of every stretch on a day, found in one pass over the day's lists.
+fn day_statuses(plan: &Plan, day: usize) -> Vec<Option<DayStatus>> {
+    let mut out = vec![None; plan.stretches.len()];
+    if let Some(d) = plan.days.get(day) {
+        for r in &d.ranked {
+            out[r.stretch] = Some(DayStatus::Ranked {
+                full_day: r.window_factor >= 1.0,
+            });
         }
-        Colouring::Productivity => {
-            let date = plan.days.get(day)?.date;
-            let d = s.days.iter().find(|d| d.date == date)?;
-            Some(c32(colour::productivity_colour(d.response.productivity)))
-        }
-        Colouring::SafeForBoat => {
-            let d = plan.days.get(day)?;
-            if let Some(r) = d.ranked.iter().find(|r| r.stretch == k) {
-                return Some(c32(if r.window_factor >= 1.0 {
-                    colour::SAFE_ALL_DAY
-                } else {
-                    colour::SAFE_PART_DAY
-                }));
-            }
-            let e = d.excluded.iter().find(|e| e.stretch == k)?;
-            Some(c32(if e.exclusion.is_wind() {
-                colour::SAFE_NOT
-            } else {
-                colour::SAFE_EXCLUDED
-            }))
+        for e in &d.excluded {
+            out[e.stretch] = Some(DayStatus::Excluded {
+                wind: e.exclusion.is_wind(),
+            });
         }
     }
+    out
+}
+
+/// The colour of a stretch under the chosen colouring.
+fn stretch_colour(
+    s: &StretchInfo,
+    colouring: Colouring,
+    date: Option<chrono::NaiveDate>,
+    status: Option<DayStatus>,
+    time: Option<chrono::DateTime<chrono::Utc>>,
+) -> Option<Color32> {
+    let rgb = match colouring {
+        Colouring::IndexNow => colour::index_colour(s.hour_at(time?)?.index_m3s_per_100m),
+        Colouring::Productivity => colour::productivity_colour(s.day(date?)?.response.productivity),
+        Colouring::SafeForBoat => match status? {
+            DayStatus::Ranked { full_day: true } => colour::SAFE_ALL_DAY,
+            DayStatus::Ranked { full_day: false } => colour::SAFE_PART_DAY,
+            DayStatus::Excluded { wind: true } => colour::SAFE_NOT,
+            DayStatus::Excluded { wind: false } => colour::SAFE_EXCLUDED,
+        },
+    };
+    Some(c32(rgb))
 }
 
 fn arrow(painter: &egui::Painter, from: Pos2, vec: Vec2, stroke: Stroke) {
@@ -114,6 +121,39 @@ fn distance_to_polyline(p: Pos2, line: &[Pos2]) -> f32 {
         .fold(f32::INFINITY, f32::min)
 }
 
+/// A handle of the segment in the editor, as drawn on screen.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Handle {
+    /// The segment.
+    pub segment: String,
+    /// What the handle does.
+    pub kind: HandleKind,
+    /// Where it is on screen.
+    pub pos: Pos2,
+}
+
+/// What a handle does.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum HandleKind {
+    /// A vertex, by index: drag to move, right-click to remove.
+    Vertex(usize),
+    /// Between two vertices: click to insert a vertex at this index.
+    Insert(usize),
+}
+
+/// How near a pointer must be to a handle to take it, pixels.
+const HANDLE_RADIUS_PX: f32 = 9.0;
+
+/// The vertex handle at a screen position, if any.
+pub(super) fn vertex_at(handles: &[Handle], p: Pos2) -> Option<(String, usize)> {
+    handles.iter().find_map(|h| match h.kind {
+        HandleKind::Vertex(i) if h.pos.distance(p) < HANDLE_RADIUS_PX => {
+            Some((h.segment.clone(), i))
+        }
+        _ => None,
+    })
+}
+
 /// The coast, arrows, ports, draft and handles; turns clicks and drags into commands.
 struct CoastLayer<'a> {
     plan: Option<&'a Plan>,
@@ -122,29 +162,51 @@ struct CoastLayer<'a> {
     day: usize,
     time: Option<chrono::DateTime<chrono::Utc>>,
     selected: &'a [String],
-    editing: Option<&'a CoastSegment>,
+    editing: Option<(&'a CoastSegment, Option<SeaSide>)>,
     tool: &'a Tool,
     dragging: Option<(String, usize)>,
     commands: &'a mut Vec<Command>,
-    handles: &'a mut Vec<(String, usize, Pos2)>,
+    handles: &'a mut Vec<Handle>,
     ports: &'a [crate::scenario::Port],
 }
 
-impl Plugin for CoastLayer<'_> {
-    fn run(
-        self: Box<Self>,
-        ui: &mut egui::Ui,
-        response: &egui::Response,
-        projector: &Projector,
-        _memory: &MapMemory,
-    ) {
-        let painter = ui.painter_at(ui.max_rect());
-        let project = |p: &LatLon| projector.project(lat_lon(p.lat_deg, p.lon_deg)).to_pos2();
-        let unproject = |p: Pos2| {
-            let pos = projector.unproject(p.to_vec2());
-            LatLon::new(pos.y(), pos.x())
-        };
-        // Segments as drawn (thin), so new ones show before they are planned.
+/// Draws an arrow from a point a little offshore of a stretch, one per 30-pixel cell so
+/// a crowded coast stays readable: wind (downwind) in dark grey, Ekman transport in
+/// purple.
+fn hour_arrows(
+    painter: &egui::Painter,
+    c: Pos2,
+    h: &crate::plan::StretchHour,
+    cells: &mut std::collections::HashSet<(i32, i32)>,
+) {
+    if !cells.insert(((c.x / 30.0).floor() as i32, (c.y / 30.0).floor() as i32)) {
+        return;
+    }
+    let kt = m_s_to_knots(h.wind.speed_m_s()) as f32;
+    if let Some(from) = h.wind.direction_from_deg() {
+        arrow(
+            painter,
+            c,
+            screen_dir(from + 180.0) * (6.0 + kt * 0.8).min(32.0),
+            Stroke::new(2.0, Color32::from_rgb(60, 60, 60)),
+        );
+    }
+    let (mx, my) = h.transport_m2_s;
+    let m = (mx.hypot(my) as f32).min(6.0);
+    if m > 0.05 {
+        let dir = Vec2::new(mx as f32, -(my as f32)).normalized();
+        arrow(
+            painter,
+            c,
+            dir * (8.0 + m * 5.0).min(30.0),
+            Stroke::new(2.5, Color32::from_rgb(118, 42, 131)),
+        );
+    }
+}
+
+impl CoastLayer<'_> {
+    /// Segments as drawn (thin), so new ones show before they are planned.
+    fn draw_segments(&self, painter: &egui::Painter, project: &dyn Fn(&LatLon) -> Pos2) {
         for seg in self.segments {
             let line: Vec<Pos2> = seg.points.iter().map(project).collect();
             painter.add(Shape::line(
@@ -152,80 +214,63 @@ impl Plugin for CoastLayer<'_> {
                 Stroke::new(2.0, Color32::from_rgb(90, 90, 90)),
             ));
         }
-        // Stretches coloured.
+    }
+
+    /// The stretches, coloured, with their arrows at the chosen hour; returns their
+    /// screen lines for clicks.
+    fn draw_stretches(
+        &self,
+        painter: &egui::Painter,
+        view: egui::Rect,
+        project: &dyn Fn(&LatLon) -> Pos2,
+    ) -> Vec<(usize, Vec<Pos2>)> {
+        let Some(plan) = self.plan else {
+            return Vec::new();
+        };
+        let statuses = day_statuses(plan, self.day);
+        let date = plan.days.get(self.day).map(|d| d.date);
         let mut screen_lines = Vec::new();
-        // Arrow origins drawn so far: arrows closer than this are skipped, so a crowded
-        // coast stays readable when zoomed out.
-        let mut arrow_cells: std::collections::HashSet<(i32, i32)> =
-            std::collections::HashSet::new();
-        let view = ui.max_rect().expand(20.0);
-        if let Some(plan) = self.plan {
-            for (k, s) in plan.stretches.iter().enumerate() {
-                let line: Vec<Pos2> = s.points.iter().map(project).collect();
-                // Off screen: nothing to draw or click.
-                if !line.iter().any(|p| view.contains(*p))
-                    && !egui::Rect::from_points(&line).intersects(view)
-                {
-                    continue;
-                }
-                let selected = self.selected.contains(&s.id);
-                if selected {
-                    painter.add(Shape::line(
-                        line.clone(),
-                        Stroke::new(13.0, Color32::from_rgb(20, 20, 20)),
-                    ));
-                }
-                let colour = stretch_colour(plan, k, s, self.colouring, self.day, self.time)
-                    .unwrap_or(Color32::from_gray(160));
-                // A dark edge keeps near-zero (light) stretches visible on the land.
+        let mut arrow_cells = std::collections::HashSet::new();
+        for (k, s) in plan.stretches.iter().enumerate() {
+            let line: Vec<Pos2> = s.points.iter().map(project).collect();
+            // Off screen: nothing to draw or click.
+            if !line.iter().any(|p| view.contains(*p))
+                && !egui::Rect::from_points(&line).intersects(view)
+            {
+                continue;
+            }
+            if self.selected.contains(&s.id) {
                 painter.add(Shape::line(
                     line.clone(),
-                    Stroke::new(10.0, Color32::from_gray(70)),
+                    Stroke::new(13.0, Color32::from_rgb(20, 20, 20)),
                 ));
-                painter.add(Shape::line(line.clone(), Stroke::new(7.0, colour)));
-                if s.closure.is_some() {
-                    painter.extend(Shape::dashed_line(
-                        &line,
-                        Stroke::new(3.0, Color32::from_rgb(180, 0, 0)),
-                        6.0,
-                        6.0,
-                    ));
-                }
-                screen_lines.push((k, line));
-                // Arrows at the chosen hour: wind (downwind) in dark grey, Ekman transport
-                // in purple, from the stretch centre, a little offshore.
-                if let Some(h) = self.time.and_then(|t| s.hour_at(t)) {
-                    let c = project(&s.centre) + screen_dir(s.offshore_bearing_deg) * 14.0;
-                    // One arrow per 30-pixel cell keeps a crowded coast readable.
-                    if !arrow_cells
-                        .insert(((c.x / 30.0).floor() as i32, (c.y / 30.0).floor() as i32))
-                    {
-                        continue;
-                    }
-                    let kt = m_s_to_knots(h.wind.speed_m_s()) as f32;
-                    if let Some(from) = h.wind.direction_from_deg() {
-                        arrow(
-                            &painter,
-                            c,
-                            screen_dir(from + 180.0) * (6.0 + kt * 0.8).min(32.0),
-                            Stroke::new(2.0, Color32::from_rgb(60, 60, 60)),
-                        );
-                    }
-                    let (mx, my) = h.transport_m2_s;
-                    let m = (mx.hypot(my) as f32).min(6.0);
-                    if m > 0.05 {
-                        let dir = Vec2::new(mx as f32, -(my as f32)).normalized();
-                        arrow(
-                            &painter,
-                            c,
-                            dir * (8.0 + m * 5.0).min(30.0),
-                            Stroke::new(2.5, Color32::from_rgb(118, 42, 131)),
-                        );
-                    }
-                }
+            }
+            let colour = stretch_colour(s, self.colouring, date, statuses[k], self.time)
+                .unwrap_or(Color32::from_gray(160));
+            // A dark edge keeps near-zero (light) stretches visible on the land.
+            painter.add(Shape::line(
+                line.clone(),
+                Stroke::new(10.0, Color32::from_gray(70)),
+            ));
+            painter.add(Shape::line(line.clone(), Stroke::new(7.0, colour)));
+            if s.closure.is_some() {
+                painter.extend(Shape::dashed_line(
+                    &line,
+                    Stroke::new(3.0, Color32::from_rgb(180, 0, 0)),
+                    6.0,
+                    6.0,
+                ));
+            }
+            screen_lines.push((k, line));
+            if let Some(h) = self.time.and_then(|t| s.hour_at(t)) {
+                let c = project(&s.centre) + screen_dir(s.offshore_bearing_deg) * 14.0;
+                hour_arrows(painter, c, h, &mut arrow_cells);
             }
         }
-        // Ports.
+        screen_lines
+    }
+
+    fn draw_ports(&self, painter: &egui::Painter, project: &dyn Fn(&LatLon) -> Pos2) {
         for port in self.ports {
             let p = project(&port.position);
             painter.circle(
@@ -242,77 +287,86 @@ impl Plugin for CoastLayer<'_> {
                 Color32::from_rgb(20, 40, 90),
             );
         }
-        // The segment in the editor: sea-side arrows, vertex and insert handles.
+    }
+
+    /// The segment in the editor: sea-side arrows, vertex and insert handles.
+    fn draw_editing(&mut self, painter: &egui::Painter, project: &dyn Fn(&LatLon) -> Pos2) {
         self.handles.clear();
-        if let Some(seg) = self.editing {
-            let side = match seg.sea {
-                Some(s) => Some(s),
-                None => match find_sea_side(Land::bundled(), &seg.points) {
-                    SideFinding::Sea(s) => Some(s),
-                    _ => None,
-                },
-            };
-            for (i, w) in seg.points.windows(2).enumerate() {
-                let mid = midpoint(w[0], w[1]);
-                let along = initial_bearing_deg(mid, w[1]);
-                if let Some(side) = side {
-                    let offshore = if side == SeaSide::Right {
-                        along + 90.0
-                    } else {
-                        along - 90.0
-                    };
-                    let from = project(&mid);
-                    let to = project(&destination(mid, offshore, 1.0));
-                    let dir = (to - from).normalized();
-                    arrow(
-                        &painter,
-                        from,
-                        dir * 26.0,
-                        Stroke::new(3.0, Color32::from_rgb(0, 110, 160)),
-                    );
-                }
-                let m = project(&mid);
-                painter.circle(
-                    m,
-                    5.0,
-                    Color32::WHITE,
-                    Stroke::new(1.5, Color32::from_rgb(0, 110, 160)),
-                );
-                painter.text(
-                    m,
-                    Align2::CENTER_CENTER,
-                    "+",
-                    FontId::proportional(11.0),
-                    Color32::from_rgb(0, 110, 160),
-                );
-                self.handles.push((format!("+{}", seg.id), i + 1, m));
+        let Some((seg, side)) = self.editing else {
+            return;
+        };
+        let blue = Color32::from_rgb(0, 110, 160);
+        for (i, w) in seg.points.windows(2).enumerate() {
+            let mid = midpoint(w[0], w[1]);
+            let along = initial_bearing_deg(mid, w[1]);
+            let m = project(&mid);
+            if let Some(side) = side {
+                let offshore = if side == SeaSide::Right {
+                    along + 90.0
+                } else {
+                    along - 90.0
+                };
+                let dir = (project(&destination(mid, offshore, 1.0)) - m).normalized();
+                arrow(painter, m, dir * 26.0, Stroke::new(3.0, blue));
             }
-            for (i, p) in seg.points.iter().enumerate() {
-                let s = project(p);
-                painter.circle(
-                    s,
-                    7.0,
-                    Color32::from_rgb(255, 200, 0),
-                    Stroke::new(2.0, Color32::BLACK),
-                );
-                self.handles.push((seg.id.clone(), i, s));
-            }
+            painter.circle(m, 5.0, Color32::WHITE, Stroke::new(1.5, blue));
+            painter.text(
+                m,
+                Align2::CENTER_CENTER,
+                "+",
+                FontId::proportional(11.0),
+                blue,
+            );
+            self.handles.push(Handle {
+                segment: seg.id.clone(),
+                kind: HandleKind::Insert(i + 1),
+                pos: m,
+            });
         }
-        // The segment being drawn.
-        if let Tool::Draw { points } = self.tool {
-            let mut line: Vec<Pos2> = points.iter().map(project).collect();
-            if let Some(h) = response.hover_pos() {
-                line.push(h);
-            }
-            painter.add(Shape::line(
-                line.clone(),
-                Stroke::new(3.0, Color32::from_rgb(220, 90, 0)),
-            ));
-            for p in &line[..points.len()] {
-                painter.circle_filled(*p, 5.0, Color32::from_rgb(220, 90, 0));
-            }
+        for (i, p) in seg.points.iter().enumerate() {
+            let s = project(p);
+            painter.circle(
+                s,
+                7.0,
+                Color32::from_rgb(255, 200, 0),
+                Stroke::new(2.0, Color32::BLACK),
+            );
+            self.handles.push(Handle {
+                segment: seg.id.clone(),
+                kind: HandleKind::Vertex(i),
+                pos: s,
+            });
         }
-        // Interaction.
+    }
+
+    /// The segment being drawn, up to the pointer.
+    fn draw_draft(
+        &self,
+        painter: &egui::Painter,
+        response: &egui::Response,
+        project: &dyn Fn(&LatLon) -> Pos2,
+    ) {
+        let Tool::Draw { points } = self.tool else {
+            return;
+        };
+        let mut line: Vec<Pos2> = points.iter().map(project).collect();
+        if let Some(h) = response.hover_pos() {
+            line.push(h);
+        }
+        let orange = Color32::from_rgb(220, 90, 0);
+        painter.add(Shape::line(line.clone(), Stroke::new(3.0, orange)));
+        for p in &line[..points.len()] {
+            painter.circle_filled(*p, 5.0, orange);
+        }
+    }
+
+    /// Drags, right-clicks and double-clicks on the map.
+    fn interact_pointer(
+        &mut self,
+        ui: &egui::Ui,
+        response: &egui::Response,
+        unproject: &dyn Fn(Pos2) -> LatLon,
+    ) -> bool {
         let pointer = response
             .interact_pointer_pos()
             .or_else(|| response.hover_pos());
@@ -328,74 +382,111 @@ impl Plugin for CoastLayer<'_> {
             } else {
                 self.commands.push(Command::EndDrag);
             }
-            return;
+            return true;
         }
-        let near_handle = |p: Pos2| self.handles.iter().find(|h| h.2.distance(p) < 9.0).cloned();
         if response.drag_started()
             && let Some(p) = ui.input(|i| i.pointer.press_origin())
-            && let Some((id, index, _)) = near_handle(p).filter(|h| !h.0.starts_with('+'))
+            && let Some((segment, index)) = vertex_at(self.handles, p)
         {
             self.commands.push(Command::DragVertex {
-                segment: id,
+                segment,
                 index,
                 to: unproject(p),
             });
-            return;
+            return true;
         }
         if response.secondary_clicked()
-            && let Some(p) = pointer
-            && let Some((id, index, _)) = near_handle(p).filter(|h| !h.0.starts_with('+'))
+            && let Some((id, index)) = pointer.and_then(|p| vertex_at(self.handles, p))
         {
             self.commands
                 .push(Command::Edit(Edit::DeleteVertex(id, index)));
-            return;
+            return true;
         }
         if response.double_clicked() && matches!(self.tool, Tool::Draw { .. }) {
             self.commands.push(Command::FinishDraft);
+            return true;
+        }
+        false
+    }
+
+    /// A click: a draft point, an inserted vertex, a stretch or a segment to edit.
+    fn interact_click(
+        &mut self,
+        ui: &egui::Ui,
+        p: Pos2,
+        screen_lines: &[(usize, Vec<Pos2>)],
+        project: &dyn Fn(&LatLon) -> Pos2,
+        unproject: &dyn Fn(Pos2) -> LatLon,
+    ) {
+        if let Tool::Draw { .. } = self.tool {
+            self.commands.push(Command::AddDraftPoint(unproject(p)));
+            return;
+        }
+        if let Some(h) = self
+            .handles
+            .iter()
+            .find(|h| h.pos.distance(p) < HANDLE_RADIUS_PX)
+        {
+            if let HandleKind::Insert(index) = h.kind {
+                self.commands.push(Command::Edit(Edit::InsertVertex(
+                    h.segment.clone(),
+                    index,
+                    unproject(h.pos),
+                )));
+            }
+            return;
+        }
+        let add = ui.input(|i| i.modifiers.command || i.modifiers.shift);
+        let nearest = screen_lines
+            .iter()
+            .map(|(k, line)| (*k, distance_to_polyline(p, line)))
+            .min_by(|a, b| a.1.total_cmp(&b.1))
+            .filter(|(_, d)| *d < 12.0);
+        if let (Some((k, _)), Some(plan)) = (nearest, self.plan) {
+            self.commands.push(Command::SelectStretch {
+                id: plan.stretches[k].id.clone(),
+                add,
+            });
+            return;
+        }
+        let on_segment = self.segments.iter().find(|s| {
+            let line: Vec<Pos2> = s.points.iter().map(project).collect();
+            distance_to_polyline(p, &line) < 10.0
+        });
+        if let Some(s) = on_segment {
+            self.commands.push(Command::EditSegment(Some(s.id.clone())));
+        }
+    }
+}
+
+impl Plugin for CoastLayer<'_> {
+    fn run(
+        mut self: Box<Self>,
+        ui: &mut egui::Ui,
+        response: &egui::Response,
+        projector: &Projector,
+        _memory: &MapMemory,
+    ) {
+        let painter = ui.painter_at(ui.max_rect());
+        let project = |p: &LatLon| projector.project(lat_lon(p.lat_deg, p.lon_deg)).to_pos2();
+        let unproject = |p: Pos2| {
+            let pos = projector.unproject(p.to_vec2());
+            LatLon::new(pos.y(), pos.x())
+        };
+        self.draw_segments(&painter, &project);
+        let screen_lines = self.draw_stretches(&painter, ui.max_rect().expand(20.0), &project);
+        self.draw_ports(&painter, &project);
+        self.draw_editing(&painter, &project);
+        self.draw_draft(&painter, response, &project);
+        if self.interact_pointer(ui, response, &unproject) {
             return;
         }
         if response.clicked()
-            && let Some(p) = pointer
+            && let Some(p) = response
+                .interact_pointer_pos()
+                .or_else(|| response.hover_pos())
         {
-            if let Tool::Draw { .. } = self.tool {
-                self.commands.push(Command::AddDraftPoint(unproject(p)));
-                return;
-            }
-            if let Some((id, index, hp)) = near_handle(p) {
-                if let Some(seg_id) = id.strip_prefix('+') {
-                    self.commands.push(Command::Edit(Edit::InsertVertex(
-                        seg_id.to_string(),
-                        index,
-                        unproject(hp),
-                    )));
-                }
-                return;
-            }
-            let add = ui.input(|i| i.modifiers.command || i.modifiers.shift);
-            let nearest = screen_lines
-                .iter()
-                .map(|(id, line)| (id, distance_to_polyline(p, line)))
-                .min_by(|a, b| a.1.total_cmp(&b.1))
-                .filter(|(_, d)| *d < 12.0);
-            match nearest {
-                Some((k, _)) => {
-                    if let Some(plan) = self.plan {
-                        self.commands.push(Command::SelectStretch {
-                            id: plan.stretches[*k].id.clone(),
-                            add,
-                        });
-                    }
-                }
-                None => {
-                    let on_segment = self.segments.iter().find(|s| {
-                        let line: Vec<Pos2> = s.points.iter().map(project).collect();
-                        distance_to_polyline(p, &line) < 10.0
-                    });
-                    if let Some(s) = on_segment {
-                        self.commands.push(Command::EditSegment(Some(s.id.clone())));
-                    }
-                }
-            }
+            self.interact_click(ui, p, &screen_lines, &project, &unproject);
         }
     }
 }
@@ -425,16 +516,20 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
         .view
         .editing
         .as_ref()
-        .and_then(|id| app.doc.scenario.segments.iter().find(|s| &s.id == id));
+        .and_then(|id| app.doc.scenario.segments.iter().find(|s| &s.id == id))
+        .map(|seg| {
+            (
+                seg,
+                seg.sea
+                    .or(app.view.segment_draft.sea_from_land(&seg.points)),
+            )
+        });
     // Start a vertex drag before the map pans: a press on a handle drawn last frame.
     let pressed_on_handle = ui.input(|i| {
         i.pointer.primary_pressed()
-            && i.pointer.press_origin().is_some_and(|p| {
-                app.view
-                    .handles
-                    .iter()
-                    .any(|h| !h.0.starts_with('+') && h.2.distance(p) < 9.0)
-            })
+            && i.pointer
+                .press_origin()
+                .is_some_and(|p| vertex_at(&app.view.handles, p).is_some())
     });
     let dragging = app
         .view
@@ -459,7 +554,7 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     .panning(panning)
     .double_click_to_zoom(!matches!(app.view.tool, Tool::Draw { .. }))
     .with_plugin(LandLayer {
-        mesh: &app.land,
+        mesh: app.land.as_deref(),
         paint_sea: !online,
     })
     .with_plugin(CoastLayer {

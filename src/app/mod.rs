@@ -5,7 +5,9 @@
 //! run in a background job.
 
 mod commands;
+mod dialogs;
 mod edit;
+mod editor;
 mod files;
 mod jobs;
 mod land_layer;
@@ -13,7 +15,9 @@ mod map;
 mod panels;
 mod plots;
 mod season_view;
+mod settings_window;
 mod state;
+mod tasks;
 
 pub use commands::{Command, FileAction};
 pub use state::{AppOptions, Colouring, Remembered, ShelfwindApp};

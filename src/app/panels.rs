@@ -3,11 +3,9 @@
 //! changes the document directly.
 
 use super::commands::{Command, FileAction};
-use super::edit::Edit;
 use super::state::{BaseLayer, Colouring, ShelfwindApp, Tool};
-use crate::coast::{Closure, SeaSide};
-use crate::export::colour;
-use crate::plan::{CAUTIONS, Plan};
+use crate::export::{colour, plan_text};
+use crate::plan::{DayPlan, Plan, RankedStretch};
 use eframe::egui::{self, Color32, RichText};
 
 /// Ranked stretches listed before "Show all".
@@ -58,108 +56,19 @@ pub(super) fn all_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
         egui::Panel::right("editor")
             .resizable(true)
             .default_size(300.0)
-            .show(ui, |ui| editor_ui(app, ui, commands));
+            .show(ui, |ui| super::editor::editor_ui(app, ui, commands));
     }
     egui::CentralPanel::default().show(ui, |ui| {
         map_toolbar_ui(app, ui, commands);
         super::map::map_ui(app, ui, commands);
     });
-    windows_ui(app, ui.ctx(), commands);
+    super::dialogs::windows_ui(app, ui.ctx(), commands);
 }
 
 fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
     egui::MenuBar::new().ui(ui, |ui| {
-        ui.menu_button("File", |ui| {
-            let mut item = |ui: &mut egui::Ui, label: &str, c: Command| {
-                if ui.button(label).clicked() {
-                    commands.push(c);
-                    ui.close();
-                }
-            };
-            item(
-                ui,
-                "Open scenario…",
-                Command::AskFile(FileAction::OpenScenario),
-            );
-            item(ui, "Open the demo", Command::OpenDemo);
-            item(ui, "Save", Command::Save);
-            item(ui, "Save as…", Command::AskFile(FileAction::SaveScenarioAs));
-            ui.separator();
-            item(
-                ui,
-                "Import wind file…",
-                Command::AskFile(FileAction::ImportWind),
-            );
-            item(
-                ui,
-                "Import coast (GeoJSON)…",
-                Command::AskFile(FileAction::ImportCoast),
-            );
-            item(
-                ui,
-                "Export coast (GeoJSON)…",
-                Command::AskFile(FileAction::ExportCoast),
-            );
-            ui.separator();
-            item(
-                ui,
-                "Export plan (CSV)…",
-                Command::AskFile(FileAction::ExportPlanCsv),
-            );
-            item(
-                ui,
-                "Export plan (JSON)…",
-                Command::AskFile(FileAction::ExportPlanJson),
-            );
-            item(
-                ui,
-                "Export stretches (GeoJSON)…",
-                Command::AskFile(FileAction::ExportPlanGeoJson),
-            );
-            item(
-                ui,
-                "Export GPX for the plotter…",
-                Command::AskFile(FileAction::ExportGpx),
-            );
-            item(
-                ui,
-                "Export trip sheet (HTML)…",
-                Command::AskFile(FileAction::ExportTripSheet),
-            );
-            ui.separator();
-            item(ui, "Quit", Command::Quit);
-        });
-        ui.menu_button("Edit", |ui| {
-            if ui
-                .add_enabled(
-                    !app.undo.is_empty(),
-                    egui::Button::new("Undo").shortcut_text("Ctrl+Z"),
-                )
-                .clicked()
-            {
-                commands.push(Command::Undo);
-                ui.close();
-            }
-            if ui
-                .add_enabled(
-                    !app.redo.is_empty(),
-                    egui::Button::new("Redo").shortcut_text("Ctrl+Shift+Z"),
-                )
-                .clicked()
-            {
-                commands.push(Command::Redo);
-                ui.close();
-            }
-            ui.separator();
-            if ui.button("Draw a new segment").clicked() {
-                commands.push(Command::SetTool(Tool::Draw { points: Vec::new() }));
-                ui.close();
-            }
-            if ui.button("Model settings…").clicked() {
-                app.dialogs.show_settings = true;
-                ui.close();
-            }
-        });
+        ui.menu_button("File", |ui| file_menu(ui, commands));
+        ui.menu_button("Edit", |ui| edit_menu(app, ui, commands));
         ui.menu_button("Seasons", |ui| {
             if ui.button("Compare seasons of historical wind…").clicked() {
                 app.season.open = true;
@@ -173,73 +82,178 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
             }
         });
         ui.separator();
-        // The undo and redo buttons, and drawing, one click away.
-        if ui
-            .add_enabled(!app.undo.is_empty(), egui::Button::new("Undo"))
-            .on_hover_text("Undo (Ctrl+Z)")
-            .clicked()
-        {
-            commands.push(Command::Undo);
-        }
-        if ui
-            .add_enabled(!app.redo.is_empty(), egui::Button::new("Redo"))
-            .on_hover_text("Redo (Ctrl+Shift+Z or Ctrl+Y)")
-            .clicked()
-        {
-            commands.push(Command::Redo);
-        }
-        let drawing = matches!(app.view.tool, Tool::Draw { .. });
-        if ui.selectable_label(drawing, "Draw segment").clicked() {
-            commands.push(Command::SetTool(if drawing {
-                Tool::Select
-            } else {
-                Tool::Draw { points: Vec::new() }
-            }));
-        }
-        if drawing && ui.button("Finish segment").clicked() {
-            commands.push(Command::FinishDraft);
-        }
+        quick_buttons(app, ui, commands);
         ui.separator();
-        let scenario = &app.doc.scenario;
-        let vessel_name = |id: &Option<String>| {
-            scenario
-                .vessels
-                .iter()
-                .find(|v| Some(&v.id) == id.as_ref())
-                .or(scenario.vessels.first())
-                .map_or("(no boat)".to_string(), |v| v.name.clone())
-        };
-        egui::ComboBox::from_label("Boat")
-            .selected_text(vessel_name(&app.view.vessel_id))
-            .show_ui(ui, |ui| {
-                for v in &scenario.vessels {
-                    if ui
-                        .selectable_label(app.view.vessel_id.as_ref() == Some(&v.id), &v.name)
-                        .clicked()
-                    {
-                        commands.push(Command::SetVessel(v.id.clone()));
-                    }
-                }
-            });
-        let port_name = scenario
-            .ports
-            .iter()
-            .find(|p| Some(&p.id) == app.view.port_id.as_ref())
-            .or(scenario.ports.first())
-            .map_or("(no port)".to_string(), |p| p.name.clone());
-        egui::ComboBox::from_label("Home port")
-            .selected_text(port_name)
-            .show_ui(ui, |ui| {
-                for p in &scenario.ports {
-                    if ui
-                        .selectable_label(app.view.port_id.as_ref() == Some(&p.id), &p.name)
-                        .clicked()
-                    {
-                        commands.push(Command::SetPort(p.id.clone()));
-                    }
-                }
-            });
+        boat_and_port_ui(app, ui, commands);
     });
+}
+
+/// The File menu: every file action.
+fn file_menu(ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    let mut item = |ui: &mut egui::Ui, label: &str, c: Command| {
+        if ui.button(label).clicked() {
+            commands.push(c);
+            ui.close();
+        }
+    };
+    item(
+        ui,
+        "Open scenario…",
+        Command::AskFile(FileAction::OpenScenario),
+    );
+    item(ui, "Open the demo", Command::OpenDemo);
+    item(ui, "Save", Command::Save);
+    item(ui, "Save as…", Command::AskFile(FileAction::SaveScenarioAs));
+    ui.separator();
+    item(
+        ui,
+        "Import wind file…",
+        Command::AskFile(FileAction::ImportWind),
+    );
+    item(
+        ui,
+        "Import coast (GeoJSON)…",
+        Command::AskFile(FileAction::ImportCoast),
+    );
+    item(
+        ui,
+        "Export coast (GeoJSON)…",
+        Command::AskFile(FileAction::ExportCoast),
+    );
+    ui.separator();
+    item(
+        ui,
+        "Export plan (CSV)…",
+        Command::AskFile(FileAction::ExportPlanCsv),
+    );
+    item(
+        ui,
+        "Export plan (JSON)…",
+        Command::AskFile(FileAction::ExportPlanJson),
+    );
+    item(
+        ui,
+        "Export stretches (GeoJSON)…",
+        Command::AskFile(FileAction::ExportPlanGeoJson),
+    );
+    item(
+        ui,
+        "Export GPX for the plotter…",
+        Command::AskFile(FileAction::ExportGpx),
+    );
+    item(
+        ui,
+        "Export trip sheet (HTML)…",
+        Command::AskFile(FileAction::ExportTripSheet),
+    );
+    ui.separator();
+    item(ui, "Quit", Command::Quit);
+}
+
+/// The Edit menu: undo, redo, drawing and the model settings.
+fn edit_menu(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    if ui
+        .add_enabled(
+            !app.undo.is_empty(),
+            egui::Button::new("Undo").shortcut_text("Ctrl+Z"),
+        )
+        .clicked()
+    {
+        commands.push(Command::Undo);
+        ui.close();
+    }
+    if ui
+        .add_enabled(
+            !app.redo.is_empty(),
+            egui::Button::new("Redo").shortcut_text("Ctrl+Shift+Z"),
+        )
+        .clicked()
+    {
+        commands.push(Command::Redo);
+        ui.close();
+    }
+    ui.separator();
+    if ui.button("Draw a new segment").clicked() {
+        commands.push(Command::SetTool(Tool::Draw { points: Vec::new() }));
+        ui.close();
+    }
+    if ui.button("Model settings…").clicked() {
+        app.dialogs.show_settings = true;
+        ui.close();
+    }
+}
+
+/// Undo, redo and drawing, one click away.
+fn quick_buttons(app: &ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    // The undo and redo buttons, and drawing, one click away.
+    if ui
+        .add_enabled(!app.undo.is_empty(), egui::Button::new("Undo"))
+        .on_hover_text("Undo (Ctrl+Z)")
+        .clicked()
+    {
+        commands.push(Command::Undo);
+    }
+    if ui
+        .add_enabled(!app.redo.is_empty(), egui::Button::new("Redo"))
+        .on_hover_text("Redo (Ctrl+Shift+Z or Ctrl+Y)")
+        .clicked()
+    {
+        commands.push(Command::Redo);
+    }
+    let drawing = matches!(app.view.tool, Tool::Draw { .. });
+    if ui.selectable_label(drawing, "Draw segment").clicked() {
+        commands.push(Command::SetTool(if drawing {
+            Tool::Select
+        } else {
+            Tool::Draw { points: Vec::new() }
+        }));
+    }
+    if drawing && ui.button("Finish segment").clicked() {
+        commands.push(Command::FinishDraft);
+    }
+}
+
+/// The boat and home port the plan is for.
+fn boat_and_port_ui(app: &ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    let scenario = &app.doc.scenario;
+    let vessel_name = |id: &Option<String>| {
+        scenario
+            .vessels
+            .iter()
+            .find(|v| Some(&v.id) == id.as_ref())
+            .or(scenario.vessels.first())
+            .map_or("(no boat)".to_string(), |v| v.name.clone())
+    };
+    egui::ComboBox::from_label("Boat")
+        .selected_text(vessel_name(&app.view.vessel_id))
+        .show_ui(ui, |ui| {
+            for v in &scenario.vessels {
+                if ui
+                    .selectable_label(app.view.vessel_id.as_ref() == Some(&v.id), &v.name)
+                    .clicked()
+                {
+                    commands.push(Command::SetVessel(v.id.clone()));
+                }
+            }
+        });
+    let port_name = scenario
+        .ports
+        .iter()
+        .find(|p| Some(&p.id) == app.view.port_id.as_ref())
+        .or(scenario.ports.first())
+        .map_or("(no port)".to_string(), |p| p.name.clone());
+    egui::ComboBox::from_label("Home port")
+        .selected_text(port_name)
+        .show_ui(ui, |ui| {
+            for p in &scenario.ports {
+                if ui
+                    .selectable_label(app.view.port_id.as_ref() == Some(&p.id), &p.name)
+                    .clicked()
+                {
+                    commands.push(Command::SetPort(p.id.clone()));
+                }
+            }
+        });
 }
 
 /// The row above the map: what the coast is coloured by, the base map, the plots.
@@ -291,6 +305,15 @@ fn status_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
             if ui.button("Cancel").clicked() {
                 commands.push(Command::CancelJob);
             }
+        }
+        if let Some(task) = &app.file_task {
+            ui.separator();
+            ui.spinner();
+            ui.label(format!("working: {}", task.name));
+        }
+        if let Some(problem) = &app.recovery_problem {
+            ui.separator();
+            ui.colored_label(Color32::from_rgb(170, 0, 0), problem);
         }
     });
 }
@@ -394,12 +417,11 @@ fn bar(ui: &mut egui::Ui, share: f64) {
 }
 
 fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    ui.heading("Where to go");
     let Some(plan) = app.plan.clone() else {
-        ui.heading("Where to go");
         ui.label("The ranked stretches appear when the forecast has been read.");
         return;
     };
-    ui.heading("Where to go");
     if let Some(e) = &app.plan_error {
         ui.colored_label(
             Color32::from_rgb(170, 0, 0),
@@ -407,30 +429,8 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
         );
     }
     ui.label(format!("{} from {}", plan.vessel.name, plan.port.name));
-    ui.horizontal(|ui| {
-        if ui
-            .add_enabled(app.view.day > 0, egui::Button::new("< Previous day"))
-            .clicked()
-        {
-            commands.push(Command::SetDay(app.view.day.saturating_sub(1)));
-        }
-        let date = plan
-            .days
-            .get(app.view.day)
-            .map(|d| d.date.format("%A %-d %B").to_string())
-            .unwrap_or_default();
-        ui.label(RichText::new(date).heading());
-        if ui
-            .add_enabled(
-                app.view.day + 1 < plan.days.len(),
-                egui::Button::new("Next day >"),
-            )
-            .clicked()
-        {
-            commands.push(Command::SetDay(app.view.day + 1));
-        }
-    });
-    for n in crate::export::plan_text::notes(&plan) {
+    day_switcher_ui(&plan, app.view.day, ui, commands);
+    for n in plan_text::notes(&plan) {
         ui.label(RichText::new(n).small().weak());
     }
     ui.separator();
@@ -451,66 +451,8 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
                 day.ranked.len().min(RANKED_SHOWN)
             };
             for r in &day.ranked[..shown] {
-                let s = &plan.stretches[r.stretch];
-                let selected = app.view.selected.contains(&s.id);
-                ui.horizontal(|ui| {
-                    let rank = if r.tied_with_above {
-                        format!("={}", r.rank)
-                    } else {
-                        format!("{}", r.rank)
-                    };
-                    let resp = ui.selectable_label(
-                        selected,
-                        RichText::new(format!("{rank}. {}", s.name)).strong(),
-                    );
-                    resp.widget_info(|| {
-                        egui::WidgetInfo::selected(
-                            egui::Role::ListBoxOption,
-                            true,
-                            selected,
-                            format!("Stretch {}", s.name),
-                        )
-                    });
-                    if resp.clicked() {
-                        let add = ui.input(|i| i.modifiers.command || i.modifiers.shift);
-                        commands.push(Command::SelectStretch {
-                            id: s.id.clone(),
-                            add,
-                        });
-                    }
-                    bar(ui, r.score / 100.0);
-                    ui.label(format!("{:.0}", r.score)).on_hover_text(format!(
-                        "score = 100 × productivity {:.2} × window {:.2} × distance {:.2}",
-                        r.productivity, r.window_factor, r.distance_factor
-                    ));
-                    if r.tied_with_above {
-                        ui.label(RichText::new("tie").small());
-                    }
-                    if ui
-                        .small_button("Show")
-                        .on_hover_text("Centre the map here")
-                        .clicked()
-                    {
-                        commands.push(Command::CentreOn(s.centre));
-                    }
-                });
-                ui.indent(&s.id, |ui| {
-                    let (from, to) = r.safe_window;
-                    ui.label(
-                        RichText::new(format!(
-                            "safe {}–{} local ({}–{} UTC), {:.1} h fishing",
-                            from.with_timezone(&plan.time_zone).format("%H:%M"),
-                            to.with_timezone(&plan.time_zone).format("%H:%M"),
-                            from.format("%H:%M"),
-                            to.format("%H:%M"),
-                            r.fishing_hours
-                        ))
-                        .small(),
-                    );
-                    for reason in crate::export::plan_text::ranked_lines(&plan, day.date, r) {
-                        ui.label(RichText::new(format!("• {reason}")).small());
-                    }
-                });
+                let selected = app.view.selected.contains(&plan.stretches[r.stretch].id);
+                ranked_entry_ui(&plan, day.date, r, selected, ui, commands);
                 ui.add_space(4.0);
             }
             if shown < day.ranked.len()
@@ -520,23 +462,7 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
             {
                 app.view.show_all_ranked = true;
             }
-            if !day.excluded.is_empty() {
-                egui::CollapsingHeader::new(format!("Not ranked ({})", day.excluded.len())).show(
-                    ui,
-                    |ui| {
-                        for e in &day.excluded {
-                            ui.label(
-                                RichText::new(format!(
-                                    "{}: {}",
-                                    plan.stretches[e.stretch].name,
-                                    crate::export::plan_text::excluded_text(&plan, e)
-                                ))
-                                .small(),
-                            );
-                        }
-                    },
-                );
-            }
+            excluded_ui(&plan, day, ui);
             ui.add_space(8.0);
             ui.label(
                 RichText::new("Ctrl-click stretches to compare them in the plots.")
@@ -546,304 +472,115 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
         });
 }
 
-fn editor_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
-    let Some(id) = app.view.editing.clone() else {
-        return;
-    };
-    let Some(seg) = app
-        .doc
-        .scenario
-        .segments
-        .iter()
-        .find(|s| s.id == id)
-        .cloned()
-    else {
-        commands.push(Command::EditSegment(None));
-        return;
-    };
+/// The day shown, with the previous and next day.
+fn day_switcher_ui(plan: &Plan, day: usize, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
     ui.horizontal(|ui| {
-        ui.heading("Segment");
-        if ui.button("Close").clicked() {
-            commands.push(Command::EditSegment(None));
+        if ui
+            .add_enabled(day > 0, egui::Button::new("< Previous day"))
+            .clicked()
+        {
+            commands.push(Command::SetDay(day.saturating_sub(1)));
+        }
+        let date = plan
+            .days
+            .get(day)
+            .map(|d| d.date.format("%A %-d %B").to_string())
+            .unwrap_or_default();
+        ui.label(RichText::new(date).heading());
+        if ui
+            .add_enabled(day + 1 < plan.days.len(), egui::Button::new("Next day >"))
+            .clicked()
+        {
+            commands.push(Command::SetDay(day + 1));
         }
     });
-    ui.label(RichText::new(format!("id: {}", seg.id)).small());
-    let mut name = seg.name.clone();
-    let label = ui.label("Segment name");
-    let r = ui
-        .add(egui::TextEdit::singleline(&mut name).hint_text("e.g. Kelp Shelf"))
-        .labelled_by(label.id);
-    if r.lost_focus() && name != seg.name {
-        commands.push(Command::Edit(Edit::Rename(id.clone(), name)));
-    }
-    ui.label("Notes");
-    let mut notes = seg.notes.clone();
-    let r = ui.add(egui::TextEdit::multiline(&mut notes).desired_rows(3));
-    if r.lost_focus() && notes != seg.notes {
-        commands.push(Command::Edit(Edit::SetNotes(id.clone(), notes)));
-    }
-    ui.separator();
-    let from_land = crate::coast::find_sea_side(crate::coast::Land::bundled(), &seg.points);
-    let side_text = match (seg.sea, from_land) {
-        (Some(SeaSide::Left), _) => "Sea on the left, walking from the first point (set by hand)".to_string(),
-        (Some(SeaSide::Right), _) => "Sea on the right, walking from the first point (set by hand)".to_string(),
-        (None, crate::coast::SideFinding::Sea(side)) => format!(
-            "Sea on the {}, found from the land (blue arrows on the map)",
-            if side == SeaSide::Left { "left" } else { "right" }
-        ),
-        (None, crate::coast::SideFinding::BothSea) => "The land cannot tell the sea side here (both sides look like sea): use Flip sea side to set it.".to_string(),
-        (None, crate::coast::SideFinding::BothLand) => "The land cannot tell the sea side here (both sides look like land): use Flip sea side to set it.".to_string(),
-    };
-    let colour = if seg.sea.is_none() && !matches!(from_land, crate::coast::SideFinding::Sea(_)) {
-        Color32::from_rgb(170, 0, 0)
-    } else {
-        ui.visuals().text_color()
-    };
-    ui.colored_label(colour, side_text);
-    ui.horizontal(|ui| {
-        if ui.button("Flip sea side").clicked() {
-            let current = seg.sea.or(
-                match crate::coast::find_sea_side(crate::coast::Land::bundled(), &seg.points) {
-                    crate::coast::SideFinding::Sea(s) => Some(s),
-                    _ => None,
-                },
-            );
-            let next = current.map_or(SeaSide::Left, SeaSide::flipped);
-            commands.push(Command::Edit(Edit::SetSea(id.clone(), Some(next))));
-        }
-        if seg.sea.is_some() && ui.button("Find from land").clicked() {
-            commands.push(Command::Edit(Edit::SetSea(id.clone(), None)));
-        }
-    });
-    ui.separator();
-    let mut closed = seg.closure.is_some();
-    if ui.checkbox(&mut closed, "Closed to fishing").changed() {
-        let closure = closed.then(|| Closure {
-            reason: "closed".into(),
-            from: None,
-            to: None,
-        });
-        commands.push(Command::Edit(Edit::SetClosure(id.clone(), closure)));
-    }
-    if let Some(c) = &seg.closure {
-        let mut reason = c.reason.clone();
-        ui.label("Reason");
-        let r = ui.text_edit_singleline(&mut reason);
-        if r.lost_focus() && reason != c.reason {
-            commands.push(Command::Edit(Edit::SetClosure(
-                id.clone(),
-                Some(Closure {
-                    reason,
-                    ..c.clone()
-                }),
-            )));
-        }
-        let mut dates = [
-            c.from.map(|d| d.to_string()).unwrap_or_default(),
-            c.to.map(|d| d.to_string()).unwrap_or_default(),
-        ];
-        ui.horizontal(|ui| {
-            ui.label("From");
-            let a = ui.add(
-                egui::TextEdit::singleline(&mut dates[0])
-                    .desired_width(90.0)
-                    .hint_text("YYYY-MM-DD"),
-            );
-            ui.label("to");
-            let b = ui.add(
-                egui::TextEdit::singleline(&mut dates[1])
-                    .desired_width(90.0)
-                    .hint_text("YYYY-MM-DD"),
-            );
-            if a.lost_focus() || b.lost_focus() {
-                let parse = |s: &str| {
-                    if s.trim().is_empty() {
-                        Ok(None)
-                    } else {
-                        chrono::NaiveDate::parse_from_str(s.trim(), "%Y-%m-%d").map(Some)
-                    }
-                };
-                match (parse(&dates[0]), parse(&dates[1])) {
-                    (Ok(from), Ok(to)) => {
-                        if from != c.from || to != c.to {
-                            commands.push(Command::Edit(Edit::SetClosure(
-                                id.clone(),
-                                Some(Closure {
-                                    from,
-                                    to,
-                                    ..c.clone()
-                                }),
-                            )));
-                        }
-                    }
-                    _ => {
-                        app.dialogs.error =
-                            Some("Closure dates: expected YYYY-MM-DD, e.g. 2027-05-31.".into());
-                    }
-                }
-            }
-        });
-    }
-    ui.separator();
-    ui.label(RichText::new("On the map: drag the yellow points to move them; click a + to add a point; right-click a point to remove it.").small());
-    ui.label(format!("{} points", seg.points.len()));
-    if seg.points.len() > 2 {
-        ui.horizontal(|ui| {
-            ui.label("Split at point");
-            for k in 1..seg.points.len() - 1 {
-                if ui.small_button(format!("{}", k + 1)).clicked() {
-                    commands.push(Command::Edit(Edit::Split(id.clone(), k)));
-                }
-            }
-        });
-    }
-    ui.separator();
-    if ui
-        .button(RichText::new("Delete segment…").color(Color32::from_rgb(170, 0, 0)))
-        .clicked()
-    {
-        app.dialogs.confirm_delete = Some(id.clone());
-    }
 }
 
-fn windows_ui(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mut Vec<Command>) {
-    if app.dialogs.show_cautions {
-        egui::Window::new("Before you use Shelfwind").collapsible(false).resizable(false).anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0]).show(ctx, |ui| {
-            ui.set_max_width(520.0);
-            ui.label(RichText::new("Shelfwind is not a navigation aid.").heading());
-            ui.label("It estimates where wind-driven upwelling may make the water productive. It is no substitute for official marine forecasts and warnings.");
-            ui.label("The skipper decides. Check the official forecast before you go, respect closures, protected areas and local regulations, and set your boat's limits yourself.");
-            ui.label("Expected productivity is a planning estimate from a simple model, not a promise of fish.");
-            ui.label(RichText::new(CAUTIONS).small().weak());
-            if ui.button("I understand").clicked() {
-                app.dialogs.show_cautions = false;
-                app.remembered.cautions_accepted = true;
-            }
+/// One ranked stretch: rank, name, score bar, safe window and reasons.
+fn ranked_entry_ui(
+    plan: &Plan,
+    date: chrono::NaiveDate,
+    r: &RankedStretch,
+    selected: bool,
+    ui: &mut egui::Ui,
+    commands: &mut Vec<Command>,
+) {
+    let s = &plan.stretches[r.stretch];
+    ui.horizontal(|ui| {
+        let rank = if r.tied_with_above {
+            format!("={}", r.rank)
+        } else {
+            format!("{}", r.rank)
+        };
+        let resp = ui.selectable_label(
+            selected,
+            RichText::new(format!("{rank}. {}", s.name)).strong(),
+        );
+        resp.widget_info(|| {
+            egui::WidgetInfo::selected(
+                egui::Role::ListBoxOption,
+                true,
+                selected,
+                format!("Stretch {}", s.name),
+            )
         });
-    }
-    if let Some(prompt) = &mut app.dialogs.path_prompt {
-        let mut open = true;
-        let mut go = None;
-        egui::Window::new(prompt.action.title())
-            .collapsible(false)
-            .open(&mut open)
-            .pivot(egui::Align2::CENTER_CENTER)
-            .default_pos(ctx.content_rect().center())
-            .show(ctx, |ui| {
-                if let Some(note) = &prompt.note {
-                    ui.colored_label(Color32::from_rgb(150, 60, 0), note);
-                }
-                let label = ui.label("File path");
-                let r = ui
-                    .add(egui::TextEdit::singleline(&mut prompt.text).desired_width(460.0))
-                    .labelled_by(label.id);
-                ui.label(
-                    RichText::new(format!("({})", prompt.action.extensions().join(", ")))
-                        .small()
-                        .weak(),
-                );
-                let enter = r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
-                ui.horizontal(|ui| {
-                    let ok = if prompt.action.writes() {
-                        "Save here"
-                    } else {
-                        "Open"
-                    };
-                    if (ui.button(ok).clicked() || enter) && !prompt.text.trim().is_empty() {
-                        go = Some(std::path::PathBuf::from(prompt.text.trim()));
-                    }
-                    if prompt.native.is_some() {
-                        ui.spinner();
-                        ui.label("or pick it in the system dialog");
-                    }
-                });
+        if resp.clicked() {
+            let add = ui.input(|i| i.modifiers.command || i.modifiers.shift);
+            commands.push(Command::SelectStretch {
+                id: s.id.clone(),
+                add,
             });
-        if let Some(path) = go {
-            commands.push(Command::File(prompt.action, path));
-        } else if !open {
-            app.dialogs.path_prompt = None;
         }
+        bar(ui, r.score / 100.0);
+        ui.label(format!("{:.0}", r.score)).on_hover_text(format!(
+            "score = 100 × productivity {:.2} × window {:.2} × distance {:.2}",
+            r.productivity, r.window_factor, r.distance_factor
+        ));
+        if r.tied_with_above {
+            ui.label(RichText::new("tie").small());
+        }
+        if ui
+            .small_button("Show")
+            .on_hover_text("Centre the map here")
+            .clicked()
+        {
+            commands.push(Command::CentreOn(s.centre));
+        }
+    });
+    ui.indent(&s.id, |ui| {
+        let (from, to) = r.safe_window;
+        ui.label(
+            RichText::new(format!(
+                "safe {}–{} local ({}–{} UTC), {:.1} h fishing",
+                from.with_timezone(&plan.time_zone).format("%H:%M"),
+                to.with_timezone(&plan.time_zone).format("%H:%M"),
+                from.format("%H:%M"),
+                to.format("%H:%M"),
+                r.fishing_hours
+            ))
+            .small(),
+        );
+        for reason in plan_text::ranked_lines(plan, date, r) {
+            ui.label(RichText::new(format!("• {reason}")).small());
+        }
+    });
+}
+
+/// The stretches left out of the day, each with why.
+fn excluded_ui(plan: &Plan, day: &DayPlan, ui: &mut egui::Ui) {
+    if day.excluded.is_empty() {
+        return;
     }
-    if let Some(err) = app.dialogs.error.clone() {
-        egui::Window::new("Problem")
-            .collapsible(false)
-            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
-            .show(ctx, |ui| {
-                ui.set_max_width(560.0);
-                ui.label(RichText::new(&err).color(Color32::from_rgb(150, 0, 0)));
-                if ui.button("OK").clicked() {
-                    app.dialogs.error = None;
-                }
-            });
-    }
-    if let Some(info) = app.dialogs.info.clone() {
-        egui::Window::new("Done")
-            .collapsible(false)
-            .anchor(egui::Align2::RIGHT_TOP, [-20.0, 60.0])
-            .show(ctx, |ui| {
-                ui.label(&info);
-                if ui.button("OK").clicked() {
-                    app.dialogs.info = None;
-                }
-            });
-    }
-    if let Some(id) = app.dialogs.confirm_delete.clone() {
-        egui::Window::new("Delete segment?")
-            .collapsible(false)
-            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
-            .show(ctx, |ui| {
-                ui.label(format!("Delete the segment \"{id}\"? You can undo this."));
-                ui.horizontal(|ui| {
-                    if ui.button("Delete").clicked() {
-                        commands.push(Command::Edit(Edit::DeleteSegment(id.clone())));
-                        app.dialogs.confirm_delete = None;
-                    }
-                    if ui.button("Keep it").clicked() {
-                        app.dialogs.confirm_delete = None;
-                    }
-                });
-            });
-    }
-    if app.dialogs.confirm_quit {
-        egui::Window::new("Unsaved changes")
-            .collapsible(false)
-            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
-            .show(ctx, |ui| {
-                ui.label("This scenario has changes that are not saved.");
-                ui.horizontal(|ui| {
-                    if ui.button("Save").clicked() {
-                        app.dialogs.confirm_quit = false;
-                        commands.push(Command::Save);
-                    }
-                    if ui.button("Close without saving").clicked() {
-                        app.dialogs.confirm_quit = false;
-                        app.dialogs.quit_confirmed = true;
-                        commands.push(Command::DiscardRecovery);
-                        commands.push(Command::Quit);
-                    }
-                    if ui.button("Cancel").clicked() {
-                        app.dialogs.confirm_quit = false;
-                    }
-                });
-            });
-    }
-    if let Some(r) = app.dialogs.recovery.clone() {
-        egui::Window::new("Unsaved changes from last time").collapsible(false).anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0]).show(ctx, |ui| {
-            ui.label(format!("Shelfwind did not close cleanly last time. Restore the unsaved changes to \"{}\"?", r.name));
-            ui.horizontal(|ui| {
-                if ui.button("Restore").clicked() {
-                    commands.push(Command::Recover);
-                }
-                if ui.button("Discard them").clicked() {
-                    commands.push(Command::DiscardRecovery);
-                }
-            });
-        });
-    }
-    if app.season.open || app.season.pending_png_or_job() {
-        super::season_view::season_window(app, ctx);
-    }
-    if app.dialogs.show_settings {
-        super::plots::settings_window(app, ctx, commands);
-    }
+    egui::CollapsingHeader::new(format!("Not ranked ({})", day.excluded.len())).show(ui, |ui| {
+        for e in &day.excluded {
+            ui.label(
+                RichText::new(format!(
+                    "{}: {}",
+                    plan.stretches[e.stretch].name,
+                    plan_text::excluded_text(plan, e)
+                ))
+                .small(),
+            );
+        }
+    });
 }

@@ -7,7 +7,7 @@ use super::jobs::PlanJob;
 use super::land_layer::LandMesh;
 use crate::coast::{Land, LatLon};
 use crate::plan::Plan;
-use crate::scenario::{Scenario, demo_scenario};
+use crate::scenario::Scenario;
 use chrono::{DateTime, Utc};
 use eframe::egui;
 use serde::{Deserialize, Serialize};
@@ -144,9 +144,9 @@ pub struct View {
     pub show_plots: bool,
     /// Base layer of the map.
     pub base_layer: BaseLayer,
-    /// Vertex handles drawn last frame (segment id, vertex index, screen position), for
-    /// starting drags before the map pans.
-    pub handles: Vec<(String, usize, egui::Pos2)>,
+    /// Handles of the edited segment drawn last frame, for starting drags before the
+    /// map pans.
+    pub handles: Vec<super::map::Handle>,
     /// A vertex being dragged.
     pub vertex_drag: Option<VertexDrag>,
     /// Centre the map here on the next frame.
@@ -155,6 +155,8 @@ pub struct View {
     pub fit_coast: bool,
     /// List every ranked stretch, not only the first ones.
     pub show_all_ranked: bool,
+    /// The segment editor's fields as typed.
+    pub segment_draft: super::editor::SegmentDraft,
 }
 
 /// Dialogs and messages.
@@ -206,7 +208,15 @@ pub struct ShelfwindApp {
     pub dialogs: Dialogs,
     pub(super) map_memory: walkers::MapMemory,
     pub(super) tiles: Option<walkers::HttpTiles>,
-    pub(super) land: Arc<LandMesh>,
+    /// The land drawn on the map, once triangulated in the background.
+    pub(super) land: Option<Arc<LandMesh>>,
+    pub(super) land_task: Option<super::tasks::Task<LandMesh>>,
+    /// Opening, saving, importing or exporting a file.
+    pub(super) file_task: Option<super::tasks::Task<super::files::FileResult>>,
+    /// Writing the recovery file.
+    pub(super) autosave_task: Option<super::tasks::Task<Result<(), String>>>,
+    /// Why unsaved changes could not be kept in the recovery file, if they could not.
+    pub recovery_problem: Option<String>,
     pub(super) remembered: Remembered,
     pub(super) options: AppOptions,
     pub(super) last_autosave_s: f64,
@@ -239,8 +249,9 @@ impl ShelfwindApp {
         remembered: Remembered,
     ) -> Self {
         super::panels::style(ctx);
-        let demo = demo_scenario().unwrap_or_else(|_| Scenario {
-            name: "Empty".into(),
+        // Until the scenario (or the demo) has been read in the background.
+        let opening = Scenario {
+            name: String::new(),
             time_zone: "UTC".into(),
             segments: Vec::new(),
             ports: Vec::new(),
@@ -248,10 +259,10 @@ impl ShelfwindApp {
             wind_files: Vec::new(),
             settings: crate::scenario::ModelSettings::default(),
             notes: String::new(),
-        });
+        };
         let mut app = Self {
             doc: Document {
-                scenario: demo,
+                scenario: opening,
                 path: None,
                 base_dir: PathBuf::new(),
                 dirty: false,
@@ -278,7 +289,12 @@ impl ShelfwindApp {
             },
             map_memory: walkers::MapMemory::default(),
             tiles: None,
-            land: Arc::new(LandMesh::new(Land::bundled())),
+            land: None,
+            land_task: super::tasks::Task::spawn("land", ctx, || LandMesh::new(Land::bundled()))
+                .ok(),
+            file_task: None,
+            autosave_task: None,
+            recovery_problem: None,
             remembered,
             options,
             last_autosave_s: 0.0,
@@ -292,10 +308,7 @@ impl ShelfwindApp {
         }
         // Open what was asked, or the last scenario; the demo otherwise.
         let to_open = open.or_else(|| app.remembered.last_scenario.clone().filter(|p| p.exists()));
-        app.open_demo();
-        if let Some(path) = to_open {
-            app.open_scenario(&path);
-        }
+        app.open_at_start(ctx, to_open);
         app.dialogs.recovery = super::files::find_recovery(&app.options, app.doc.path.as_deref());
         app
     }
@@ -314,13 +327,7 @@ impl ShelfwindApp {
     /// Whether a plan job is running.
     #[must_use]
     pub fn is_busy(&self) -> bool {
-        self.job.is_some() || self.plan_stale
-    }
-
-    /// The undo stack's depth (for tests and the menu).
-    #[must_use]
-    pub fn undo_depth(&self) -> usize {
-        self.undo.len()
+        self.job.is_some() || self.plan_stale || self.file_task.is_some()
     }
 
     /// Queues a command, applied after drawing.
@@ -333,6 +340,11 @@ impl eframe::App for ShelfwindApp {
     fn ui(&mut self, ui: &mut egui::Ui, _frame: &mut eframe::Frame) {
         let ctx = ui.ctx().clone();
         self.poll_job(&ctx);
+        self.poll_file_task();
+        if let Some(mesh) = self.land_task.as_ref().and_then(super::tasks::Task::poll) {
+            self.land_task = None;
+            self.land = mesh.ok().map(Arc::new);
+        }
         self.handle_close(&ctx);
         self.handle_dropped_files(&ctx);
         self.handle_keys(&ctx);
@@ -342,10 +354,11 @@ impl eframe::App for ShelfwindApp {
         for c in commands {
             self.apply(c, &ctx);
         }
-        if self.plan_stale && self.job.is_none() {
+        if self.plan_stale && self.job.is_none() && self.file_task.is_none() {
             self.start_plan_job(&ctx, None);
         }
-        if self.job.is_some() || self.view.playing || self.map_memory.animating() {
+        let working = self.job.is_some() || self.file_task.is_some() || self.land_task.is_some();
+        if working || self.view.playing || self.map_memory.animating() {
             ctx.request_repaint_after(std::time::Duration::from_millis(100));
         }
     }

@@ -52,6 +52,12 @@ impl LatLon {
     }
 }
 
+/// Whether a polyline has at least two different points (is a line, not a point).
+#[must_use]
+pub fn is_a_line(points: &[LatLon]) -> bool {
+    points.windows(2).any(|w| w[0] != w[1])
+}
+
 /// Great-circle distance by the haversine formula (Sinnott 1984).
 ///
 /// # Units

@@ -61,65 +61,130 @@ fn describe(v: &Value) -> String {
     }
 }
 
-/// Reads coast segments from GeoJSON text.
-pub fn read_coast_geojson(text: &str) -> Result<Vec<CoastSegment>, CoastError> {
-    let root: Value = serde_json::from_str(text).map_err(|e| CoastError::Json {
+/// The coast error for text that is not JSON.
+fn json_error(e: &serde_json::Error) -> CoastError {
+    CoastError::Json {
         line: e.line(),
         column: e.column(),
+        // The parser appends the position to its message; the error shows it apart.
         message: e
             .to_string()
             .split(" at line")
             .next()
             .unwrap_or_default()
             .to_string(),
-    })?;
+    }
+}
+
+/// The `features` array of a FeatureCollection.
+fn feature_list(root: &Value) -> Result<&Vec<Value>, CoastError> {
     if root.get("type").and_then(Value::as_str) != Some("FeatureCollection") {
         return Err(CoastError::NotFeatureCollection {
-            found: describe(&root),
+            found: describe(root),
         });
     }
-    let features = root
-        .get("features")
+    root.get("features")
         .and_then(Value::as_array)
         .ok_or_else(|| CoastError::NotFeatureCollection {
             found: "a FeatureCollection without a \"features\" array".into(),
-        })?;
+        })
+}
+
+/// Reads coast segments from GeoJSON text.
+pub fn read_coast_geojson(text: &str) -> Result<Vec<CoastSegment>, CoastError> {
+    let root: Value = serde_json::from_str(text).map_err(|e| json_error(&e))?;
+    let features = feature_list(&root)?;
     let mut segments = Vec::with_capacity(features.len());
     let mut seen: HashMap<String, usize> = HashMap::new();
     for (k, feature) in features.iter().enumerate() {
-        let number = k + 1;
+        segments.push(FeatureReader::new(k + 1, feature).read(&mut seen)?);
+    }
+    if segments.is_empty() {
+        return Err(CoastError::Empty);
+    }
+    Ok(segments)
+}
+
+/// One feature being turned into a coast segment.
+struct FeatureReader<'a> {
+    /// 1-based position in the `features` array.
+    number: usize,
+    /// ` ("id")` when the feature has a string id, else empty.
+    label: String,
+    feature: &'a Value,
+    props: Option<&'a Map<String, Value>>,
+}
+
+impl<'a> FeatureReader<'a> {
+    /// Prepares to read feature `number` (1-based).
+    fn new(number: usize, feature: &'a Value) -> Self {
         let props = feature.get("properties").and_then(Value::as_object);
-        let id_value = props.and_then(|p| p.get("id"));
-        let label = match id_value {
+        let label = match props.and_then(|p| p.get("id")) {
             Some(Value::String(s)) => format!(" ({s:?})"),
             _ => String::new(),
         };
-        let fail = |problem: String| CoastError::Feature {
+        Self {
             number,
-            label: label.clone(),
-            problem,
-        };
-        let id = match id_value {
-            None | Some(Value::Null) => format!("seg-{number}"),
-            Some(Value::String(s)) if !s.trim().is_empty() => s.trim().to_string(),
-            Some(other) => {
-                return Err(fail(format!(
-                    "property \"id\" is {}: expected a non-empty string",
-                    describe(other)
-                )));
-            }
-        };
-        if let Some(first) = seen.insert(id.clone(), number) {
-            return Err(fail(format!(
-                "id {id:?} is already used by feature {first}"
-            )));
+            label,
+            feature,
+            props,
         }
-        let geometry = feature
+    }
+
+    /// An error about this feature.
+    fn fail(&self, problem: String) -> CoastError {
+        CoastError::Feature {
+            number: self.number,
+            label: self.label.clone(),
+            problem,
+        }
+    }
+
+    /// A property, `None` when absent.
+    fn prop(&self, key: &str) -> Option<&'a Value> {
+        self.props.and_then(|p| p.get(key))
+    }
+
+    /// The segment, with its id recorded in `seen` so a later feature cannot reuse it.
+    fn read(&self, seen: &mut HashMap<String, usize>) -> Result<CoastSegment, CoastError> {
+        let id = self.id()?;
+        if let Some(first) = seen.insert(id.clone(), self.number) {
+            return Err(self.fail(format!("id {id:?} is already used by feature {first}")));
+        }
+        let points = self.line()?;
+        let sea = self.sea()?;
+        let closure = self.closure()?;
+        Ok(CoastSegment {
+            id,
+            name: self.text("name")?,
+            points,
+            sea,
+            notes: self.text("notes")?,
+            closure,
+        })
+    }
+
+    /// The `id` property, or `seg-<n>` when there is none.
+    fn id(&self) -> Result<String, CoastError> {
+        match self.prop("id") {
+            None | Some(Value::Null) => Ok(format!("seg-{}", self.number)),
+            Some(Value::String(s)) if !s.trim().is_empty() => Ok(s.trim().to_string()),
+            Some(other) => Err(self.fail(format!(
+                "property \"id\" is {}: expected a non-empty string",
+                describe(other)
+            ))),
+        }
+    }
+
+    /// The positions of the LineString geometry.
+    fn line(&self) -> Result<Vec<LatLon>, CoastError> {
+        let geometry = self
+            .feature
             .get("geometry")
-            .ok_or_else(|| fail("no \"geometry\": expected a LineString".into()))?;
+            .ok_or_else(|| self.fail("no \"geometry\": expected a LineString".into()))?;
         let kind = geometry.get("type").and_then(Value::as_str).unwrap_or("");
         if kind != "LineString" {
-            return Err(fail(format!(
+            return Err(self.fail(format!(
                 "geometry is {}: expected a LineString",
                 describe(geometry)
             )));
@@ -127,85 +192,81 @@ pub fn read_coast_geojson(text: &str) -> Result<Vec<CoastSegment>, CoastError> {
         let coords = geometry
             .get("coordinates")
             .and_then(Value::as_array)
-            .ok_or_else(|| fail("LineString without a \"coordinates\" array".into()))?;
+            .ok_or_else(|| self.fail("LineString without a \"coordinates\" array".into()))?;
         let points = coords
             .iter()
             .enumerate()
-            .map(|(i, c)| read_position(c).map_err(|p| fail(format!("coordinate {}: {p}", i + 1))))
+            .map(|(i, c)| {
+                read_position(c).map_err(|p| self.fail(format!("coordinate {}: {p}", i + 1)))
+            })
             .collect::<Result<Vec<_>, _>>()?;
-        let mut distinct = points.clone();
-        distinct.dedup();
-        if distinct.len() < 2 {
-            return Err(fail(
-                "a LineString needs at least two different positions".into(),
-            ));
+        if !super::is_a_line(&points) {
+            return Err(self.fail("a LineString needs at least two different positions".into()));
         }
-        let text_prop = |key: &str| -> Result<String, CoastError> {
-            match props.and_then(|p| p.get(key)) {
-                None | Some(Value::Null) => Ok(String::new()),
-                Some(Value::String(s)) => Ok(s.clone()),
-                Some(other) => Err(fail(format!(
-                    "property {key:?} is {}: expected a string",
-                    describe(other)
-                ))),
-            }
-        };
-        let sea = match props.and_then(|p| p.get("sea")) {
-            Some(Value::String(s)) if s.eq_ignore_ascii_case("left") => Some(SeaSide::Left),
-            Some(Value::String(s)) if s.eq_ignore_ascii_case("right") => Some(SeaSide::Right),
-            None | Some(Value::Null) => None,
-            Some(other) => {
-                return Err(fail(format!(
-                    "property \"sea\" is {}: expected \"left\" or \"right\"",
-                    describe(other)
-                )));
-            }
-        };
-        let date_prop = |key: &str| -> Result<Option<NaiveDate>, CoastError> {
-            let raw = text_prop(key)?;
-            if raw.is_empty() {
-                return Ok(None);
-            }
-            NaiveDate::parse_from_str(&raw, "%Y-%m-%d")
-                .map(Some)
-                .map_err(|_| {
-                    fail(format!(
-                        "property {key:?} is {raw:?}: expected a date YYYY-MM-DD"
-                    ))
-                })
-        };
-        let closed = match props.and_then(|p| p.get("closed")) {
+        Ok(points)
+    }
+
+    /// A text property; empty when absent.
+    fn text(&self, key: &str) -> Result<String, CoastError> {
+        match self.prop(key) {
+            None | Some(Value::Null) => Ok(String::new()),
+            Some(Value::String(s)) => Ok(s.clone()),
+            Some(other) => Err(self.fail(format!(
+                "property {key:?} is {}: expected a string",
+                describe(other)
+            ))),
+        }
+    }
+
+    /// A date property `YYYY-MM-DD`; `None` when absent or empty.
+    fn date(&self, key: &str) -> Result<Option<NaiveDate>, CoastError> {
+        let raw = self.text(key)?;
+        if raw.is_empty() {
+            return Ok(None);
+        }
+        NaiveDate::parse_from_str(&raw, "%Y-%m-%d")
+            .map(Some)
+            .map_err(|_| {
+                self.fail(format!(
+                    "property {key:?} is {raw:?}: expected a date YYYY-MM-DD"
+                ))
+            })
+    }
+
+    /// The `sea` property; `None` leaves the side to be found from the land.
+    fn sea(&self) -> Result<Option<SeaSide>, CoastError> {
+        match self.prop("sea") {
+            Some(Value::String(s)) if s.eq_ignore_ascii_case("left") => Ok(Some(SeaSide::Left)),
+            Some(Value::String(s)) if s.eq_ignore_ascii_case("right") => Ok(Some(SeaSide::Right)),
+            None | Some(Value::Null) => Ok(None),
+            Some(other) => Err(self.fail(format!(
+                "property \"sea\" is {}: expected \"left\" or \"right\"",
+                describe(other)
+            ))),
+        }
+    }
+
+    /// The closure to fishing, when the `closed` property is true.
+    fn closure(&self) -> Result<Option<Closure>, CoastError> {
+        let closed = match self.prop("closed") {
             None | Some(Value::Null | Value::Bool(false)) => false,
             Some(Value::Bool(true)) => true,
             Some(other) => {
-                return Err(fail(format!(
+                return Err(self.fail(format!(
                     "property \"closed\" is {}: expected true or false",
                     describe(other)
                 )));
             }
         };
-        let closure = if closed {
-            Some(Closure {
-                reason: text_prop("closed_reason")?,
-                from: date_prop("closed_from")?,
-                to: date_prop("closed_to")?,
-            })
-        } else {
-            None
-        };
-        segments.push(CoastSegment {
-            id,
-            name: text_prop("name")?,
-            points,
-            sea,
-            notes: text_prop("notes")?,
-            closure,
-        });
+        if !closed {
+            return Ok(None);
+        }
+        Ok(Some(Closure {
+            reason: self.text("closed_reason")?,
+            from: self.date("closed_from")?,
+            to: self.date("closed_to")?,
+        }))
     }
-    if segments.is_empty() {
-        return Err(CoastError::Empty);
-    }
-    Ok(segments)
 }
 
 /// Writes coast segments as a GeoJSON FeatureCollection that [`read_coast_geojson`]

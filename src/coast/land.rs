@@ -117,14 +117,16 @@ impl Land {
     /// The bundled Natural Earth 4.1.0 land at 1:50m, parsed on first use and kept for
     /// the life of the program.
     ///
-    /// The file is embedded in the binary and checked by a test; were it ever unreadable
-    /// this returns land with no rings (everything sea), so that the sea side of a line
-    /// comes out as [`SideFinding::BothSea`] and the user is asked.
+    /// # Panics
+    /// The file is embedded in the binary at build time, not read from a user, and
+    /// `the_bundled_file_parses_whole` checks it: a build whose land cannot be read is
+    /// broken, and stops here rather than silently taking the whole world for sea.
     #[must_use]
     pub fn bundled() -> &'static Land {
         static BUNDLED: OnceLock<Land> = OnceLock::new();
         BUNDLED.get_or_init(|| {
-            Land::from_bytes(BUNDLED_LAND_FILE).unwrap_or_else(|_| Land::from_rings(Vec::new()))
+            Land::from_bytes(BUNDLED_LAND_FILE)
+                .expect("the bundled land file is checked by the_bundled_file_parses_whole")
         })
     }
 

@@ -10,7 +10,7 @@ mod segment;
 
 pub use drawn::{Closure, CoastSegment};
 pub use geodesy::{
-    EARTH_MEAN_RADIUS_M, LatLon, destination, distance_m, initial_bearing_deg, midpoint,
+    EARTH_MEAN_RADIUS_M, LatLon, destination, distance_m, initial_bearing_deg, is_a_line, midpoint,
 };
 pub use geojson::{CoastError, read_coast_geojson, write_coast_geojson};
 pub use land::{Land, LandError, SideFinding, find_sea_side};

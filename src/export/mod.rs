@@ -10,5 +10,5 @@ mod trip_sheet;
 
 pub use index_table::{IndexFormat, IndexRecord, index_records, write_index};
 pub use plan_out::{GPX_STRETCHES_PER_DAY, PlanFormat, render_plan};
-pub use season_out::{SeasonFormat, render_seasons};
+pub use season_out::{SeasonFormat, flag_text, render_seasons};
 pub use trip_sheet::trip_sheet_html;

@@ -286,6 +286,7 @@ fn ranked_json(plan: &Plan, date: chrono::NaiveDate, r: &RankedStretch) -> Value
             "mean_index_m3s_per_100m": mean.map(|m| round_to(m, 1)),
             "pumping_m_day": pumping.map(|p| round_to(p, 3)),
         },
+        "ekman_depth_m": s.day(date).and_then(|d| d.mean_ekman_depth_m).map(f64::round),
         "safe_from_utc": r.safe_window.0.to_rfc3339_opts(chrono::SecondsFormat::Secs, true),
         "safe_to_utc": r.safe_window.1.to_rfc3339_opts(chrono::SecondsFormat::Secs, true),
         "safe_from_local": local(plan, r.safe_window.0),

@@ -1,7 +1,7 @@
 //! The season comparison for a co-op's members: one row per segment and season with the
 //! metrics, then the climatology of each segment (mean across complete seasons).
 
-use crate::upwelling::SegmentSeasons;
+use crate::upwelling::{SeasonFlag, SegmentSeasons};
 use serde_json::json;
 use std::fmt::Write as _;
 
@@ -57,6 +57,19 @@ pub fn render_seasons(segments: &[SegmentSeasons], format: SeasonFormat) -> Stri
     }
 }
 
+/// Why a season has no metrics, in words (empty when it has them).
+#[must_use]
+pub fn flag_text(flag: Option<&SeasonFlag>) -> String {
+    match flag {
+        None => String::new(),
+        Some(SeasonFlag::Incomplete { coverage, needed }) => format!(
+            "incomplete: {:.0} % of days have data, {:.0} % needed",
+            100.0 * coverage,
+            100.0 * needed
+        ),
+    }
+}
+
 fn table(segments: &[SegmentSeasons]) -> String {
     let mut o = String::new();
     let _ = writeln!(
@@ -96,7 +109,7 @@ fn table(segments: &[SegmentSeasons]) -> String {
                 y.length_days.map(|l| l.to_string()).unwrap_or_default(),
                 y.event_count,
                 opt(y.total_upwelling, 0),
-                y.flag
+                flag_text(y.flag.as_ref())
             );
         }
         let c = &s.climatology;
@@ -168,7 +181,7 @@ fn csv(segments: &[SegmentSeasons]) -> String {
                 String::new(),
             ];
             row.extend(y.monthly_mean.iter().map(|m| opt(*m, 2)));
-            row.push(y.flag.clone());
+            row.push(flag_text(y.flag.as_ref()));
             let _ = w.write_record(&row);
         }
         let c = &s.climatology;

@@ -1,6 +1,6 @@
 //! Ekman transport, the coastal upwelling index, and Ekman layer depth.
 
-use super::{WindStress, coriolis_parameter};
+use super::WindStress;
 
 /// Ekman volume transport per unit width of coast.
 ///
@@ -58,24 +58,9 @@ pub fn upwelling_index_m3s_per_100m(transport: EkmanTransport, offshore_bearing_
     100.0 * (transport.x_m2_s * beta.sin() + transport.y_m2_s * beta.cos())
 }
 
-/// Theoretical Ekman layer depth `D = pi sqrt(2 Az / |f|)` (Ekman 1905).
-///
-/// # Units
-/// `eddy_viscosity_m2_s` (Az) in m^2/s, `lat_deg` degrees; result in metres.
-///
-/// ```
-/// # use shelfwind::physics::ekman_depth_theoretical_m;
-/// // REFERENCES.md: at 45°, Az = 0.01 m^2/s → 43.8 m.
-/// assert!((ekman_depth_theoretical_m(0.01, 45.0) - 43.8).abs() < 0.05);
-/// ```
-#[must_use]
-pub fn ekman_depth_theoretical_m(eddy_viscosity_m2_s: f64, lat_deg: f64) -> f64 {
-    std::f64::consts::PI * (2.0 * eddy_viscosity_m2_s / coriolis_parameter(lat_deg).abs()).sqrt()
-}
-
 /// Empirical Ekman layer depth `D_E = 7.6 U10 / sqrt(sin|lat|)` (Ekman 1905, as given
 /// in common physical-oceanography texts; from memory, REFERENCES.md), valid for
-/// |lat| ≥ 10°.
+/// |lat| ≥ 10°: a hint of how deep the water that comes up starts.
 ///
 /// # Units
 /// `wind_speed_m_s` m/s, `lat_deg` degrees; result metres.
@@ -84,20 +69,12 @@ pub fn ekman_depth_empirical_m(wind_speed_m_s: f64, lat_deg: f64) -> f64 {
     7.6 * wind_speed_m_s / lat_deg.abs().to_radians().sin().sqrt()
 }
 
-/// Empirical Ekman surface current `V0 = 0.0127 U10 / sqrt(sin|lat|)` (same source as
-/// [`ekman_depth_empirical_m`]), valid for |lat| ≥ 10°.
-///
-/// # Units
-/// `wind_speed_m_s` m/s, `lat_deg` degrees; result m/s.
-#[must_use]
-pub fn surface_current_empirical_m_s(wind_speed_m_s: f64, lat_deg: f64) -> f64 {
-    0.0127 * wind_speed_m_s / lat_deg.abs().to_radians().sin().sqrt()
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::physics::{ConstantDrag, RHO_AIR_KG_M3, RHO_WATER_KG_M3, Wind, wind_stress};
+    use crate::physics::{
+        ConstantDrag, RHO_AIR_KG_M3, RHO_WATER_KG_M3, Wind, coriolis_parameter, wind_stress,
+    };
     use approx::assert_abs_diff_eq;
 
     fn index(lat: f64, beta: f64, speed: f64, from: f64) -> f64 {
@@ -137,15 +114,11 @@ mod tests {
         assert_abs_diff_eq!(index(5.0, 270.0, 10.0, 0.0), 1217.0, epsilon = 1.5);
     }
 
-    /// REFERENCES.md "Ekman layer depth": 10 m/s at 45° → D_E = 90.4 m, V0 = 0.151 m/s.
+    /// REFERENCES.md "Ekman layer depth": 10 m/s at 45° → D_E = 90.4 m (either
+    /// hemisphere).
     #[test]
-    fn empirical_depth_and_current() {
+    fn empirical_depth() {
         assert_abs_diff_eq!(ekman_depth_empirical_m(10.0, 45.0), 90.4, epsilon = 0.05);
-        assert_abs_diff_eq!(
-            surface_current_empirical_m_s(10.0, 45.0),
-            0.151,
-            epsilon = 5e-4
-        );
-        assert_abs_diff_eq!(ekman_depth_theoretical_m(0.01, -45.0), 43.8, epsilon = 0.05);
+        assert_abs_diff_eq!(ekman_depth_empirical_m(10.0, -45.0), 90.4, epsilon = 0.05);
     }
 }

@@ -18,11 +18,13 @@ pub use coriolis::{
 };
 pub use drag::{ConstantDrag, DragChoice, DragLaw, LargePond1981, LargeYeager2009, Trenberth1990};
 pub use ekman::{
-    EkmanTransport, ekman_depth_empirical_m, ekman_depth_theoretical_m, ekman_transport,
-    surface_current_empirical_m_s, upwelling_index_m3s_per_100m,
+    EkmanTransport, ekman_depth_empirical_m, ekman_transport, upwelling_index_m3s_per_100m,
 };
 pub use pumping::{ProbeStress, PumpingProbes, ekman_pumping_m_s};
-pub use stress::{RHO_AIR_KG_M3, RHO_WATER_KG_M3, WindStress, wind_stress};
+pub use stress::{
+    RHO_AIR_KG_M3, RHO_AIR_RANGE_KG_M3, RHO_WATER_KG_M3, RHO_WATER_RANGE_KG_M3, WindStress,
+    wind_stress,
+};
 pub use units::{
     KMH_IN_M_S, KNOT_IN_M_S, NAUTICAL_MILE_M, Wind, bearing_deg, km_h_to_m_s, knots_to_m_s,
     m_s_to_knots,

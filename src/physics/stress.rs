@@ -7,6 +7,14 @@ pub const RHO_AIR_KG_M3: f64 = 1.22;
 /// Default sea-water density, kg/m^3.
 pub const RHO_WATER_KG_M3: f64 = 1025.0;
 
+/// Air densities accepted anywhere a user sets one, kg/m^3 (near-surface air is about
+/// 1.1–1.4; the range leaves room without letting a typo through).
+pub const RHO_AIR_RANGE_KG_M3: std::ops::RangeInclusive<f64> = 0.5..=2.0;
+
+/// Sea-water densities accepted anywhere a user sets one, kg/m^3 (fresh water 1000,
+/// open ocean about 1020–1030).
+pub const RHO_WATER_RANGE_KG_M3: std::ops::RangeInclusive<f64> = 950.0..=1100.0;
+
 /// Wind stress on the sea surface.
 ///
 /// # Units

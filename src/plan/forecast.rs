@@ -8,12 +8,13 @@ use crate::coast::{Land, LatLon, Segment, destination, distance_m, initial_beari
 use crate::localtime::local_day;
 use crate::physics::{
     LatitudeCheck, NAUTICAL_MILE_M, ProbeStress, PumpingProbes, Wind, check_latitude,
-    coriolis_parameter, ekman_pumping_m_s, ekman_transport, m_s_to_knots, wind_stress,
+    coriolis_parameter, ekman_depth_empirical_m, ekman_pumping_m_s, ekman_transport, m_s_to_knots,
+    wind_stress,
 };
 use crate::progress::Progress;
 use crate::upwelling::{
-    EventSettings, IndexSettings, ResponseSettings, UpwellingDay, UpwellingEvent, daily_upwelling,
-    detect_events, index_series,
+    EventSettings, HourlySeries, IndexSettings, ResponseSettings, UpwellingDay, UpwellingEvent,
+    daily_upwelling, detect_events, index_series,
 };
 use crate::wind::{
     Conditions, GroupWind, PointGroup, SegmentWind, SourceIdentity, WindError, WindSource,
@@ -59,6 +60,8 @@ pub struct StretchHour {
     pub pumping_m_s: Option<f64>,
     /// Ekman transport at the centre, toward east and north, m^2/s.
     pub transport_m2_s: (f64, f64),
+    /// Empirical Ekman layer depth at the centre, m (`None` within 10° of the equator).
+    pub ekman_depth_m: Option<f64>,
 }
 
 /// A stretch of coast and its upwelling over the forecast.
@@ -560,20 +563,21 @@ impl SampledConditions {
                     index_m3s_per_100m: index,
                     pumping_m_s: probes.and_then(|p| pumping_at(p, &l.probes, time, idx)),
                     transport_m2_s: (m.x_m2_s, m.y_m2_s),
+                    ekman_depth_m: (s.latitude == Latitude::Fine)
+                        .then(|| ekman_depth_empirical_m(wind.speed_m_s(), s.centre.lat_deg)),
                 }
             })
             .collect();
         let pumping: Vec<Option<f64>> = s.hours.iter().map(|h| h.pumping_m_s).collect();
+        let depth: Vec<Option<f64>> = s.hours.iter().map(|h| h.ekman_depth_m).collect();
         s.events = detect_events(&series.times, &series.index_m3s_per_100m, &settings.events);
-        s.days = daily_upwelling(
-            tz,
-            days,
-            &series.times,
-            &series.index_m3s_per_100m,
-            &pumping,
-            &s.events,
-            &settings.response,
-        );
+        let hourly = HourlySeries {
+            times: &series.times,
+            index_m3s_per_100m: &series.index_m3s_per_100m,
+            pumping_m_s: &pumping,
+            ekman_depth_m: &depth,
+        };
+        s.days = daily_upwelling(tz, days, &hourly, &s.events, &settings.response);
         s
     }
 }

@@ -116,6 +116,30 @@ impl Scenario {
     }
 }
 
+/// The names to show for resolved segments: the drawn segment's label, or the id.
+#[must_use]
+pub fn segment_names(scenario: Option<&Scenario>, segments: &[Segment]) -> Vec<String> {
+    segments
+        .iter()
+        .map(|seg| {
+            scenario
+                .and_then(|s| s.segments.iter().find(|c| c.id == seg.id))
+                .map_or_else(|| seg.id.clone(), |c| c.label().to_string())
+        })
+        .collect()
+}
+
+/// The settings of a long record's analysis from a scenario's.
+#[must_use]
+pub fn record_settings(scenario: &Scenario) -> crate::upwelling::RecordSettings {
+    crate::upwelling::RecordSettings {
+        index: scenario.settings.index,
+        events: scenario.settings.events,
+        coverage: scenario.settings.seasons,
+        years: None,
+    }
+}
+
 /// The whole pipeline at once, for the command line and tests: sample the sources,
 /// compute the upwelling, rank for the chosen boat and port.
 pub fn plan_scenario(

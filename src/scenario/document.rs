@@ -1,6 +1,7 @@
 //! What a scenario holds, and the checks that keep its values valid.
 
 use crate::coast::{CoastSegment, LatLon};
+use crate::physics::{RHO_AIR_RANGE_KG_M3, RHO_WATER_RANGE_KG_M3};
 pub use crate::plan::{Port, TripSettings, Vessel};
 use crate::upwelling::{CoverageSettings, EventSettings, IndexSettings, ResponseSettings};
 use serde::{Deserialize, Serialize};
@@ -108,135 +109,163 @@ fn unique<'a>(kind: &str, ids: impl Iterator<Item = &'a str>) -> Result<(), Stri
 impl Scenario {
     /// Checks every value a user could have typed wrong, naming the item.
     pub fn validate(&self) -> Result<(), String> {
+        self.check_time_zone()?;
+        unique("segment", self.segments.iter().map(|s| s.id.as_str()))?;
+        unique("port", self.ports.iter().map(|p| p.id.as_str()))?;
+        unique("vessel", self.vessels.iter().map(|v| v.id.as_str()))?;
+        for (k, s) in self.segments.iter().enumerate() {
+            check_segment(&format!("segment {} ({:?})", k + 1, s.id), s)?;
+        }
+        for (k, p) in self.ports.iter().enumerate() {
+            check_position(&format!("port {} ({:?})", k + 1, p.id), p.position)?;
+        }
+        for (k, v) in self.vessels.iter().enumerate() {
+            check_vessel(&format!("vessel {} ({:?})", k + 1, v.id), v)?;
+        }
+        check_settings(&self.settings)
+    }
+
+    /// Checks that the time zone is a known IANA name.
+    fn check_time_zone(&self) -> Result<(), String> {
         self.time_zone.parse::<chrono_tz::Tz>().map_err(|_| {
             format!(
                 "time_zone {:?} is not an IANA time zone name such as \"Europe/Lisbon\"",
                 self.time_zone
             )
         })?;
-        unique("segment", self.segments.iter().map(|s| s.id.as_str()))?;
-        unique("port", self.ports.iter().map(|p| p.id.as_str()))?;
-        unique("vessel", self.vessels.iter().map(|v| v.id.as_str()))?;
-        for (k, s) in self.segments.iter().enumerate() {
-            let what = format!("segment {} ({:?})", k + 1, s.id);
-            let mut distinct = s.points.clone();
-            distinct.dedup();
-            if distinct.len() < 2 {
-                return Err(format!("{what}: needs at least two different points"));
-            }
-            for p in &s.points {
-                check_position(&what, *p)?;
-            }
-        }
-        for (k, p) in self.ports.iter().enumerate() {
-            check_position(&format!("port {} ({:?})", k + 1, p.id), p.position)?;
-        }
-        for (k, v) in self.vessels.iter().enumerate() {
-            let what = format!("vessel {} ({:?})", k + 1, v.id);
-            check_range(&what, "cruise_speed_kt", v.cruise_speed_kt, 1.0, 60.0, "kt")?;
-            check_range(&what, "fuel_l_per_h", v.fuel_l_per_h, 0.0, 2000.0, "l/h")?;
-            check_range(&what, "wind_limit_kt", v.wind_limit_kt, 1.0, 100.0, "kt")?;
-            check_range(&what, "range_nm", v.range_nm, 0.5, 500.0, "nm")?;
-            if let Some(w) = v.wave_limit_m {
-                check_range(&what, "wave_limit_m", w, 0.1, 20.0, "m")?;
-            }
-        }
-        let s = &self.settings;
-        check_range(
-            "settings",
-            "rho_air_kg_m3",
-            s.index.rho_air_kg_m3,
-            0.5,
-            2.0,
-            "kg/m^3",
-        )?;
-        check_range(
-            "settings",
-            "rho_water_kg_m3",
-            s.index.rho_water_kg_m3,
-            950.0,
-            1100.0,
-            "kg/m^3",
-        )?;
-        check_range(
-            "settings",
-            "stretch_length_nm",
-            s.stretch_length_nm,
-            0.5,
-            100.0,
-            "nm",
-        )?;
-        let r = &s.response;
-        let what = "settings.response";
-        check_range(what, "lag_peak_days", r.lag_peak_days, 0.5, 30.0, "days")?;
-        check_range(what, "lag_shape", r.lag_shape, 1.1, 20.0, "")?;
-        check_range(
-            what,
-            "optimum_m3s_per_100m",
-            r.optimum_m3s_per_100m,
-            1.0,
-            2000.0,
-            "m^3/s per 100 m",
-        )?;
-        check_range(
-            what,
-            "flush_scale_m3s_per_100m",
-            r.flush_scale_m3s_per_100m,
-            1.0,
-            10_000.0,
-            "m^3/s per 100 m",
-        )?;
-        check_range(
-            what,
-            "long_event_days",
-            r.long_event_days,
-            0.5,
-            60.0,
-            "days",
-        )?;
-        check_range(what, "relaxation_bonus", r.relaxation_bonus, 0.0, 1.0, "")?;
-        check_range(
-            what,
-            "relaxation_window_days",
-            r.relaxation_window_days,
-            0.5,
-            30.0,
-            "days",
-        )?;
-        check_range(
-            what,
-            "sustained_event_days",
-            r.sustained_event_days,
-            0.0,
-            60.0,
-            "days",
-        )?;
-        check_range(
-            what,
-            "pumping_width_km",
-            r.pumping_width_km,
-            0.0,
-            100.0,
-            "km",
-        )?;
-        if !(1..=120).contains(&r.lag_tail_days) {
-            return Err(format!(
-                "{what}: lag_tail_days {} is out of range: expected 1 to 120 days",
-                r.lag_tail_days
-            ));
-        }
-        let e = &s.events;
-        let what = "settings.events";
-        check_range(
-            what,
-            "threshold_m3s_per_100m",
-            e.threshold_m3s_per_100m,
-            -1000.0,
-            5000.0,
-            "m^3/s per 100 m",
-        )?;
-        check_range(what, "min_duration_h", e.min_duration_h, 0.0, 720.0, "h")?;
-        check_range(what, "max_gap_h", e.max_gap_h, 0.0, 240.0, "h")?;
-        s.trip.validate()
+        Ok(())
     }
+}
+
+/// Checks that a segment is a line between valid positions.
+fn check_segment(what: &str, s: &CoastSegment) -> Result<(), String> {
+    if !crate::coast::is_a_line(&s.points) {
+        return Err(format!("{what}: needs at least two different points"));
+    }
+    for p in &s.points {
+        check_position(what, *p)?;
+    }
+    Ok(())
+}
+
+/// Checks a boat's speed, fuel use and limits.
+fn check_vessel(what: &str, v: &Vessel) -> Result<(), String> {
+    check_range(what, "cruise_speed_kt", v.cruise_speed_kt, 1.0, 60.0, "kt")?;
+    check_range(what, "fuel_l_per_h", v.fuel_l_per_h, 0.0, 2000.0, "l/h")?;
+    check_range(what, "wind_limit_kt", v.wind_limit_kt, 1.0, 100.0, "kt")?;
+    check_range(what, "range_nm", v.range_nm, 0.5, 500.0, "nm")?;
+    if let Some(w) = v.wave_limit_m {
+        check_range(what, "wave_limit_m", w, 0.1, 20.0, "m")?;
+    }
+    Ok(())
+}
+
+/// Checks the model settings, section by section.
+fn check_settings(s: &ModelSettings) -> Result<(), String> {
+    let (air, water) = (RHO_AIR_RANGE_KG_M3, RHO_WATER_RANGE_KG_M3);
+    check_range(
+        "settings",
+        "rho_air_kg_m3",
+        s.index.rho_air_kg_m3,
+        *air.start(),
+        *air.end(),
+        "kg/m^3",
+    )?;
+    check_range(
+        "settings",
+        "rho_water_kg_m3",
+        s.index.rho_water_kg_m3,
+        *water.start(),
+        *water.end(),
+        "kg/m^3",
+    )?;
+    check_range(
+        "settings",
+        "stretch_length_nm",
+        s.stretch_length_nm,
+        0.5,
+        100.0,
+        "nm",
+    )?;
+    check_response(&s.response)?;
+    check_events(&s.events)?;
+    s.trip.validate()
+}
+
+/// Checks the settings of the biological response model.
+fn check_response(r: &ResponseSettings) -> Result<(), String> {
+    let what = "settings.response";
+    check_range(what, "lag_peak_days", r.lag_peak_days, 0.5, 30.0, "days")?;
+    check_range(what, "lag_shape", r.lag_shape, 1.1, 20.0, "")?;
+    check_range(
+        what,
+        "optimum_m3s_per_100m",
+        r.optimum_m3s_per_100m,
+        1.0,
+        2000.0,
+        "m^3/s per 100 m",
+    )?;
+    check_range(
+        what,
+        "flush_scale_m3s_per_100m",
+        r.flush_scale_m3s_per_100m,
+        1.0,
+        10_000.0,
+        "m^3/s per 100 m",
+    )?;
+    check_range(
+        what,
+        "long_event_days",
+        r.long_event_days,
+        0.5,
+        60.0,
+        "days",
+    )?;
+    check_range(what, "relaxation_bonus", r.relaxation_bonus, 0.0, 1.0, "")?;
+    check_range(
+        what,
+        "relaxation_window_days",
+        r.relaxation_window_days,
+        0.5,
+        30.0,
+        "days",
+    )?;
+    check_range(
+        what,
+        "sustained_event_days",
+        r.sustained_event_days,
+        0.0,
+        60.0,
+        "days",
+    )?;
+    check_range(
+        what,
+        "pumping_width_km",
+        r.pumping_width_km,
+        0.0,
+        100.0,
+        "km",
+    )?;
+    if !(1..=120).contains(&r.lag_tail_days) {
+        return Err(format!(
+            "{what}: lag_tail_days {} is out of range: expected 1 to 120 days",
+            r.lag_tail_days
+        ));
+    }
+    Ok(())
+}
+
+/// Checks the upwelling event thresholds.
+fn check_events(e: &EventSettings) -> Result<(), String> {
+    let what = "settings.events";
+    check_range(
+        what,
+        "threshold_m3s_per_100m",
+        e.threshold_m3s_per_100m,
+        -1000.0,
+        5000.0,
+        "m^3/s per 100 m",
+    )?;
+    check_range(what, "min_duration_h", e.min_duration_h, 0.0, 720.0, "h")?;
+    check_range(what, "max_gap_h", e.max_gap_h, 0.0, 240.0, "h")
 }

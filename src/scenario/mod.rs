@@ -6,7 +6,7 @@ mod demo;
 mod document;
 mod file;
 
-pub use compose::{PlanChoice, plan_scenario};
+pub use compose::{PlanChoice, plan_scenario, record_settings, segment_names};
 pub use demo::{
     DEMO_FORECAST_FILE, DEMO_SCENARIO_FILE, DEMO_SCENARIO_JSON, demo_scenario, write_demo,
 };

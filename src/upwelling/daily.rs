@@ -37,6 +37,9 @@ pub struct UpwellingDay {
     pub mean_index_m3s_per_100m: Option<f64>,
     /// Mean Ekman pumping just offshore, m/s, where a grid gives it.
     pub mean_pumping_m_s: Option<f64>,
+    /// Mean empirical Ekman layer depth, m: about how deep the water that comes up
+    /// starts (`None` within 10° of the equator, where the formula does not hold).
+    pub mean_ekman_depth_m: Option<f64>,
     /// Cumulative index from the first day, m^3/s per 100 m × days (days without wind
     /// add nothing).
     pub cumulative_m3s_per_100m_days: f64,
@@ -73,30 +76,43 @@ fn mean(values: impl Iterator<Item = f64>) -> Option<f64> {
     (n > 0).then(|| sum / n as f64)
 }
 
-/// The upwelling of every local day in `days` (consecutive), from an hourly-or-coarser
-/// series: `times` increasing, the index and the pumping at each time, and the events
-/// found in that index. Days are local days of `tz`, 23 or 25 hours long on clock-change
-/// days.
+/// An hourly-or-coarser series of one place, times increasing.
+#[derive(Debug, Clone, Copy)]
+pub struct HourlySeries<'a> {
+    /// Valid times, UTC.
+    pub times: &'a [DateTime<Utc>],
+    /// Coastal upwelling index, m^3/s per 100 m.
+    pub index_m3s_per_100m: &'a [f64],
+    /// Ekman pumping just offshore, m/s, where a grid gives it.
+    pub pumping_m_s: &'a [Option<f64>],
+    /// Empirical Ekman layer depth, m, where it holds.
+    pub ekman_depth_m: &'a [Option<f64>],
+}
+
+/// The upwelling of every local day in `days` (consecutive), from a series and the
+/// events found in its index. Days are local days of `tz`, 23 or 25 hours long on
+/// clock-change days.
 #[must_use]
 pub fn daily_upwelling(
     tz: Tz,
     days: &[NaiveDate],
-    times: &[DateTime<Utc>],
-    index_m3s_per_100m: &[f64],
-    pumping_m_s: &[Option<f64>],
+    series: &HourlySeries<'_>,
     events: &[UpwellingEvent],
     settings: &ResponseSettings,
 ) -> Vec<UpwellingDay> {
+    let times = series.times;
     let mut means = Vec::with_capacity(days.len());
     let mut inputs = Vec::with_capacity(days.len());
     let mut phases = Vec::with_capacity(days.len());
     let mut pumping = Vec::with_capacity(days.len());
+    let mut depth = Vec::with_capacity(days.len());
     for &day in days {
         let a = times.partition_point(|t| *t < local_midnight(tz, day));
         let next = day.succ_opt().unwrap_or(day);
         let b = times.partition_point(|t| *t < local_midnight(tz, next));
-        let mean_index = mean(index_m3s_per_100m[a..b].iter().copied());
-        let mean_pumping = mean(pumping_m_s[a..b].iter().filter_map(|p| *p));
+        let mean_index = mean(series.index_m3s_per_100m[a..b].iter().copied());
+        let mean_pumping = mean(series.pumping_m_s[a..b].iter().filter_map(|p| *p));
+        depth.push(mean(series.ekman_depth_m[a..b].iter().filter_map(|p| *p)));
         let phase = phase_at(events, local_noon(tz, day));
         let length_days = |k: usize| events[k].duration_h / 24.0;
         inputs.push(DayInput {
@@ -127,6 +143,7 @@ pub fn daily_upwelling(
             date: days[k],
             mean_index_m3s_per_100m: means[k],
             mean_pumping_m_s: pumping[k],
+            mean_ekman_depth_m: depth[k],
             cumulative_m3s_per_100m_days: cumulative[k],
             phase: phases[k],
             response: responses[k],
@@ -159,15 +176,14 @@ mod tests {
                 _ => 30.0,
             })
             .collect();
-        let d = daily_upwelling(
-            tz,
-            &days,
-            &times,
-            &index,
-            &vec![None; 71],
-            &[],
-            &ResponseSettings::default(),
-        );
+        let none = vec![None; 71];
+        let series = HourlySeries {
+            times: &times,
+            index_m3s_per_100m: &index,
+            pumping_m_s: &none,
+            ekman_depth_m: &none,
+        };
+        let d = daily_upwelling(tz, &days, &series, &[], &ResponseSettings::default());
         let means: Vec<_> = d.iter().map(|x| x.mean_index_m3s_per_100m).collect();
         assert_eq!(means, vec![Some(10.0), Some(20.0), Some(30.0)]);
         assert_abs_diff_eq!(d[2].cumulative_m3s_per_100m_days, 60.0);
@@ -192,5 +208,40 @@ mod tests {
             }
             other => panic!("expected after, got {other:?}"),
         }
+    }
+
+    /// Issue 19, defect 4: the long-event penalty `exp(−(L − 5)/5)` uses the event's
+    /// length L. A 10-day event at the optimum (dome 1) gives exp(−1) = 0.368 useful
+    /// upwelling from its first day, not only after its fifth.
+    #[test]
+    fn long_events_are_penalised_from_their_first_day() {
+        let tz: Tz = "UTC".parse().expect("zone");
+        let d0: NaiveDate = "2027-05-01".parse().expect("date");
+        let days: Vec<NaiveDate> = d0.iter_days().take(12).collect();
+        let t0 = local_midnight(tz, d0);
+        let times: Vec<_> = (0..288).map(|k| t0 + Duration::hours(k)).collect();
+        let settings = ResponseSettings::default();
+        let index: Vec<f64> = (0..288)
+            .map(|k| {
+                if (24..264).contains(&k) {
+                    settings.optimum_m3s_per_100m
+                } else {
+                    0.0
+                }
+            })
+            .collect();
+        let events = detect_events(&times, &index, &EventSettings::default());
+        assert_abs_diff_eq!(events[0].duration_h, 240.0);
+        let none = vec![None; 288];
+        let series = HourlySeries {
+            times: &times,
+            index_m3s_per_100m: &index,
+            pumping_m_s: &none,
+            ekman_depth_m: &none,
+        };
+        let d = daily_upwelling(tz, &days, &series, &events, &settings);
+        assert_abs_diff_eq!(d[1].response.useful, (-1.0f64).exp(), epsilon = 1e-12);
+        assert_abs_diff_eq!(d[9].response.useful, (-1.0f64).exp(), epsilon = 1e-12);
+        assert_abs_diff_eq!(d[0].response.useful, 0.0);
     }
 }

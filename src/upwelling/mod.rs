@@ -8,11 +8,12 @@ mod response;
 mod season;
 mod seasons;
 
-pub use daily::{EventPhase, UpwellingDay, daily_upwelling};
+pub use daily::{EventPhase, HourlySeries, UpwellingDay, daily_upwelling};
 pub use events::{EventSettings, UpwellingEvent, cumulative, detect_events};
 pub use index::{IndexSeries, IndexSettings, UpwellingError, index_series};
 pub use response::{DayInput, DayResponse, ResponseSettings};
 pub use season::{SeasonMetrics, season_metrics};
 pub use seasons::{
-    Climatology, CoverageSettings, SeasonYear, SegmentSeasons, analyse_seasons, analyse_segments,
+    Climatology, CoverageSettings, RecordError, RecordSettings, SeasonFlag, SeasonYear,
+    SegmentSeasons, analyse_record, analyse_seasons, analyse_segments,
 };

@@ -72,7 +72,20 @@ pub struct SeasonYear {
     #[serde(skip)]
     pub cumulative: Vec<f64>,
     /// Why metrics are missing, if they are.
-    pub flag: String,
+    pub flag: Option<SeasonFlag>,
+}
+
+/// Why a season has no metrics.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum SeasonFlag {
+    /// Too few days have data.
+    Incomplete {
+        /// Share of the season's days with data, 0–1.
+        coverage: f64,
+        /// Share needed, 0–1.
+        needed: f64,
+    },
 }
 
 /// One segment's seasons and climatology.
@@ -88,6 +101,57 @@ pub struct SegmentSeasons {
     pub years: Vec<SeasonYear>,
     /// Across complete seasons.
     pub climatology: Climatology,
+}
+
+/// What a long record's analysis needs besides the coast and the files.
+#[derive(Debug, Clone, Copy)]
+pub struct RecordSettings {
+    /// The index: drag law and densities.
+    pub index: super::IndexSettings,
+    /// Event thresholds.
+    pub events: EventSettings,
+    /// Data needed per season.
+    pub coverage: CoverageSettings,
+    /// Only seasons from the first to the last year given.
+    pub years: Option<(i32, i32)>,
+}
+
+/// Why a long record could not be analysed.
+#[derive(Debug, thiserror::Error)]
+pub enum RecordError {
+    /// The wind files.
+    #[error(transparent)]
+    Wind(#[from] crate::wind::WindError),
+    /// A segment too near the equator.
+    #[error(transparent)]
+    Upwelling(#[from] super::UpwellingError),
+}
+
+/// Seasons of every segment over a long wind record: the files read in parallel and
+/// joined in time ([`crate::wind::assign_wind_merged`]), the index of each segment, and
+/// its seasons. `names` are the segments' names to show, in order.
+pub fn analyse_record(
+    segments: &[crate::coast::Segment],
+    names: &[String],
+    sources: &[crate::wind::WindSource],
+    settings: &RecordSettings,
+    progress: &crate::progress::Progress,
+) -> Result<Vec<SegmentSeasons>, RecordError> {
+    let winds = crate::wind::assign_wind_merged(sources, segments, progress)?;
+    let series = segments
+        .iter()
+        .zip(&winds)
+        .zip(names)
+        .map(|((seg, wind), name)| {
+            super::index_series(seg, wind, &settings.index).map(|s| (name.clone(), s))
+        })
+        .collect::<Result<Vec<_>, _>>()?;
+    Ok(analyse_segments(
+        &series,
+        settings.years,
+        &settings.coverage,
+        &settings.events,
+    ))
 }
 
 /// Seasons of every segment from its index series (names beside them).
@@ -126,8 +190,9 @@ pub fn analyse_segments(
 pub struct Climatology {
     /// Complete years used.
     pub years_used: usize,
-    /// Mean daily index by day of season (1-based index = day), and its standard
-    /// deviation across years.
+    /// Mean daily index by day of season (index 0 = the season's first day), across
+    /// years. Days are aligned by calendar date over 366 days: 29 February has a day of
+    /// its own, averaged over leap years only, so 1 March is the same day every year.
     pub daily_mean: Vec<f64>,
     /// Standard deviation of the daily index across years, by day of season.
     pub daily_sd: Vec<f64>,
@@ -277,7 +342,7 @@ pub fn analyse_seasons(
             mean_event_days,
             monthly_mean: monthly,
             cumulative: Vec::new(),
-            flag: String::new(),
+            flag: None,
         };
         if complete {
             let (filled, n_filled) = fill_gaps(&means);
@@ -290,11 +355,10 @@ pub fn analyse_seasons(
             year_out.filled_days = n_filled;
             year_out.cumulative = super::cumulative(&filled);
         } else {
-            year_out.flag = format!(
-                "incomplete: {:.0} % of days have data, {:.0} % needed",
-                100.0 * coverage_share,
-                100.0 * coverage.min_year
-            );
+            year_out.flag = Some(SeasonFlag::Incomplete {
+                coverage: coverage_share,
+                needed: coverage.min_year,
+            });
         }
         out.push((year_out, means));
     }
@@ -348,21 +412,47 @@ fn empty_climatology() -> Climatology {
     }
 }
 
+/// The day of season (0-based, 0–365) of `date` in a season starting `season_start`,
+/// counted in a season that holds a 29 February, so every calendar date has one slot.
+fn calendar_slot(season_start: NaiveDate, date: NaiveDate) -> Option<usize> {
+    // A reference season with a leap day: from 1 January 2004, or from 1 July 2003.
+    let southern = season_start.month() != 1;
+    let ref_start = if southern {
+        NaiveDate::from_ymd_opt(2003, 7, 1)?
+    } else {
+        NaiveDate::from_ymd_opt(2004, 1, 1)?
+    };
+    let year = if southern && date.month() >= 7 {
+        2003
+    } else {
+        2004
+    };
+    let on_ref = NaiveDate::from_ymd_opt(year, date.month(), date.day())?;
+    usize::try_from((on_ref - ref_start).num_days()).ok()
+}
+
 fn climatology(years: &[(SeasonYear, Vec<Option<f64>>)]) -> Climatology {
     let complete: Vec<&(SeasonYear, Vec<Option<f64>>)> =
         years.iter().filter(|(y, _)| y.complete).collect();
     if complete.is_empty() {
         return empty_climatology();
     }
-    let max_days = complete.iter().map(|(y, _)| y.days).max().unwrap_or(0);
+    // Days are aligned by calendar date, not by count from the season start: 1 March is
+    // the same day of season in every year, and 29 February has a day of its own,
+    // averaged over the leap years only.
+    let mut by_day: Vec<Vec<f64>> = vec![Vec::new(); 366];
+    for (y, m) in &complete {
+        for (d, v) in m.iter().enumerate() {
+            let date = y.season_start + chrono::Days::new(d as u64);
+            if let (Some(v), Some(slot)) = (v, calendar_slot(y.season_start, date)) {
+                by_day[slot].push(*v);
+            }
+        }
+    }
     let (mut daily_mean, mut daily_sd, mut cumulative_mean) = (Vec::new(), Vec::new(), Vec::new());
     let mut cum = 0.0;
-    for d in 0..max_days {
-        let vals: Vec<f64> = complete
-            .iter()
-            .filter_map(|(_, m)| m.get(d).copied().flatten())
-            .collect();
-        let (m, s) = mean_sd(&vals).unwrap_or((0.0, 0.0));
+    for vals in &by_day {
+        let (m, s) = mean_sd(vals).unwrap_or((0.0, 0.0));
         daily_mean.push(m);
         daily_sd.push(s);
         cum += m;
@@ -407,6 +497,20 @@ fn climatology(years: &[(SeasonYear, Vec<Option<f64>>)]) -> Climatology {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Issue 19: days of season aligned by date. 1 March is day 60 (0-based) of a
+    /// January season in leap and common years alike; 29 February is day 59; in a July
+    /// season (184 days from July to December, then 31 + 28), 29 February is day 243.
+    #[test]
+    fn days_of_season_are_aligned_by_date() {
+        let d = |s: &str| s.parse::<NaiveDate>().expect("date");
+        assert_eq!(calendar_slot(d("2027-01-01"), d("2027-03-01")), Some(60));
+        assert_eq!(calendar_slot(d("2028-01-01"), d("2028-03-01")), Some(60));
+        assert_eq!(calendar_slot(d("2028-01-01"), d("2028-02-29")), Some(59));
+        assert_eq!(calendar_slot(d("2027-07-01"), d("2028-02-29")), Some(243));
+        assert_eq!(calendar_slot(d("2026-07-01"), d("2027-03-01")), Some(244));
+        assert_eq!(calendar_slot(d("2027-01-01"), d("2027-12-31")), Some(365));
+    }
     use approx::assert_abs_diff_eq;
     use chrono::{Duration, TimeZone};
 
@@ -506,10 +610,11 @@ mod tests {
         assert_eq!(years.len(), 3);
         assert!(years[0].complete && !years[1].complete && years[2].complete);
         assert_eq!(years[1].covered_days, 305);
-        assert_eq!(
+        assert!(matches!(
             years[1].flag,
-            "incomplete: 84 % of days have data, 90 % needed"
-        );
+            Some(SeasonFlag::Incomplete { coverage, needed })
+                if (coverage - 305.0 / 365.0).abs() < 1e-12 && (needed - 0.9).abs() < 1e-12
+        ));
         assert_eq!(years[1].total_upwelling, None);
         assert_eq!(years[1].monthly_mean[10], None, "November has no data");
         assert_abs_diff_eq!(years[1].monthly_mean[6].expect("July"), 100.0);

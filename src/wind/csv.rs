@@ -22,23 +22,61 @@ const V: &[&str] = &["v_ms", "v_m_s"];
 const SPEED_MS: &[&str] = &["speed_ms", "speed_m_s", "wind_speed_ms"];
 const SPEED_KT: &[&str] = &["speed_kt", "speed_kn", "speed_knots"];
 const SPEED_KMH: &[&str] = &["speed_kmh", "speed_km_h"];
+/// When a file has speeds in several units, the first unit here is the one read.
+const SPEED_UNITS: [SpeedUnit; 3] = [
+    SpeedUnit {
+        names: SPEED_MS,
+        to_m_s: |speed_m_s| speed_m_s,
+        symbol: "m/s",
+    },
+    SpeedUnit {
+        names: SPEED_KT,
+        to_m_s: knots_to_m_s,
+        symbol: "kt",
+    },
+    SpeedUnit {
+        names: SPEED_KMH,
+        to_m_s: km_h_to_m_s,
+        symbol: "km/h",
+    },
+];
 const DIRECTION: &[&str] = &["direction_from_deg", "dir_from_deg", "wind_from_deg"];
 const LAT: &[&str] = &["lat", "latitude"];
 const LON: &[&str] = &["lon", "longitude"];
 
 /// How the wind is given in a file.
 enum WindColumns {
-    Components {
-        u: usize,
-        v: usize,
-    },
-    SpeedDirection {
-        speed: usize,
-        to_m_s: fn(f64) -> f64,
-        unit: &'static str,
-        direction: usize,
-    },
+    Components { u: usize, v: usize },
+    SpeedDirection(SpeedColumns),
 }
+
+/// A unit a speed column can be given in.
+struct SpeedUnit {
+    /// Accepted column names.
+    names: &'static [&'static str],
+    to_m_s: fn(f64) -> f64,
+    /// The unit as error messages write it.
+    symbol: &'static str,
+}
+
+/// A speed column with its unit, and the column of the direction the wind blows from.
+struct SpeedColumns {
+    speed: usize,
+    unit: &'static SpeedUnit,
+    direction: usize,
+}
+
+/// The columns named by the header, and the header's own line for errors about them.
+struct Header {
+    line: u64,
+    names: Vec<String>,
+    time: usize,
+    wind: WindColumns,
+    position: Option<(usize, usize)>,
+}
+
+/// One data row: valid time, wind and its line in the file.
+type Row = (DateTime<Utc>, Wind, u64);
 
 fn err(line: u64, problem: impl Into<String>) -> WindFileError {
     WindFileError::Csv {
@@ -116,132 +154,178 @@ fn number(
     }
 }
 
-/// Reads a CSV point series from text. Times are sorted; a repeated time is an error
-/// naming both lines.
-pub fn read_csv_series(text: &str) -> Result<PointSeries, WindFileError> {
-    let mut reader = csv::ReaderBuilder::new()
-        .comment(Some(b'#'))
-        .trim(csv::Trim::All)
-        .flexible(false)
-        .from_reader(text.as_bytes());
-    let header_record = reader.headers().map_err(|e| csv_error(&e))?.clone();
-    let header_line = header_record.position().map_or(1, csv::Position::line);
-    let headers: Vec<String> = header_record.iter().map(str::to_ascii_lowercase).collect();
-    let time_col = find(&headers, TIME).ok_or_else(|| {
-        err(
-            header_line,
-            format!(
-                "no time column: expected one of {} in the header",
-                TIME.join(", ")
-            ),
-        )
-    })?;
-    let columns = match (find(&headers, U), find(&headers, V)) {
-        (Some(u), Some(v)) => WindColumns::Components { u, v },
-        _ => {
-            let direction = find(&headers, DIRECTION);
-            let speed = find(&headers, SPEED_MS)
-                .map(|c| (c, (|x| x) as fn(f64) -> f64, "m/s"))
-                .or_else(|| {
-                    find(&headers, SPEED_KT).map(|c| (c, knots_to_m_s as fn(f64) -> f64, "kt"))
-                })
-                .or_else(|| {
-                    find(&headers, SPEED_KMH).map(|c| (c, km_h_to_m_s as fn(f64) -> f64, "km/h"))
-                });
-            match (speed, direction) {
-                (Some((speed, to_m_s, unit)), Some(direction)) => WindColumns::SpeedDirection {
-                    speed,
-                    to_m_s,
-                    unit,
-                    direction,
-                },
-                _ => {
-                    return Err(err(
-                        header_line,
-                        "no wind columns: expected u_ms and v_ms, or a speed (speed_ms, speed_kt or speed_kmh) with direction_from_deg",
-                    ));
-                }
-            }
+/// The speed column of a header, with its unit.
+fn speed_column(names: &[String]) -> Option<(usize, &'static SpeedUnit)> {
+    SPEED_UNITS
+        .iter()
+        .find_map(|unit| find(names, unit.names).map(|c| (c, unit)))
+}
+
+/// The wind columns of a header: u and v, else a speed with a direction.
+fn wind_columns(names: &[String]) -> Option<WindColumns> {
+    if let (Some(u), Some(v)) = (find(names, U), find(names, V)) {
+        return Some(WindColumns::Components { u, v });
+    }
+    let (speed, unit) = speed_column(names)?;
+    let direction = find(names, DIRECTION)?;
+    Some(WindColumns::SpeedDirection(SpeedColumns {
+        speed,
+        unit,
+        direction,
+    }))
+}
+
+/// The station position columns, which come as a pair or not at all.
+fn position_columns(names: &[String], line: u64) -> Result<Option<(usize, usize)>, WindFileError> {
+    match (find(names, LAT), find(names, LON)) {
+        (Some(lat), Some(lon)) => Ok(Some((lat, lon))),
+        (None, None) => Ok(None),
+        _ => Err(err(
+            line,
+            "a station position needs both lat and lon columns",
+        )),
+    }
+}
+
+impl Header {
+    /// Finds the time, wind and position columns of the header record.
+    fn parse(record: &csv::StringRecord) -> Result<Self, WindFileError> {
+        let line = record.position().map_or(1, csv::Position::line);
+        let names: Vec<String> = record.iter().map(str::to_ascii_lowercase).collect();
+        let time = find(&names, TIME).ok_or_else(|| {
+            err(
+                line,
+                format!(
+                    "no time column: expected one of {} in the header",
+                    TIME.join(", ")
+                ),
+            )
+        })?;
+        let wind = wind_columns(&names).ok_or_else(|| {
+            err(
+                line,
+                "no wind columns: expected u_ms and v_ms, or a speed (speed_ms, speed_kt or speed_kmh) with direction_from_deg",
+            )
+        })?;
+        let position = position_columns(&names, line)?;
+        Ok(Self {
+            line,
+            names,
+            time,
+            wind,
+            position,
+        })
+    }
+
+    /// The number in column `col` of a row, named by its header in errors.
+    fn number(
+        &self,
+        record: &csv::StringRecord,
+        col: usize,
+        line: u64,
+    ) -> Result<f64, WindFileError> {
+        number(record, col, &self.names[col], line)
+    }
+
+    /// The wind of one row.
+    fn wind(&self, record: &csv::StringRecord, line: u64) -> Result<Wind, WindFileError> {
+        match &self.wind {
+            WindColumns::Components { u, v } => Ok(Wind::new(
+                self.number(record, *u, line)?,
+                self.number(record, *v, line)?,
+            )),
+            WindColumns::SpeedDirection(columns) => self.speed_direction(record, columns, line),
         }
-    };
-    let position_cols = match (find(&headers, LAT), find(&headers, LON)) {
-        (Some(a), Some(b)) => Some((a, b)),
-        (None, None) => None,
-        _ => {
+    }
+
+    /// The wind of one row given as a speed and the direction it blows from.
+    fn speed_direction(
+        &self,
+        record: &csv::StringRecord,
+        columns: &SpeedColumns,
+        line: u64,
+    ) -> Result<Wind, WindFileError> {
+        let speed = self.number(record, columns.speed, line)?;
+        if speed < 0.0 {
             return Err(err(
-                header_line,
-                "a station position needs both lat and lon columns",
+                line,
+                format!(
+                    "column {}: speed {speed} {} is negative",
+                    self.names[columns.speed], columns.unit.symbol
+                ),
             ));
         }
-    };
-
-    let mut rows: Vec<(DateTime<Utc>, Wind, u64)> = Vec::new();
-    let mut position: Option<(LatLon, u64)> = None;
-    for result in reader.records() {
-        let record = result.map_err(|e| csv_error(&e))?;
-        let line = record.position().map_or(0, csv::Position::line);
-        let time = parse_time(record.get(time_col).unwrap_or("")).map_err(|p| err(line, p))?;
-        let wind = match columns {
-            WindColumns::Components { u, v } => Wind::new(
-                number(&record, u, &headers[u], line)?,
-                number(&record, v, &headers[v], line)?,
-            ),
-            WindColumns::SpeedDirection {
-                speed,
-                to_m_s,
-                unit,
-                direction,
-            } => {
-                let s = number(&record, speed, &headers[speed], line)?;
-                if s < 0.0 {
-                    return Err(err(
-                        line,
-                        format!("column {}: speed {s} {unit} is negative", headers[speed]),
-                    ));
-                }
-                let d = number(&record, direction, &headers[direction], line)?;
-                if !(0.0..=360.0).contains(&d) {
-                    return Err(err(
-                        line,
-                        format!(
-                            "column {}: direction {d} is out of range: expected 0 to 360 degrees",
-                            headers[direction]
-                        ),
-                    ));
-                }
-                Wind::from_speed_direction(to_m_s(s), d)
-            }
-        };
-        if let Some((lat_col, lon_col)) = position_cols {
-            let lat = number(&record, lat_col, "lat", line)?;
-            let lon = number(&record, lon_col, "lon", line)?;
-            if !(-90.0..=90.0).contains(&lat) || !(-180.0..=360.0).contains(&lon) {
-                return Err(err(
-                    line,
-                    format!(
-                        "station position {lat}, {lon} is out of range: expected lat −90..90, lon −180..360"
-                    ),
-                ));
-            }
-            let lon = if lon > 180.0 { lon - 360.0 } else { lon };
-            let here = LatLon::new(lat, lon);
-            match position {
-                None => position = Some((here, line)),
-                Some((first, first_line)) => {
-                    if (first.lat_deg - lat).abs() > 1e-4 || (first.lon_deg - lon).abs() > 1e-4 {
-                        return Err(err(
-                            line,
-                            format!(
-                                "station position {lat}, {lon} differs from {}, {} on line {first_line}: one file holds one station",
-                                first.lat_deg, first.lon_deg
-                            ),
-                        ));
-                    }
-                }
-            }
+        let direction_from_deg = self.number(record, columns.direction, line)?;
+        if !(0.0..=360.0).contains(&direction_from_deg) {
+            return Err(err(
+                line,
+                format!(
+                    "column {}: direction {direction_from_deg} is out of range: expected 0 to 360 degrees",
+                    self.names[columns.direction]
+                ),
+            ));
         }
-        rows.push((time, wind, line));
+        Ok(Wind::from_speed_direction(
+            (columns.unit.to_m_s)(speed),
+            direction_from_deg,
+        ))
     }
+
+    /// The station position of one row, when the file has position columns.
+    fn station(
+        &self,
+        record: &csv::StringRecord,
+        line: u64,
+    ) -> Result<Option<LatLon>, WindFileError> {
+        let Some((lat_col, lon_col)) = self.position else {
+            return Ok(None);
+        };
+        let lat_deg = number(record, lat_col, "lat", line)?;
+        let lon_deg = number(record, lon_col, "lon", line)?;
+        if !(-90.0..=90.0).contains(&lat_deg) || !(-180.0..=360.0).contains(&lon_deg) {
+            return Err(err(
+                line,
+                format!(
+                    "station position {lat_deg}, {lon_deg} is out of range: expected lat −90..90, lon −180..360"
+                ),
+            ));
+        }
+        // Sources on a 0..360 grid put western longitudes above 180; the coast uses −180..180.
+        let lon_deg = if lon_deg > 180.0 {
+            lon_deg - 360.0
+        } else {
+            lon_deg
+        };
+        Ok(Some(LatLon::new(lat_deg, lon_deg)))
+    }
+}
+
+/// Keeps the first station position seen and refuses a row placed elsewhere.
+fn check_one_station(
+    first: &mut Option<(LatLon, u64)>,
+    here: LatLon,
+    line: u64,
+) -> Result<(), WindFileError> {
+    let Some((first_pos, first_line)) = *first else {
+        *first = Some((here, line));
+        return Ok(());
+    };
+    if (first_pos.lat_deg - here.lat_deg).abs() > 1e-4
+        || (first_pos.lon_deg - here.lon_deg).abs() > 1e-4
+    {
+        return Err(err(
+            line,
+            format!(
+                "station position {}, {} differs from {}, {} on line {first_line}: one file holds one station",
+                here.lat_deg, here.lon_deg, first_pos.lat_deg, first_pos.lon_deg
+            ),
+        ));
+    }
+    Ok(())
+}
+
+/// Orders the rows in time, refusing an empty file or a time given twice.
+fn into_series(mut rows: Vec<Row>, header_line: u64) -> Result<WindSeries, WindFileError> {
     if rows.is_empty() {
         return Err(err(header_line, "no data rows after the header"));
     }
@@ -256,12 +340,36 @@ pub fn read_csv_series(text: &str) -> Result<PointSeries, WindFileError> {
             ),
         ));
     }
+    Ok(WindSeries {
+        times: rows.iter().map(|r| r.0).collect(),
+        wind: rows.iter().map(|r| r.1).collect(),
+    })
+}
+
+/// Reads a CSV point series from text. Times are sorted; a repeated time is an error
+/// naming both lines.
+pub fn read_csv_series(text: &str) -> Result<PointSeries, WindFileError> {
+    let mut reader = csv::ReaderBuilder::new()
+        .comment(Some(b'#'))
+        .trim(csv::Trim::All)
+        .flexible(false)
+        .from_reader(text.as_bytes());
+    let header = Header::parse(reader.headers().map_err(|e| csv_error(&e))?)?;
+    let mut rows: Vec<Row> = Vec::new();
+    let mut station: Option<(LatLon, u64)> = None;
+    for result in reader.records() {
+        let record = result.map_err(|e| csv_error(&e))?;
+        let line = record.position().map_or(0, csv::Position::line);
+        let time = parse_time(record.get(header.time).unwrap_or("")).map_err(|p| err(line, p))?;
+        let wind = header.wind(&record, line)?;
+        if let Some(here) = header.station(&record, line)? {
+            check_one_station(&mut station, here, line)?;
+        }
+        rows.push((time, wind, line));
+    }
     Ok(PointSeries {
-        position: position.map(|p| p.0),
-        series: WindSeries {
-            times: rows.iter().map(|r| r.0).collect(),
-            wind: rows.iter().map(|r| r.1).collect(),
-        },
+        position: station.map(|s| s.0),
+        series: into_series(rows, header.line)?,
     })
 }
 

@@ -326,6 +326,213 @@ struct Field {
     values: Vec<f32>,
 }
 
+impl Component {
+    /// The component's letter, as error messages spell it.
+    fn name(self) -> &'static str {
+        match self {
+            Component::U => "u",
+            Component::V => "v",
+        }
+    }
+}
+
+/// The 10 m wind fields found so far while walking a file, and what else it holds.
+#[derive(Default)]
+struct Gathered {
+    /// Per valid time, the u and v fields.
+    fields: BTreeMap<DateTime<Utc>, [Option<Field>; 2]>,
+    /// Bilinear weights per distinct grid definition, so a grid is set up once.
+    grids: HashMap<Vec<u8>, GridWeights>,
+    /// Descriptions of the fields that are not 10 m wind, for the error when none is.
+    other_params: Vec<String>,
+    /// The newest reference time among the messages with wind.
+    latest_reference: Option<DateTime<Utc>>,
+}
+
+/// An error about message `message` (1-based) of the file.
+fn message_error(message: usize, problem: String) -> WindFileError {
+    WindFileError::GribMessage { message, problem }
+}
+
+/// A UTC time as it appears in error messages.
+fn utc_stamp(t: DateTime<Utc>) -> String {
+    t.to_rfc3339_opts(chrono::SecondsFormat::Secs, true)
+}
+
+/// Reads the whole message that starts at `start`, checking its framing.
+fn read_message<R: Read + Seek>(
+    r: &mut R,
+    start: u64,
+    file_len: u64,
+    message: usize,
+) -> Result<Vec<u8>, WindFileError> {
+    let fail = |problem: String| message_error(message, problem);
+    r.seek(SeekFrom::Start(start))?;
+    let mut head = [0u8; 16];
+    let remaining = file_len - start;
+    if remaining < 16 {
+        return Err(fail(format!(
+            "is cut short: only {remaining} bytes after \"GRIB\" (truncated file?)"
+        )));
+    }
+    r.read_exact(&mut head)?;
+    if head[7] != 2 {
+        return Err(fail(format!(
+            "is GRIB edition {}: only GRIB edition 2 is read (convert the file to GRIB2)",
+            head[7]
+        )));
+    }
+    let len = u64::from_be_bytes([
+        head[8], head[9], head[10], head[11], head[12], head[13], head[14], head[15],
+    ]);
+    if len > remaining {
+        return Err(fail(format!(
+            "is cut short: it declares {len} bytes but the file ends {remaining} bytes after its start (truncated download?)"
+        )));
+    }
+    if len < 20 {
+        return Err(fail(format!(
+            "declares an impossible length of {len} bytes"
+        )));
+    }
+    let mut msg = vec![0u8; len as usize];
+    r.seek(SeekFrom::Start(start))?;
+    r.read_exact(&mut msg)?;
+    if &msg[msg.len() - 4..] != b"7777" {
+        return Err(fail("does not end with \"7777\": damaged message".into()));
+    }
+    Ok(msg)
+}
+
+impl Gathered {
+    /// Takes the 10 m wind fields of one message, sampled at `points`.
+    fn add_message(
+        &mut self,
+        message: usize,
+        msg: &[u8],
+        points: &[LatLon],
+    ) -> Result<(), WindFileError> {
+        let fail = |problem: String| message_error(message, problem);
+        let (ref_time, headers) = scan_message(msg).map_err(fail)?;
+        if headers.iter().all(|h| h.wind_component().is_none()) {
+            self.other_params
+                .extend(headers.iter().map(FieldHeader::describe));
+            return Ok(());
+        }
+        self.latest_reference = Some(self.latest_reference.map_or(ref_time, |t| t.max(ref_time)));
+        // The decoder crate may panic on damaged data; that is one bad message, not a
+        // reason to bring the whole program down.
+        let decoded = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
+            decode_message(msg, &headers, points, &mut self.grids)
+        }))
+        .map_err(|_| fail("the GRIB2 decoder failed on this message (damaged data?)".into()))?
+        .map_err(fail)?;
+        for (h, component, values) in decoded {
+            let t = valid_time(ref_time, &h).map_err(fail)?;
+            self.store(message, t, component, values)?;
+        }
+        Ok(())
+    }
+
+    /// Files one field under its valid time, refusing a second one of the same kind.
+    fn store(
+        &mut self,
+        message: usize,
+        t: DateTime<Utc>,
+        component: Component,
+        values: Vec<f32>,
+    ) -> Result<(), WindFileError> {
+        let slot = &mut self.fields.entry(t).or_default()[component as usize];
+        if let Some(first) = slot {
+            return Err(message_error(
+                message,
+                format!(
+                    "a second 10 m {} field valid at {} (the first is in message {}): ensemble members or repeated steps are not supported yet",
+                    component.name(),
+                    utc_stamp(t),
+                    first.message
+                ),
+            ));
+        }
+        *slot = Some(Field { message, values });
+        Ok(())
+    }
+
+    /// Pairs u with v at every valid time into wind series at each of `point_count`
+    /// points.
+    fn into_samples(self, point_count: usize) -> Result<Grib2Samples, WindFileError> {
+        if self.fields.is_empty() {
+            return Err(no_wind_error(self.other_params));
+        }
+        let mut times = Vec::with_capacity(self.fields.len());
+        let mut per_point: Vec<Option<Vec<Wind>>> =
+            vec![Some(Vec::with_capacity(self.fields.len())); point_count];
+        for (t, pair) in self.fields {
+            let Some((u, v)) = matched_pair(t, pair)? else {
+                continue;
+            };
+            times.push(t);
+            push_winds(&mut per_point, &u.values, &v.values);
+        }
+        Ok(Grib2Samples {
+            times,
+            points: per_point,
+            latest_reference: self.latest_reference,
+        })
+    }
+}
+
+/// The error for a file without 10 m wind, listing what it holds instead.
+fn no_wind_error(mut other_params: Vec<String>) -> WindFileError {
+    other_params.sort();
+    other_params.dedup();
+    let found = if other_params.is_empty() {
+        "nothing readable".to_string()
+    } else {
+        other_params.join(", ")
+    };
+    WindFileError::Grib(format!(
+        "no 10 m wind in the file: expected 10 m u and v (discipline 0, category 2, numbers 2 and 3, surface 103 at 10 m); found {found} (discipline/category/number)"
+    ))
+}
+
+/// The u and v fields valid at `t`, refusing one without the other; `None` when neither.
+fn matched_pair(
+    t: DateTime<Utc>,
+    [u, v]: [Option<Field>; 2],
+) -> Result<Option<(Field, Field)>, WindFileError> {
+    let lone = |f: &Field, has: &str, lacks: &str| {
+        message_error(
+            f.message,
+            format!(
+                "10 m {has} valid at {} has no matching 10 m {lacks} in the file",
+                utc_stamp(t)
+            ),
+        )
+    };
+    match (u, v) {
+        (Some(u), Some(v)) => Ok(Some((u, v))),
+        (Some(u), None) => Err(lone(&u, "u", "v")),
+        (None, Some(v)) => Err(lone(&v, "v", "u")),
+        (None, None) => Ok(None),
+    }
+}
+
+/// Appends one time step to each point's series; a point missing at any time ends up
+/// with no series (see [`Grib2Samples::points`]).
+fn push_winds(per_point: &mut [Option<Vec<Wind>>], u_m_s: &[f32], v_m_s: &[f32]) {
+    for (k, slot) in per_point.iter_mut().enumerate() {
+        if let Some(series) = slot {
+            let (uu, vv) = (f64::from(u_m_s[k]), f64::from(v_m_s[k]));
+            if uu.is_finite() && vv.is_finite() {
+                series.push(Wind::new(uu, vv));
+            } else {
+                *slot = None;
+            }
+        }
+    }
+}
+
 /// Reads every 10 m u/v field of a GRIB2 stream and samples it at `points`.
 pub fn sample_grib2<R: Read + Seek>(
     r: R,
@@ -347,133 +554,25 @@ pub fn sample_grib2_with<R: Read + Seek>(
             "the file is empty: expected GRIB2 messages".into(),
         ));
     }
-    let mut fields: BTreeMap<DateTime<Utc>, [Option<Field>; 2]> = BTreeMap::new();
-    let mut grids: HashMap<Vec<u8>, GridWeights> = HashMap::new();
-    let mut other_params: Vec<String> = Vec::new();
+    let mut gathered = Gathered::default();
     let mut pos = 0u64;
     let mut message = 0usize;
-    let mut latest_reference = None;
     while let Some(start) = find_magic(&mut r, pos)? {
         if progress.is_cancelled() {
             return Err(WindFileError::Cancelled);
         }
         progress.set(start as f32 / file_len as f32);
         message += 1;
-        let fail = |problem: String| WindFileError::GribMessage { message, problem };
-        r.seek(SeekFrom::Start(start))?;
-        let mut head = [0u8; 16];
-        let remaining = file_len - start;
-        if remaining < 16 {
-            return Err(fail(format!(
-                "is cut short: only {remaining} bytes after \"GRIB\" (truncated file?)"
-            )));
-        }
-        r.read_exact(&mut head)?;
-        if head[7] != 2 {
-            return Err(fail(format!(
-                "is GRIB edition {}: only GRIB edition 2 is read (convert the file to GRIB2)",
-                head[7]
-            )));
-        }
-        let len = u64::from_be_bytes([
-            head[8], head[9], head[10], head[11], head[12], head[13], head[14], head[15],
-        ]);
-        if len > remaining {
-            return Err(fail(format!(
-                "is cut short: it declares {len} bytes but the file ends {remaining} bytes after its start (truncated download?)"
-            )));
-        }
-        if len < 20 {
-            return Err(fail(format!(
-                "declares an impossible length of {len} bytes"
-            )));
-        }
-        let mut msg = vec![0u8; len as usize];
-        r.seek(SeekFrom::Start(start))?;
-        r.read_exact(&mut msg)?;
-        pos = start + len;
-        if &msg[msg.len() - 4..] != b"7777" {
-            return Err(fail("does not end with \"7777\": damaged message".into()));
-        }
-        let (ref_time, headers) = scan_message(&msg).map_err(fail)?;
-        if headers.iter().any(|h| h.wind_component().is_some()) {
-            latest_reference =
-                Some(latest_reference.map_or(ref_time, |t: DateTime<Utc>| t.max(ref_time)));
-        }
-        if headers.iter().all(|h| h.wind_component().is_none()) {
-            other_params.extend(headers.iter().map(FieldHeader::describe));
-            continue;
-        }
-        let decoded = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
-            decode_message(&msg, &headers, points, &mut grids)
-        }))
-        .map_err(|_| fail("the GRIB2 decoder failed on this message (damaged data?)".into()))?
-        .map_err(fail)?;
-        for (h, component, values) in decoded {
-            let t = valid_time(ref_time, &h).map_err(fail)?;
-            let slot = &mut fields.entry(t).or_default()[component as usize];
-            if let Some(first) = slot {
-                let name = if component == Component::U { "u" } else { "v" };
-                return Err(fail(format!(
-                    "a second 10 m {name} field valid at {} (the first is in message {}): ensemble members or repeated steps are not supported yet",
-                    t.to_rfc3339_opts(chrono::SecondsFormat::Secs, true),
-                    first.message
-                )));
-            }
-            *slot = Some(Field { message, values });
-        }
+        let msg = read_message(&mut r, start, file_len, message)?;
+        pos = start + msg.len() as u64;
+        gathered.add_message(message, &msg, points)?;
     }
     if message == 0 {
         return Err(WindFileError::Grib(
             "no GRIB message found: expected a GRIB2 file".into(),
         ));
     }
-    if fields.is_empty() {
-        other_params.sort();
-        other_params.dedup();
-        let found = if other_params.is_empty() {
-            "nothing readable".to_string()
-        } else {
-            other_params.join(", ")
-        };
-        return Err(WindFileError::Grib(format!(
-            "no 10 m wind in the file: expected 10 m u and v (discipline 0, category 2, numbers 2 and 3, surface 103 at 10 m); found {found} (discipline/category/number)"
-        )));
-    }
-    let mut times = Vec::with_capacity(fields.len());
-    let mut per_point: Vec<Option<Vec<Wind>>> =
-        vec![Some(Vec::with_capacity(fields.len())); points.len()];
-    for (t, [u, v]) in fields {
-        let stamp = t.to_rfc3339_opts(chrono::SecondsFormat::Secs, true);
-        let lone = |f: &Field, has: &str, lacks: &str| WindFileError::GribMessage {
-            message: f.message,
-            problem: format!(
-                "10 m {has} valid at {stamp} has no matching 10 m {lacks} in the file"
-            ),
-        };
-        let (u, v) = match (u, v) {
-            (Some(u), Some(v)) => (u, v),
-            (Some(u), None) => return Err(lone(&u, "u", "v")),
-            (None, Some(v)) => return Err(lone(&v, "v", "u")),
-            (None, None) => continue,
-        };
-        times.push(t);
-        for (k, slot) in per_point.iter_mut().enumerate() {
-            if let Some(series) = slot {
-                let (uu, vv) = (f64::from(u.values[k]), f64::from(v.values[k]));
-                if uu.is_finite() && vv.is_finite() {
-                    series.push(Wind::new(uu, vv));
-                } else {
-                    *slot = None;
-                }
-            }
-        }
-    }
-    Ok(Grib2Samples {
-        times,
-        points: per_point,
-        latest_reference,
-    })
+    gathered.into_samples(points.len())
 }
 
 /// Decodes the wind fields of one message and samples them at the points. Returns, per

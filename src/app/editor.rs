@@ -1,0 +1,373 @@
+//! The segment editor: name, notes, sea side, closure, split and delete.
+//!
+//! Text typed into a field lives in a draft kept between frames (keyed by the segment
+//! being edited) and becomes one undoable edit when the field loses focus (Enter, Tab
+//! or a click elsewhere). A value changed elsewhere (undo, redo) replaces the draft of
+//! every field not being typed in.
+
+use super::commands::Command;
+use super::edit::Edit;
+use super::state::ShelfwindApp;
+use crate::coast::{Closure, CoastSegment, Land, LatLon, SeaSide, SideFinding, find_sea_side};
+use chrono::NaiveDate;
+use eframe::egui::{self, Color32, RichText};
+
+/// The editor's text fields and what they were loaded from.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct SegmentDraft {
+    /// The segment edited.
+    pub id: String,
+    /// Its name as typed.
+    pub name: String,
+    /// Its notes as typed.
+    pub notes: String,
+    /// The closure's reason as typed.
+    pub reason: String,
+    /// The closure's first day as typed (YYYY-MM-DD).
+    pub from: String,
+    /// The closure's last day as typed.
+    pub to: String,
+    /// What is wrong with the dates typed, shown next to them.
+    pub date_error: Option<String>,
+    /// The segment as the fields were last loaded from it.
+    loaded: Option<CoastSegment>,
+    /// The sea side the land gives for these points (found once per geometry).
+    side: Option<(Vec<LatLon>, SideFinding)>,
+}
+
+fn date_text(d: Option<NaiveDate>) -> String {
+    d.map(|d| d.to_string()).unwrap_or_default()
+}
+
+/// Which of the editor's fields has the keyboard, by the ids given to them.
+#[derive(Debug, Clone, Copy)]
+struct FieldIds {
+    name: egui::Id,
+    notes: egui::Id,
+    reason: egui::Id,
+    from: egui::Id,
+    to: egui::Id,
+}
+
+impl FieldIds {
+    fn of(ui: &egui::Ui, id: &str) -> Self {
+        let f = |what: &str| ui.make_persistent_id(("segment-editor", what, id.to_string()));
+        Self {
+            name: f("name"),
+            notes: f("notes"),
+            reason: f("reason"),
+            from: f("from"),
+            to: f("to"),
+        }
+    }
+}
+
+impl SegmentDraft {
+    /// Brings the draft up to date with the stored segment: a new segment loads every
+    /// field; a changed one reloads the fields not being typed in.
+    fn sync(&mut self, seg: &CoastSegment, focused: &dyn Fn(egui::Id) -> bool, ids: FieldIds) {
+        let fresh = self.id != seg.id;
+        if !fresh && self.loaded.as_ref() == Some(seg) {
+            return;
+        }
+        let closure = seg.closure.clone().unwrap_or(Closure {
+            reason: String::new(),
+            from: None,
+            to: None,
+        });
+        let set = |field: &mut String, id: egui::Id, value: String| {
+            if fresh || !focused(id) {
+                *field = value;
+            }
+        };
+        set(&mut self.name, ids.name, seg.name.clone());
+        set(&mut self.notes, ids.notes, seg.notes.clone());
+        set(&mut self.reason, ids.reason, closure.reason);
+        set(&mut self.from, ids.from, date_text(closure.from));
+        set(&mut self.to, ids.to, date_text(closure.to));
+        if fresh {
+            self.date_error = None;
+        }
+        self.id.clone_from(&seg.id);
+        self.loaded = Some(seg.clone());
+    }
+
+    /// The sea side the land gives for these points, when the land can tell.
+    pub(super) fn sea_from_land(&mut self, points: &[LatLon]) -> Option<SeaSide> {
+        match self.side_from_land(points) {
+            SideFinding::Sea(s) => Some(s),
+            _ => None,
+        }
+    }
+
+    /// The sea side found from the land, computed again only when the points move.
+    fn side_from_land(&mut self, points: &[LatLon]) -> SideFinding {
+        match &self.side {
+            Some((p, finding)) if p == points => *finding,
+            _ => {
+                let finding = find_sea_side(Land::bundled(), points);
+                self.side = Some((points.to_vec(), finding));
+                finding
+            }
+        }
+    }
+}
+
+/// The editor panel for the segment open in it.
+pub(super) fn editor_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    let Some(id) = app.view.editing.clone() else {
+        return;
+    };
+    let Some(seg) = app
+        .doc
+        .scenario
+        .segments
+        .iter()
+        .find(|s| s.id == id)
+        .cloned()
+    else {
+        commands.push(Command::EditSegment(None));
+        return;
+    };
+    let ids = FieldIds::of(ui, &id);
+    let ctx = ui.ctx().clone();
+    let focused = |field: egui::Id| ctx.memory(|m| m.has_focus(field));
+    let draft = &mut app.view.segment_draft;
+    draft.sync(&seg, &focused, ids);
+    ui.horizontal(|ui| {
+        ui.heading("Segment");
+        if ui.button("Close").clicked() {
+            commands.push(Command::EditSegment(None));
+        }
+    });
+    ui.label(RichText::new(format!("id: {}", seg.id)).small());
+    text_fields_ui(draft, &seg, ids, ui, commands);
+    ui.separator();
+    sea_side_ui(draft, &seg, ui, commands);
+    ui.separator();
+    closure_ui(draft, &seg, ids, ui, commands);
+    ui.separator();
+    points_ui(&seg, ui, commands);
+    ui.separator();
+    if ui
+        .button(RichText::new("Delete segment…").color(Color32::from_rgb(170, 0, 0)))
+        .clicked()
+    {
+        app.dialogs.confirm_delete = Some(id);
+    }
+}
+
+/// Name and notes.
+fn text_fields_ui(
+    draft: &mut SegmentDraft,
+    seg: &CoastSegment,
+    ids: FieldIds,
+    ui: &mut egui::Ui,
+    commands: &mut Vec<Command>,
+) {
+    let label = ui.label("Segment name");
+    let r = ui
+        .add(
+            egui::TextEdit::singleline(&mut draft.name)
+                .id(ids.name)
+                .hint_text("e.g. Kelp Shelf"),
+        )
+        .labelled_by(label.id);
+    if r.lost_focus() && draft.name != seg.name {
+        commands.push(Command::Edit(Edit::Rename(
+            seg.id.clone(),
+            draft.name.clone(),
+        )));
+    }
+    let label = ui.label("Notes");
+    let r = ui
+        .add(
+            egui::TextEdit::multiline(&mut draft.notes)
+                .id(ids.notes)
+                .desired_rows(3),
+        )
+        .labelled_by(label.id);
+    if r.lost_focus() && draft.notes != seg.notes {
+        commands.push(Command::Edit(Edit::SetNotes(
+            seg.id.clone(),
+            draft.notes.clone(),
+        )));
+    }
+}
+
+/// The sea side: set by hand or found from the land, with flip and reset.
+fn sea_side_ui(
+    draft: &mut SegmentDraft,
+    seg: &CoastSegment,
+    ui: &mut egui::Ui,
+    commands: &mut Vec<Command>,
+) {
+    let from_land = draft.side_from_land(&seg.points);
+    let side_name = |s: SeaSide| if s == SeaSide::Left { "left" } else { "right" };
+    let side_text = match (seg.sea, from_land) {
+        (Some(s), _) => format!(
+            "Sea on the {}, walking from the first point (set by hand)",
+            side_name(s)
+        ),
+        (None, SideFinding::Sea(s)) => format!(
+            "Sea on the {}, found from the land (blue arrows on the map)",
+            side_name(s)
+        ),
+        (None, SideFinding::BothSea) => "The land cannot tell the sea side here (both sides look like sea): use Flip sea side to set it.".to_string(),
+        (None, SideFinding::BothLand) => "The land cannot tell the sea side here (both sides look like land): use Flip sea side to set it.".to_string(),
+    };
+    let colour = if seg.sea.is_none() && !matches!(from_land, SideFinding::Sea(_)) {
+        Color32::from_rgb(170, 0, 0)
+    } else {
+        ui.visuals().text_color()
+    };
+    ui.colored_label(colour, side_text);
+    ui.horizontal(|ui| {
+        if ui.button("Flip sea side").clicked() {
+            let current = seg.sea.or(match from_land {
+                SideFinding::Sea(s) => Some(s),
+                _ => None,
+            });
+            let next = current.map_or(SeaSide::Left, SeaSide::flipped);
+            commands.push(Command::Edit(Edit::SetSea(seg.id.clone(), Some(next))));
+        }
+        if seg.sea.is_some() && ui.button("Find from land").clicked() {
+            commands.push(Command::Edit(Edit::SetSea(seg.id.clone(), None)));
+        }
+    });
+}
+
+/// A date field's text as a date: empty is none.
+fn parse_date(s: &str) -> Result<Option<NaiveDate>, String> {
+    let s = s.trim();
+    if s.is_empty() {
+        return Ok(None);
+    }
+    NaiveDate::parse_from_str(s, "%Y-%m-%d")
+        .map(Some)
+        .map_err(|_| format!("{s:?} is not a date: expected YYYY-MM-DD, e.g. 2027-05-31"))
+}
+
+/// Closed to fishing, with the reason and the dates.
+fn closure_ui(
+    draft: &mut SegmentDraft,
+    seg: &CoastSegment,
+    ids: FieldIds,
+    ui: &mut egui::Ui,
+    commands: &mut Vec<Command>,
+) {
+    let mut closed = seg.closure.is_some();
+    if ui.checkbox(&mut closed, "Closed to fishing").changed() {
+        let closure = closed.then(|| Closure {
+            reason: if draft.reason.trim().is_empty() {
+                "closed".into()
+            } else {
+                draft.reason.clone()
+            },
+            from: parse_date(&draft.from).ok().flatten(),
+            to: parse_date(&draft.to).ok().flatten(),
+        });
+        commands.push(Command::Edit(Edit::SetClosure(seg.id.clone(), closure)));
+    }
+    let Some(c) = &seg.closure else { return };
+    let label = ui.label("Reason for the closure");
+    let r = ui
+        .add(egui::TextEdit::singleline(&mut draft.reason).id(ids.reason))
+        .labelled_by(label.id);
+    if r.lost_focus() && draft.reason != c.reason {
+        commands.push(Command::Edit(Edit::SetClosure(
+            seg.id.clone(),
+            Some(Closure {
+                reason: draft.reason.clone(),
+                ..c.clone()
+            }),
+        )));
+    }
+    let lost = ui
+        .horizontal(|ui| {
+            let label = ui.label("Closed from");
+            let a = ui
+                .add(
+                    egui::TextEdit::singleline(&mut draft.from)
+                        .id(ids.from)
+                        .desired_width(90.0)
+                        .hint_text("YYYY-MM-DD"),
+                )
+                .labelled_by(label.id);
+            let label = ui.label("to");
+            let b = ui
+                .add(
+                    egui::TextEdit::singleline(&mut draft.to)
+                        .id(ids.to)
+                        .desired_width(90.0)
+                        .hint_text("YYYY-MM-DD"),
+                )
+                .labelled_by(label.id);
+            a.lost_focus() || b.lost_focus()
+        })
+        .inner;
+    if lost {
+        match (parse_date(&draft.from), parse_date(&draft.to)) {
+            (Ok(from), Ok(to)) if from.zip(to).is_some_and(|(f, t)| f > t) => {
+                draft.date_error = Some("the closure ends before it starts".into());
+            }
+            (Ok(from), Ok(to)) => {
+                draft.date_error = None;
+                if from != c.from || to != c.to {
+                    commands.push(Command::Edit(Edit::SetClosure(
+                        seg.id.clone(),
+                        Some(Closure {
+                            from,
+                            to,
+                            ..c.clone()
+                        }),
+                    )));
+                }
+            }
+            (Err(e), _) | (_, Err(e)) => draft.date_error = Some(e),
+        }
+    }
+    if let Some(e) = &draft.date_error {
+        ui.colored_label(Color32::from_rgb(170, 0, 0), e);
+    } else {
+        ui.label(
+            RichText::new("Empty dates: closed every day.")
+                .small()
+                .weak(),
+        );
+    }
+}
+
+/// The points: how to move them, and splitting.
+fn points_ui(seg: &CoastSegment, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    ui.label(RichText::new("On the map: drag the yellow points to move them; click a + to add a point; right-click a point to remove it.").small());
+    ui.label(format!("{} points", seg.points.len()));
+    if seg.points.len() > 2 {
+        ui.horizontal(|ui| {
+            ui.label("Split at point");
+            for k in 1..seg.points.len() - 1 {
+                if ui.small_button(format!("{}", k + 1)).clicked() {
+                    commands.push(Command::Edit(Edit::Split(seg.id.clone(), k)));
+                }
+            }
+        });
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn dates_are_checked_where_they_are_typed() {
+        assert_eq!(parse_date(" "), Ok(None));
+        assert_eq!(
+            parse_date("2027-05-31"),
+            Ok(NaiveDate::from_ymd_opt(2027, 5, 31))
+        );
+        assert_eq!(
+            parse_date("31/05/2027").unwrap_err(),
+            "\"31/05/2027\" is not a date: expected YYYY-MM-DD, e.g. 2027-05-31"
+        );
+    }
+}

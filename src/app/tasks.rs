@@ -1,0 +1,55 @@
+//! Named background tasks: reading, decoding, encoding and writing files run off the
+//! UI thread, so a frame only draws; the UI polls each task for its result.
+
+use eframe::egui;
+use std::sync::mpsc::{Receiver, TryRecvError, channel};
+
+/// A task running in its own thread.
+pub struct Task<T> {
+    /// What it does, for the status line.
+    pub name: String,
+    rx: Receiver<T>,
+}
+
+impl<T> std::fmt::Debug for Task<T> {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.debug_struct("Task")
+            .field("name", &self.name)
+            .finish_non_exhaustive()
+    }
+}
+
+impl<T: Send + 'static> Task<T> {
+    /// Starts `work` in a thread named after the task; the UI is woken when it ends.
+    pub fn spawn(
+        name: &str,
+        ctx: &egui::Context,
+        work: impl FnOnce() -> T + Send + 'static,
+    ) -> Result<Self, String> {
+        let (tx, rx) = channel();
+        let repaint = ctx.clone();
+        std::thread::Builder::new()
+            .name(format!("shelfwind-{name}"))
+            .spawn(move || {
+                let _ = tx.send(work());
+                repaint.request_repaint();
+            })
+            .map_err(|e| format!("cannot start the background task ({name}): {e}"))?;
+        Ok(Self {
+            name: name.to_string(),
+            rx,
+        })
+    }
+
+    /// The result once the task has ended; an error if it stopped without one.
+    pub fn poll(&self) -> Option<Result<T, String>> {
+        match self.rx.try_recv() {
+            Ok(v) => Some(Ok(v)),
+            Err(TryRecvError::Empty) => None,
+            Err(TryRecvError::Disconnected) => Some(Err(format!(
+                "the background task ({}) stopped unexpectedly",
+                self.name
+            ))),
+        }
+    }
+}
