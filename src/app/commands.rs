@@ -243,10 +243,8 @@ impl ShelfwindApp {
                 .get(self.view.hour)
                 .map(|t| t.with_timezone(&plan.time_zone).date_naive());
             if current != Some(d.date) {
-                let noon = self.view.timeline.iter().position(|t| {
-                    let local = t.with_timezone(&plan.time_zone);
-                    local.date_naive() == d.date && chrono::Timelike::hour(&local) == 12
-                });
+                let noon = crate::localtime::local_noon(plan.time_zone, d.date);
+                let noon = self.view.timeline.iter().position(|t| *t == noon);
                 if let Some(h) = noon {
                     self.view.hour = h;
                 }

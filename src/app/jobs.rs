@@ -261,11 +261,8 @@ impl ShelfwindApp {
             Some(h) => self.set_hour(h),
             None => {
                 // First plan: the first planned day at local noon.
-                let noon = self.view.timeline.iter().position(|t| {
-                    let local = t.with_timezone(&tz);
-                    Some(local.date_naive()) == first_plan_day
-                        && chrono::Timelike::hour(&local) == 12
-                });
+                let noon = first_plan_day.map(|d| crate::localtime::local_noon(tz, d));
+                let noon = self.view.timeline.iter().position(|t| Some(*t) == noon);
                 self.view.day = 0;
                 self.view.hour = noon.unwrap_or(0);
             }

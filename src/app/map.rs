@@ -715,6 +715,16 @@ fn legend_ui(ui: &egui::Ui, rect: egui::Rect, colouring: Colouring) {
             Color32::BLACK,
         );
     }
+    // The marks below the colours: what each line and arrow on the map means.
+    let text_at = |y: f32, label: &str| {
+        painter.text(
+            Pos2::new(origin.x + 44.0, y + 8.0),
+            Align2::LEFT_CENTER,
+            label,
+            FontId::proportional(12.5),
+            Color32::BLACK,
+        );
+    };
     let y = origin.y + 28.0 + row * stops.len() as f32 + 2.0;
     painter.line_segment(
         [
@@ -723,39 +733,27 @@ fn legend_ui(ui: &egui::Ui, rect: egui::Rect, colouring: Colouring) {
         ],
         Stroke::new(3.0, Color32::from_rgb(180, 0, 0)),
     );
-    painter.text(
-        Pos2::new(origin.x + 44.0, y + 8.0),
-        Align2::LEFT_CENTER,
-        "dashed red: closed to fishing",
-        FontId::proportional(12.5),
-        Color32::BLACK,
-    );
-    let y = y + row;
-    arrow(
-        &painter,
-        Pos2::new(origin.x + 8.0, y + 8.0),
-        Vec2::new(26.0, 0.0),
-        Stroke::new(2.0, Color32::from_rgb(60, 60, 60)),
-    );
-    painter.text(
-        Pos2::new(origin.x + 44.0, y + 8.0),
-        Align2::LEFT_CENTER,
-        "wind (downwind)",
-        FontId::proportional(12.5),
-        Color32::BLACK,
-    );
-    let y = y + row;
-    arrow(
-        &painter,
-        Pos2::new(origin.x + 8.0, y + 8.0),
-        Vec2::new(26.0, 0.0),
-        Stroke::new(2.5, Color32::from_rgb(118, 42, 131)),
-    );
-    painter.text(
-        Pos2::new(origin.x + 44.0, y + 8.0),
-        Align2::LEFT_CENTER,
-        "Ekman transport",
-        FontId::proportional(12.5),
-        Color32::BLACK,
-    );
+    text_at(y, "dashed red: closed to fishing");
+    for (k, (stroke, label)) in [
+        (
+            Stroke::new(2.0, Color32::from_rgb(60, 60, 60)),
+            "wind (downwind)",
+        ),
+        (
+            Stroke::new(2.5, Color32::from_rgb(118, 42, 131)),
+            "Ekman transport",
+        ),
+    ]
+    .into_iter()
+    .enumerate()
+    {
+        let y = y + row * (k + 1) as f32;
+        arrow(
+            &painter,
+            Pos2::new(origin.x + 8.0, y + 8.0),
+            Vec2::new(26.0, 0.0),
+            stroke,
+        );
+        text_at(y, label);
+    }
 }

@@ -40,9 +40,12 @@ pub(super) fn all_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     egui::Panel::top("menu").show(ui, |ui| menu_ui(app, ui, commands));
     egui::Panel::bottom("status").show(ui, |ui| status_ui(app, ui, commands));
     if app.view.show_plots && app.plan.is_some() {
+        // A third of the window at most by default, so a small screen keeps its map.
+        let height = ui.ctx().content_rect().height();
         egui::Panel::bottom("plots")
             .resizable(true)
-            .default_size(400.0)
+            .default_size((height * 0.33).clamp(170.0, 400.0))
+            .max_size(height * 0.6)
             .show(ui, |ui| {
                 super::plots::plots_ui(app, ui, commands);
             });
@@ -430,7 +433,8 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
     }
     ui.label(format!("{} from {}", plan.vessel.name, plan.port.name));
     day_switcher_ui(&plan, app.view.day, ui, commands);
-    for n in plan_text::notes(&plan) {
+    let words = app.view.plan_words.for_day(&plan, app.view.day).clone();
+    for n in &words.notes {
         ui.label(RichText::new(n).small().weak());
     }
     ui.separator();
@@ -450,9 +454,9 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
             } else {
                 day.ranked.len().min(RANKED_SHOWN)
             };
-            for r in &day.ranked[..shown] {
+            for (r, lines) in day.ranked[..shown].iter().zip(words.ranked.iter()) {
                 let selected = app.view.selected.contains(&plan.stretches[r.stretch].id);
-                ranked_entry_ui(&plan, day.date, r, selected, ui, commands);
+                ranked_entry_ui(&plan, r, lines, selected, ui, commands);
                 ui.add_space(4.0);
             }
             if shown < day.ranked.len()
@@ -499,8 +503,8 @@ fn day_switcher_ui(plan: &Plan, day: usize, ui: &mut egui::Ui, commands: &mut Ve
 /// One ranked stretch: rank, name, score bar, safe window and reasons.
 fn ranked_entry_ui(
     plan: &Plan,
-    date: chrono::NaiveDate,
     r: &RankedStretch,
+    reasons: &[String],
     selected: bool,
     ui: &mut egui::Ui,
     commands: &mut Vec<Command>,
@@ -560,10 +564,46 @@ fn ranked_entry_ui(
             ))
             .small(),
         );
-        for reason in plan_text::ranked_lines(plan, date, r) {
+        for reason in reasons {
             ui.label(RichText::new(format!("• {reason}")).small());
         }
     });
+}
+
+/// The words of a plan's day, made once per plan and day rather than every frame.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct PlanWords {
+    /// The plan and day the words are for (the plan is held, so it is never mistaken
+    /// for a newer one).
+    key: Option<(std::sync::Arc<Plan>, usize)>,
+    /// The plan's notes.
+    pub notes: Vec<String>,
+    /// The reasons of each ranked stretch, in rank order.
+    pub ranked: Vec<Vec<String>>,
+}
+
+impl PlanWords {
+    /// The words of `day` of `plan`, made now if they are not those kept.
+    pub fn for_day(&mut self, plan: &std::sync::Arc<Plan>, day: usize) -> &Self {
+        let fresh = self
+            .key
+            .as_ref()
+            .is_some_and(|(p, d)| std::sync::Arc::ptr_eq(p, plan) && *d == day);
+        if !fresh {
+            let ranked = plan.days.get(day).map_or_else(Vec::new, |d| {
+                d.ranked
+                    .iter()
+                    .map(|r| plan_text::ranked_lines(plan, d.date, r))
+                    .collect()
+            });
+            *self = Self {
+                key: Some((plan.clone(), day)),
+                notes: plan_text::notes(plan),
+                ranked,
+            };
+        }
+        self
+    }
 }
 
 /// The stretches left out of the day, each with why.

@@ -143,16 +143,12 @@ impl PlotFrame<'_> {
     }
 
     fn pumping(&self, ui: &mut egui::Ui) {
-        self.plot(
-            ui,
-            "pumping",
-            "Ekman pumping 10 km offshore (m/day; gridded wind only)",
-        )
-        .show(ui, |p| {
-            self.decorate(p, false);
-            p.hline(HLine::new("0", 0.0).color(Color32::from_gray(120)));
-            self.hourly_lines(p, &|h| h.pumping_m_s.map(|w| w * 86_400.0));
-        });
+        self.plot(ui, "pumping", "Ekman pumping offshore (m/day, grids only)")
+            .show(ui, |p| {
+                self.decorate(p, false);
+                p.hline(HLine::new("0", 0.0).color(Color32::from_gray(120)));
+                self.hourly_lines(p, &|h| h.pumping_m_s.map(|w| w * 86_400.0));
+            });
     }
 
     fn cumulative(&self, ui: &mut egui::Ui) {
@@ -231,7 +227,7 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
             .get(app.view.hour)
             .map(|t| hours_since(t0, *t)),
         link: egui::Id::unique("shelfwind-plots-x"),
-        height: f64::from(((ui.available_height() - 80.0) / 2.0).max(90.0)),
+        height: f64::from(((ui.available_height() - 80.0) / 2.0).max(50.0)),
     };
     ui.columns(3, |cols| {
         frame.wind(&mut cols[0]);

@@ -157,6 +157,8 @@ pub struct View {
     pub show_all_ranked: bool,
     /// The segment editor's fields as typed.
     pub segment_draft: super::editor::SegmentDraft,
+    /// The words of the plan's day, kept between frames.
+    pub plan_words: super::panels::PlanWords,
 }
 
 /// Dialogs and messages.

@@ -133,7 +133,7 @@ fn upwelling_text(r: &Reasons, tz: Tz, date: NaiveDate) -> String {
             days_ago(tz, ended, date)
         ),
         UpwellingReason::Lagged { length_days, ended } => format!(
-            "upwelling for {} ended {}: bloom expected as it follows the upwelling by days; {productivity}",
+            "upwelling for {} ended {}: bloom expected (it follows upwelling by days); {productivity}",
             days_text(length_days),
             days_ago(tz, ended, date)
         ),

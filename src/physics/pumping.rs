@@ -62,8 +62,8 @@ mod tests {
     use crate::physics::EARTH_ROTATION_RAD_S;
     use approx::assert_relative_eq;
 
-    /// Mean Earth radius, m (IUGG), for the beta term of the check below.
-    const R_M: f64 = 6_371_008.8;
+    /// Mean Earth radius, m (IUGG), the one the geometry uses.
+    const R_M: f64 = crate::coast::EARTH_MEAN_RADIUS_M;
 
     fn probe(lat_deg: f64, x_pa: f64, y_pa: f64) -> ProbeStress {
         ProbeStress {

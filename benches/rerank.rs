@@ -1,0 +1,86 @@
+//! Benchmark of the pipeline's stages on a long coast (about 2,300 stretches, the demo
+//! coast cut finely, with the demo forecast): the full build (read and sample the
+//! forecast, compute the upwelling, rank), the upwelling again from the sampled
+//! conditions (a change of model settings), and ranking again for another boat or
+//! port (no file read, nothing recomputed). Run with `cargo bench --bench rerank`.
+
+use shelfwind::coast::{Land, resolve_segments};
+use shelfwind::plan::{rank_plan, sample_forecast_conditions};
+use shelfwind::progress::Progress;
+use shelfwind::scenario::{PlanChoice, demo_scenario, write_demo};
+use shelfwind::wind::load_sources;
+use std::time::Instant;
+
+fn ms(t: Instant) -> f64 {
+    t.elapsed().as_secs_f64() * 1e3
+}
+
+fn main() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let (_, forecast) = write_demo(dir.path()).expect("demo files");
+    // The demo coast, each segment eight times over, cut into 0.5 nm stretches (as the
+    // app_frame benchmark does).
+    let mut scenario = demo_scenario().expect("demo");
+    scenario.settings.stretch_length_nm = 0.5;
+    scenario.segments = scenario
+        .segments
+        .iter()
+        .flat_map(|s| {
+            (0..8).map(move |k| {
+                let mut c = s.clone();
+                c.id = format!("{}-{k}", s.id);
+                c
+            })
+        })
+        .collect();
+    let segments = resolve_segments(&scenario.segments, Land::bundled()).expect("sides");
+    let tz = scenario.tz().expect("zone");
+    let ports = scenario.port_positions();
+    let geometry = scenario.forecast_geometry(&segments, &ports, Land::bundled());
+    let choice = |vessel: &'static str| PlanChoice {
+        vessel_id: Some(vessel),
+        port_id: Some("harrow-cove"),
+        from: None,
+        days: 7,
+        now: chrono::Utc::now(),
+    };
+
+    let t = Instant::now();
+    let sources = load_sources(&[forecast]).expect("forecast");
+    let conditions =
+        sample_forecast_conditions(&geometry, &sources, &Progress::new()).expect("sampled");
+    let sampled_ms = ms(t);
+    let forecast = conditions.forecast(tz, &scenario.upwelling_settings());
+    let request = scenario
+        .plan_request(&choice("little-auk"))
+        .expect("request");
+    let plan = rank_plan(&forecast, &request).expect("plan");
+    let full_ms = ms(t);
+    let stretches = plan.stretches.len();
+
+    let runs = 5;
+    let t = Instant::now();
+    for _ in 0..runs {
+        let forecast = conditions.forecast(tz, &scenario.upwelling_settings());
+        std::hint::black_box(rank_plan(&forecast, &request).expect("plan"));
+    }
+    let from_conditions_ms = ms(t) / f64::from(runs);
+
+    let mut rerank = Vec::new();
+    for vessel in ["marrow-tide", "steady-hand", "little-auk"].repeat(3) {
+        let request = scenario.plan_request(&choice(vessel)).expect("request");
+        let t = Instant::now();
+        std::hint::black_box(rank_plan(&forecast, &request).expect("plan"));
+        rerank.push(ms(t));
+    }
+    rerank.sort_by(f64::total_cmp);
+    println!(
+        "{stretches} stretches, 7 days: full build {full_ms:.0} ms (reading and sampling {sampled_ms:.0} ms); \
+         from sampled conditions {from_conditions_ms:.0} ms ({:.1}x faster); \
+         another boat re-ranked in {:.1} ms (median of {}, worst {:.1} ms)",
+        full_ms / from_conditions_ms,
+        rerank[rerank.len() / 2],
+        rerank.len(),
+        rerank[rerank.len() - 1]
+    );
+}
