@@ -17,6 +17,31 @@ pub fn write_atomic_with(
     path: &Path,
     fill: impl FnOnce(&mut File) -> std::io::Result<()>,
 ) -> std::io::Result<()> {
+    write_via_temporary(path, fill).map_err(without_temporary_name)
+}
+
+/// The error without the name of the temporary file, which means nothing to the user:
+/// the caller names the user's file.
+fn without_temporary_name(e: std::io::Error) -> std::io::Error {
+    use std::io::ErrorKind;
+    if let Some(code) = e.raw_os_error() {
+        return std::io::Error::from_raw_os_error(code);
+    }
+    if !e.to_string().contains(".shelfwind-") {
+        return e;
+    }
+    let words = match e.kind() {
+        ErrorKind::NotFound => "the folder does not exist".to_string(),
+        ErrorKind::PermissionDenied => "permission denied".to_string(),
+        kind => kind.to_string(),
+    };
+    std::io::Error::new(e.kind(), words)
+}
+
+fn write_via_temporary(
+    path: &Path,
+    fill: impl FnOnce(&mut File) -> std::io::Result<()>,
+) -> std::io::Result<()> {
     let dir = match path.parent() {
         Some(d) if !d.as_os_str().is_empty() => d,
         _ => Path::new("."),
@@ -75,6 +100,16 @@ pub fn save_with_backup(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A failed write names no temporary file: "the folder does not exist" for a
+    /// missing folder, and the caller adds the user's path.
+    #[test]
+    fn errors_name_no_temporary_file() {
+        let dir = tempfile::tempdir().expect("temp dir");
+        let e = write_atomic(&dir.path().join("missing/plan.csv"), b"x").unwrap_err();
+        assert_eq!(e.kind(), std::io::ErrorKind::NotFound);
+        assert_eq!(e.to_string(), "the folder does not exist");
+    }
 
     /// A failure half-way through writing (simulated) leaves the old file whole and no
     /// temporary file behind.

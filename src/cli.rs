@@ -3,6 +3,7 @@
 
 use crate::atomic::write_atomic;
 use crate::coast::{CoastError, Land, SeaSideError, Segment, read_coast_geojson, resolve_segments};
+use crate::export::units::Units;
 use crate::export::{
     IndexFormat, PlanFormat, index_records, render_plan, trip_sheet_html, write_index,
 };
@@ -235,7 +236,7 @@ pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
         PlanFormatArg::Geojson => PlanFormat::GeoJson,
         PlanFormatArg::Gpx => PlanFormat::Gpx,
         PlanFormatArg::Html => {
-            let sheet = trip_sheet_html(&plan, Land::bundled(), 0);
+            let sheet = trip_sheet_html(&plan, Land::bundled(), 0, Units::default());
             return write_output(args.out.as_deref(), sheet.as_bytes());
         }
     };

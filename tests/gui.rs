@@ -7,6 +7,7 @@ use eframe::egui;
 use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable;
 use shelfwind::app::{AppOptions, ShelfwindApp};
+use std::fmt::Write as _;
 use std::path::PathBuf;
 use std::time::{Duration, Instant};
 
@@ -167,7 +168,7 @@ fn a_damaged_wind_file_shows_the_error_and_keeps_the_forecast() {
     harness.get_by_label("Open").click();
     harness.run_steps(2);
     wait_for_plan(&mut harness);
-    harness.get_by_label_contains("The forecast was not imported; the previous forecast is kept.");
+    harness.get_by_label_contains("The wind file was not added; the forecast is as it was.");
     harness.get_by_label_contains("message 1: is cut short");
     assert_eq!(harness.state().doc.scenario.wind_files, wind_before);
     assert_eq!(
@@ -178,7 +179,42 @@ fn a_damaged_wind_file_shows_the_error_and_keeps_the_forecast() {
     );
     harness.get_by_label("OK").click();
     harness.run_steps(2);
-    assert!(harness.state().dialogs.error.is_none());
+    assert!(harness.state().dialogs.messages.is_empty());
+}
+
+/// An export to a folder that does not exist says so, naming the user's file and no
+/// temporary one; the next export of the same kind replaces the message.
+#[test]
+fn a_failed_export_names_the_users_file_and_is_replaced_by_the_next() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let bad = dir.path().join("no-such-folder").join("plan.csv");
+    let export = |harness: &mut Harness<'static, ShelfwindApp>, path: &std::path::Path| {
+        harness.state_mut().send(shelfwind::app::Command::AskFile(
+            shelfwind::app::FileAction::ExportPlanCsv,
+        ));
+        harness.run_steps(3);
+        type_path(harness, path.to_str().expect("utf-8"));
+        harness.get_by_label("Save here").click();
+        harness.run_steps(1);
+        wait_until(harness, "the export", |a| !a.is_busy());
+    };
+    export(&mut harness, &bad);
+    let text = harness
+        .state()
+        .error_about(shelfwind::app::Subject::Export)
+        .expect("an error")
+        .to_string();
+    assert!(text.contains(&bad.display().to_string()), "{text}");
+    assert!(text.contains("the folder does not exist"), "{text}");
+    assert!(!text.contains(".shelfwind-"), "{text}");
+    harness.get_by_label(&text);
+    let good = dir.path().join("plan.csv");
+    export(&mut harness, &good);
+    assert!(good.exists());
+    let messages = &harness.state().dialogs.messages;
+    assert_eq!(messages.len(), 1, "{messages:?}");
+    assert_eq!(messages[0].text, format!("Written to {}", good.display()));
 }
 
 #[test]
@@ -300,7 +336,7 @@ fn season_view_analyses_a_record_and_exports_the_table() {
         assert!(
             start.elapsed() < Duration::from_mins(3),
             "no seasons: {:?}",
-            harness.state().season.message
+            harness.state().season.record_message
         );
         std::thread::sleep(Duration::from_millis(20));
     }
@@ -455,4 +491,301 @@ fn typing_in_the_segment_editor_keeps_the_text() {
         field_value(&harness, Role::TextInput, "Segment name"),
         old_name
     );
+}
+
+/// A skipper sets up their own boat: added, named and given limits by typing; a bad
+/// number is refused beside its field; the plan is made for the new boat at once, and
+/// its higher wind limit works Thursday's blow that keeps the small boat in.
+#[test]
+fn a_skipper_adds_their_own_boat_and_the_ranking_follows() {
+    use egui::accesskit::Role;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let thursday_before = harness.state().plan.as_ref().expect("plan").days[3]
+        .ranked
+        .len();
+    assert_eq!(thursday_before, 0, "the small boat stays in on Thursday");
+    harness.get_by_label("Boats and ports…").click();
+    // A new window lays itself out unseen in its first frame.
+    harness.run_steps(4);
+    assert!(harness.state().view.boats.open, "the window opens");
+    harness.get_by_label("Add a boat").click();
+    harness.run_steps(2);
+    retype(&mut harness, "Boat name", "Sea Swallow");
+    retype(&mut harness, "Wind limit", "32");
+    retype(&mut harness, "Range (one way)", "40");
+    retype(&mut harness, "Cruising speed", "fast");
+    harness.get_by_label("\"fast\" is not a number: expected a number from 1 to 60 kt");
+    assert_eq!(
+        field_value(&harness, Role::TextInput, "Cruising speed"),
+        "fast"
+    );
+    let boat = harness
+        .state()
+        .doc
+        .scenario
+        .vessels
+        .last()
+        .cloned()
+        .expect("boat");
+    assert_eq!(
+        (
+            boat.name.as_str(),
+            boat.wind_limit_kt,
+            boat.range_nm,
+            boat.cruise_speed_kt
+        ),
+        ("Sea Swallow", 32.0, 40.0, 15.0)
+    );
+    wait_for_plan(&mut harness);
+    let plan = harness.state().plan.clone().expect("plan");
+    assert_eq!(plan.vessel.name, "Sea Swallow");
+    assert!(
+        !plan.days[3].ranked.is_empty(),
+        "32 kt works some of the blow"
+    );
+    // The port: added, then its position typed.
+    harness.get_by_label("Add a port").click();
+    harness.run_steps(2);
+    retype(&mut harness, "Port name", "Gull Steps");
+    retype(&mut harness, "Latitude", "38.3");
+    retype(&mut harness, "Longitude", "-123.05");
+    let port = harness
+        .state()
+        .doc
+        .scenario
+        .ports
+        .last()
+        .cloned()
+        .expect("port");
+    assert_eq!(port.name, "Gull Steps");
+    assert!((port.position.lat_deg - 38.3).abs() < 1e-12);
+    assert!((port.position.lon_deg + 123.05).abs() < 1e-12);
+    // Or placed by a click on the map: the port moves to where the click was, and the
+    // position fields follow.
+    harness
+        .get_by_label("Place it on the map")
+        .click_accesskit();
+    harness.run_steps(2);
+    assert!(matches!(
+        harness.state().view.tool,
+        shelfwind::app::Tool::PlacePort(3)
+    ));
+    let map = harness.get_by_label("Map").rect();
+    let at = map.center() + egui::vec2(map.width() * 0.3, 20.0);
+    harness.hover_at(at);
+    harness.run_steps(1);
+    for pressed in [true, false] {
+        harness.event(egui::Event::PointerButton {
+            pos: at,
+            button: egui::PointerButton::Primary,
+            pressed,
+            modifiers: egui::Modifiers::NONE,
+        });
+        harness.run_steps(1);
+    }
+    harness.run_steps(2);
+    let moved = harness
+        .state()
+        .doc
+        .scenario
+        .ports
+        .last()
+        .cloned()
+        .expect("port");
+    assert!(
+        (moved.position.lat_deg - 38.3).abs() > 1e-3
+            || (moved.position.lon_deg + 123.05).abs() > 1e-3,
+        "{moved:?}"
+    );
+    let shown = field_value(&harness, Role::TextInput, "Latitude");
+    let shown: f64 = shown.parse().expect("a number");
+    assert!((shown - moved.position.lat_deg).abs() < 1e-3, "{shown}");
+}
+
+/// Redo answers both of its shortcuts, and neither undoes.
+#[test]
+fn redo_answers_ctrl_shift_z_and_ctrl_y() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let id = harness.state().doc.scenario.segments[0].id.clone();
+    let name = |a: &ShelfwindApp| {
+        a.doc
+            .scenario
+            .segments
+            .iter()
+            .find(|s| s.id == id)
+            .map(|s| s.name.clone())
+            .unwrap_or_default()
+    };
+    let old = name(harness.state());
+    harness
+        .state_mut()
+        .send(shelfwind::app::Command::EditSegment(Some(id.clone())));
+    harness.run_steps(3);
+    retype(&mut harness, "Segment name", "Gannet Reach");
+    // Click away from the field so the keys reach the app.
+    harness.get_by_label("Where to go").click();
+    harness.run_steps(2);
+    for redo in [
+        egui::Modifiers::COMMAND | egui::Modifiers::SHIFT,
+        egui::Modifiers::COMMAND,
+    ] {
+        harness.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+        harness.run_steps(2);
+        assert_eq!(name(harness.state()), old);
+        let key = if redo.shift {
+            egui::Key::Z
+        } else {
+            egui::Key::Y
+        };
+        harness.key_press_modifiers(redo, key);
+        harness.run_steps(2);
+        assert_eq!(name(harness.state()), "Gannet Reach", "{redo:?}");
+    }
+}
+
+/// A station file is added beside the demo's grid: both are listed, and the grid still
+/// gives the wind to the segments the station does not cover.
+#[test]
+fn a_station_file_is_added_beside_the_grid() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let grid = harness.state().doc.scenario.wind_files.clone();
+    assert_eq!(grid.len(), 1);
+    // A station near the north end of the demo coast, with a second station far off
+    // so the north one covers only the segments nearest to it.
+    let write = |name: &str, lat: f64, lon: f64| {
+        let path = dir.path().join(name);
+        let mut text = String::from("time,lat,lon,speed_kt,direction_from_deg\n");
+        let t0 = chrono::DateTime::parse_from_rfc3339("2027-05-03T00:00:00Z")
+            .expect("time")
+            .to_utc();
+        for h in 0..(14 * 24) {
+            let t = t0 + chrono::Duration::hours(h);
+            let _ = writeln!(
+                text,
+                "{},{lat},{lon},12,330",
+                t.format("%Y-%m-%dT%H:%M:%SZ")
+            );
+        }
+        std::fs::write(&path, text).expect("write");
+        path
+    };
+    let north = write("north-buoy.csv", 38.9, -123.7);
+    harness.state_mut().send(shelfwind::app::Command::File(
+        shelfwind::app::FileAction::ImportWind,
+        north.clone(),
+    ));
+    harness.run_steps(2);
+    wait_for_plan(&mut harness);
+    let files = harness.state().doc.scenario.wind_files.clone();
+    assert_eq!(files.len(), 2, "{files:?}");
+    assert_eq!(files[0], grid[0]);
+    assert_eq!(files[1], north);
+    // The grid comes first, so it still gives the wind where it covers the coast.
+    harness
+        .state_mut()
+        .send(shelfwind::app::Command::ShowWindFiles);
+    harness.run_steps(3);
+    harness.get_by_label(&format!("1. {}", grid[0].display()));
+    harness.get_by_label(&format!("2. {}", north.display()));
+    harness.get_by_label("wind for no segment");
+    let plan = harness.state().plan.clone().expect("plan");
+    assert!(plan.stretches.iter().all(|s| s.wind_source == Some(0)));
+    // Put the station first: as the only station it is the nearest to every segment,
+    // so every stretch takes its wind, and the grid gives none.
+    harness
+        .get_all_by_label("Move up")
+        .nth(1)
+        .expect("second file")
+        .click();
+    harness.run_steps(2);
+    wait_for_plan(&mut harness);
+    harness.run_steps(2);
+    assert_eq!(harness.state().doc.scenario.wind_files[0], north);
+    let plan = harness.state().plan.clone().expect("plan");
+    assert!(plan.stretches.iter().all(|s| s.wind_source == Some(0)));
+    harness.get_by_label("wind for no segment");
+}
+
+/// Ctrl-click and Shift-click on the ranked list add to the selection; the side-by-side
+/// table then shows the stretches' numbers beside their plots.
+#[test]
+fn ctrl_and_shift_click_compare_stretches_side_by_side() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let plan = harness.state().plan.clone().expect("plan");
+    let day = harness.state().view.day;
+    let names: Vec<String> = plan.days[day]
+        .ranked
+        .iter()
+        .take(3)
+        .map(|r| plan.stretches[r.stretch].name.clone())
+        .collect();
+    harness
+        .get_by_label(&format!("Stretch {}", names[0]))
+        .click();
+    harness.run_steps(2);
+    assert_eq!(harness.state().view.selected.len(), 1);
+    harness
+        .get_by_label(&format!("Stretch {}", names[1]))
+        .click_modifiers(egui::Modifiers::COMMAND);
+    harness.run_steps(2);
+    harness
+        .get_by_label(&format!("Stretch {}", names[2]))
+        .click_modifiers(egui::Modifiers::SHIFT);
+    harness.run_steps(2);
+    assert_eq!(harness.state().view.selected.len(), 3);
+    harness.get_by_label("Side by side, on the chosen day");
+    // Each chosen stretch heads a column, with its score as the list shows it.
+    for (k, name) in names.iter().enumerate() {
+        assert!(harness.get_all_by_label(name).count() >= 1, "{name}");
+        let score = format!("{:.0}", plan.days[day].ranked[k].score);
+        assert!(harness.get_all_by_label(&score).count() >= 1, "{score}");
+    }
+}
+
+/// The units a skipper reads by: chosen in Edit > Units, used by the reasons at once,
+/// and remembered.
+#[test]
+fn units_chosen_in_the_menu_reach_the_reasons() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    assert!(harness.query_all_by_label_contains("kt limit").count() > 0);
+    for choice in ["m/s", "kilometres, km/h"] {
+        harness.get_by_label("Edit").click();
+        harness.run_steps(2);
+        harness.get_by_label("Units").hover();
+        harness.run_steps(3);
+        harness.get_by_label(choice).click();
+        harness.run_steps(3);
+    }
+    assert_eq!(
+        harness.state().view.units.wind,
+        shelfwind::export::units::WindUnit::MetresPerSecond
+    );
+    harness.key_press(egui::Key::Escape);
+    harness.run_steps(3);
+    assert!(harness.query_all_by_label_contains("m/s limit").count() > 0);
+    assert!(harness.query_all_by_label_contains(" km from ").count() > 0);
+    assert_eq!(harness.query_all_by_label_contains("kt limit").count(), 0);
+}
+
+/// The guide and the data sources are one click away in Help.
+#[test]
+fn the_guide_explains_the_colours_and_the_shortcuts() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    harness.get_by_label("Help").click();
+    harness.run_steps(2);
+    harness.get_by_label("Guide").click();
+    harness.run_steps(4);
+    harness.get_by_label_contains("Ctrl+Shift+Z or Ctrl+Y redo");
+    harness.get_by_label_contains("blue is upwelling");
+    harness.get_by_label("Help").click();
+    harness.run_steps(2);
+    harness.get_by_label("Data and licences").click();
+    harness.run_steps(4);
+    harness.get_by_label_contains("Natural Earth");
 }

@@ -9,6 +9,7 @@ use chrono_tz::Tz;
 use shelfwind::coast::{Closure, Land};
 use shelfwind::coast::{CoastSegment, LatLon, SeaSide, resolve_segments};
 use shelfwind::export::plan_text::{excluded_text, ranked_lines};
+use shelfwind::export::units::Units;
 use shelfwind::plan::{Exclusion, Plan, Port, UpwellingReason, Vessel};
 use shelfwind::progress::Progress;
 use shelfwind::scenario::{PlanChoice, Scenario, load_scenario, plan_scenario, save_scenario};
@@ -217,7 +218,7 @@ fn reason_and_score_share_the_relaxation_window() {
         (
             matches!(r.reasons.upwelling, UpwellingReason::BloomExpected { .. }),
             relaxation,
-            ranked_lines(&p, p.days[0].date, &r)[0].clone(),
+            ranked_lines(&p, p.days[0].date, &r, Units::default())[0].clone(),
         )
     };
     let (bloom, relaxation, text) = check(&sc);
@@ -251,7 +252,10 @@ fn a_bag_limit_closure_is_a_closure() {
     let e = &p.days[0].excluded[0];
     assert_eq!(e.exclusion.kind(), "closed");
     assert!(!e.exclusion.is_wind());
-    assert_eq!(excluded_text(&p, e), "closed to fishing: bag limit reached");
+    assert_eq!(
+        excluded_text(&p, e, Units::default()),
+        "closed to fishing: bag limit reached"
+    );
 }
 
 /// Issue 19, defect 5. A stretch at 3°N is excluded as too close to the equator (and
@@ -274,9 +278,10 @@ fn near_the_equator_the_plan_says_so() {
     let e = &p.days[0].excluded[0];
     assert_eq!(e.exclusion.kind(), "near_equator");
     assert!(
-        excluded_text(&p, e).starts_with("too close to the equator for Ekman theory (under 5°"),
+        excluded_text(&p, e, Units::default())
+            .starts_with("too close to the equator for Ekman theory (under 5°"),
         "{}",
-        excluded_text(&p, e)
+        excluded_text(&p, e, Units::default())
     );
     let mixed = scenario(
         "UTC",
@@ -303,7 +308,7 @@ fn near_the_equator_the_plan_says_so() {
         .find(|r| p.stretches[r.stretch].segment_id == "seven")
         .unwrap_or_else(|| panic!("7°N is ranked: {kinds:?} {:?}", d.excluded));
     assert!(r.reasons.near_equator_lat_deg.is_some());
-    let lines = ranked_lines(&p, d.date, r);
+    let lines = ranked_lines(&p, d.date, r, Units::default());
     assert!(lines.iter().any(|l| l.contains("unreliable")), "{lines:?}");
     assert!(matches!(
         d.excluded[0].exclusion,

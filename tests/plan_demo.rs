@@ -10,6 +10,7 @@
 use chrono::NaiveDate;
 use shelfwind::coast::{Land, resolve_segments};
 use shelfwind::export::plan_text::{excluded_text, ranked_lines};
+use shelfwind::export::units::Units;
 use shelfwind::export::{PlanFormat, render_plan};
 use shelfwind::plan::{Plan, RankedStretch};
 use shelfwind::progress::Progress;
@@ -50,7 +51,7 @@ fn demo_plan(vessel: &str, port: &str, from: Option<NaiveDate>, days: usize) -> 
 
 /// The reasons of a rank as the exports and the app show them.
 fn reasons(plan: &Plan, date: usize, r: &RankedStretch) -> Vec<String> {
-    ranked_lines(plan, plan.days[date].date, r)
+    ranked_lines(plan, plan.days[date].date, r, Units::default())
 }
 
 fn best_score(plan: &Plan, date: &str) -> f64 {
@@ -73,7 +74,10 @@ fn the_demo_week_follows_its_story() {
     let wind_out: Vec<_> = thursday
         .excluded
         .iter()
-        .filter(|e| excluded_text(&plan, e).contains("over this boat's 18 kt limit all day"))
+        .filter(|e| {
+            excluded_text(&plan, e, Units::default())
+                .contains("over this boat's 18 kt limit all day")
+        })
         .collect();
     assert_eq!(wind_out.len(), 4, "{:?}", thursday.excluded);
     // The relaxation after the blow is the best of the week; early in the week the bloom
@@ -103,7 +107,8 @@ fn the_demo_week_follows_its_story() {
         assert!(
             d.excluded
                 .iter()
-                .any(|e| excluded_text(&plan, e) == "closed to fishing: marine reserve (no take)")
+                .any(|e| excluded_text(&plan, e, Units::default())
+                    == "closed to fishing: marine reserve (no take)")
         );
     }
     // Every number has its parts: score = 100 × productivity × window × distance.
@@ -179,7 +184,7 @@ fn over_the_limit_all_day_drops_out_with_the_reason() {
     assert!(plan.days[0].ranked.is_empty());
     for e in &plan.days[0].excluded {
         assert_eq!(
-            excluded_text(&plan, e),
+            excluded_text(&plan, e, Units::default()),
             "wind up to 30 kt (05:00): over this boat's 18 kt limit all day"
         );
         assert_eq!(e.exclusion.kind(), "over_wind_limit");

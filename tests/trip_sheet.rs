@@ -8,6 +8,7 @@ use chrono::NaiveDate;
 use shelfwind::coast::{Land, resolve_segments};
 use shelfwind::export::plan_text::{excluded_text, notes, ranked_lines};
 use shelfwind::export::trip_sheet_html;
+use shelfwind::export::units::Units;
 use shelfwind::plan::{CAUTIONS, Plan};
 use shelfwind::progress::Progress;
 use shelfwind::scenario::{DEMO_FORECAST_FILE, PlanChoice, Scenario, demo_scenario, plan_scenario};
@@ -127,7 +128,7 @@ fn the_demo_friday_sheet_has_what_the_skipper_needs() {
     let plan = demo_plan("little-auk", "tern-harbour", "2027-05-14");
     let d = &plan.days[0];
     assert!(d.ranked.len() >= 3, "{:?}", d.ranked);
-    let html = trip_sheet_html(&plan, Land::bundled(), 0);
+    let html = trip_sheet_html(&plan, Land::bundled(), 0, Units::default());
     assert_parses(&html);
     assert!(html.starts_with("<!DOCTYPE html>"));
 
@@ -169,7 +170,7 @@ fn the_demo_friday_sheet_has_what_the_skipper_needs() {
             html_text(&s.name)
         );
         assert!(html.contains(&row), "{row}");
-        for reason in ranked_lines(&plan, d.date, r) {
+        for reason in ranked_lines(&plan, d.date, r, Units::default()) {
             assert!(
                 html.contains(&format!("<li>{}</li>", html_text(&reason))),
                 "{reason}"
@@ -184,7 +185,7 @@ fn the_demo_friday_sheet_has_what_the_skipper_needs() {
     // Why the others are left out: closures by name, the far ones on one line.
     let mut far = 0;
     for e in &d.excluded {
-        let reason = excluded_text(&plan, e);
+        let reason = excluded_text(&plan, e, Units::default());
         if e.exclusion.is_out_of_range() {
             far += 1;
         } else {
@@ -250,7 +251,7 @@ fn the_demo_friday_sheet_has_what_the_skipper_needs() {
 fn hours_over_the_limit_are_shaded() {
     let plan = demo_plan("steady-hand", "harrow-cove", "2027-05-13");
     assert!(!plan.days[0].ranked.is_empty());
-    let html = trip_sheet_html(&plan, Land::bundled(), 0);
+    let html = trip_sheet_html(&plan, Land::bundled(), 0, Units::default());
     assert_parses(&html);
     assert!(html.contains("<rect class=\"over\""));
     assert!(html.contains("limit 32 kt"));
@@ -273,7 +274,7 @@ fn names_with_markup_are_escaped() {
             .any(|r| plan.stretches[r.stretch].segment_id == "gannet-reach"),
         "ranked, so the name is in the table and the plots"
     );
-    let html = trip_sheet_html(&plan, Land::bundled(), 0);
+    let html = trip_sheet_html(&plan, Land::bundled(), 0, Units::default());
     assert!(!html.contains("<b>&\"x\""));
     assert!(html.contains("<span class=\"name\">&lt;b&gt;&amp;&quot;x&quot; 1/2</span>"));
     assert!(html.contains("aria-label=\"Wind through the day at &lt;b&gt;&amp;&quot;x&quot;"));
@@ -286,7 +287,7 @@ fn names_with_markup_are_escaped() {
 fn a_day_with_nothing_to_recommend_still_gives_a_valid_sheet() {
     let plan = demo_plan("little-auk", "tern-harbour", "2027-05-13");
     assert!(plan.days[0].ranked.is_empty());
-    let html = trip_sheet_html(&plan, Land::bundled(), 0);
+    let html = trip_sheet_html(&plan, Land::bundled(), 0, Units::default());
     assert_parses(&html);
     assert!(html.contains("Thursday 13 May 2027"));
     assert!(html.contains("No stretch to recommend this day"));
@@ -297,7 +298,7 @@ fn a_day_with_nothing_to_recommend_still_gives_a_valid_sheet() {
     assert!(!html.contains("Wind through the day"));
 
     // A day the plan does not have: a sheet that says so.
-    let html = trip_sheet_html(&plan, Land::bundled(), 5);
+    let html = trip_sheet_html(&plan, Land::bundled(), 5, Units::default());
     assert_parses(&html);
     assert!(html.contains("Day 6 is not in this plan"));
     assert!(html.contains(&html_text(CAUTIONS)));
@@ -333,4 +334,27 @@ fn the_command_line_writes_the_sheet() {
     assert!(html.contains("Friday 14 May 2027"));
     assert!(html.contains("Cormorant Bluffs 1/2"));
     assert!(html.ends_with("</html>\n"));
+}
+
+/// The sheet in the units a skipper chose: 18 kt = 9.26 m/s and 33.3 km/h, 20 nm =
+/// 37.04 km (1 kt = 1852 m/h exactly), 25 l/h = 6.6 US gal/h (1 US gal = 3.785411784 l).
+#[test]
+fn the_sheet_speaks_the_units_chosen() {
+    use shelfwind::export::units::{DistanceUnit, FuelUnit, WindUnit};
+    let plan = demo_plan("little-auk", "tern-harbour", "2027-05-14");
+    let units = Units {
+        wind: WindUnit::MetresPerSecond,
+        distance: DistanceUnit::Kilometres,
+        fuel: FuelUnit::UsGallons,
+    };
+    let html = trip_sheet_html(&plan, Land::bundled(), 0, units);
+    assert_parses(&html);
+    assert!(
+        html.contains(
+            "Little Auk (6.5 m skiff): cruise 33 km/h, wind limit 9 m/s, range 37 km, 6.6 US gal/h at cruise"
+        ),
+        "header"
+    );
+    assert!(html.contains("beyond this boat&#39;s 37 km range from Tern Harbour"));
+    assert!(!html.contains(" nm from Tern Harbour"));
 }

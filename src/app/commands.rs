@@ -26,8 +26,10 @@ pub enum FileAction {
     ExportPlanJson,
     /// Write the stretches with their scores as GeoJSON.
     ExportPlanGeoJson,
-    /// Write the chosen stretches as GPX for a chart plotter.
+    /// Write each day's best three stretches as GPX for a chart plotter.
     ExportGpx,
+    /// Write the stretches selected on the map or in the list as GPX.
+    ExportGpxSelected,
     /// Write a printable trip sheet (HTML) for the chosen day.
     ExportTripSheet,
 }
@@ -39,13 +41,14 @@ impl FileAction {
         match self {
             FileAction::OpenScenario => "Open scenario",
             FileAction::SaveScenarioAs => "Save scenario as",
-            FileAction::ImportWind => "Import wind file (GRIB2 or CSV)",
+            FileAction::ImportWind => "Add a wind file (GRIB2 or CSV)",
             FileAction::ImportCoast => "Import coast (GeoJSON)",
             FileAction::ExportCoast => "Export coast (GeoJSON)",
             FileAction::ExportPlanCsv => "Export plan (CSV)",
             FileAction::ExportPlanJson => "Export plan (JSON)",
             FileAction::ExportPlanGeoJson => "Export stretches (GeoJSON)",
-            FileAction::ExportGpx => "Export chosen stretches (GPX)",
+            FileAction::ExportGpx => "Export each day's best three stretches (GPX)",
+            FileAction::ExportGpxSelected => "Export the selected stretches (GPX)",
             FileAction::ExportTripSheet => "Export trip sheet (HTML)",
         }
     }
@@ -71,7 +74,7 @@ impl FileAction {
                 &["geojson", "json"]
             }
             FileAction::ExportPlanCsv => &["csv"],
-            FileAction::ExportGpx => &["gpx"],
+            FileAction::ExportGpx | FileAction::ExportGpxSelected => &["gpx"],
             FileAction::ExportTripSheet => &["html"],
         }
     }
@@ -146,6 +149,10 @@ pub enum Command {
     DiscardRecovery,
     /// Stop the running job.
     CancelJob,
+    /// Show the wind files window.
+    ShowWindFiles,
+    /// Show the boats and ports window.
+    ShowBoats,
     /// Close the app (after asking about unsaved changes).
     Quit,
 }
@@ -207,11 +214,20 @@ impl ShelfwindApp {
                 self.plan_stale = true;
             }
             Command::SetTool(t) => self.view.tool = t,
-            Command::AddDraftPoint(p) => {
-                if let Tool::Draw { points } = &mut self.view.tool {
-                    points.push(p);
+            Command::AddDraftPoint(p) => match &mut self.view.tool {
+                Tool::Draw { points } => points.push(p),
+                Tool::PlacePort(k) => {
+                    let k = *k;
+                    self.view.tool = Tool::Select;
+                    let mut ports = self.doc.scenario.ports.clone();
+                    if let Some(port) = ports.get_mut(k) {
+                        port.position = p;
+                        self.view.boats.fields.clear();
+                        self.edit(Edit::SetPorts(ports));
+                    }
                 }
-            }
+                Tool::Select => {}
+            },
             Command::FinishDraft => self.finish_draft(),
             Command::AskFile(action) => self.ask_file(action),
             Command::File(action, path) => self.file_action(action, &path, ctx),
@@ -227,6 +243,8 @@ impl ShelfwindApp {
                     job.progress.cancel();
                 }
             }
+            Command::ShowWindFiles => self.dialogs.show_wind_files = true,
+            Command::ShowBoats => self.view.boats.open = true,
             Command::Quit => ctx.send_viewport_cmd(egui::ViewportCommand::Close),
         }
     }
@@ -267,11 +285,13 @@ impl ShelfwindApp {
     pub(super) fn handle_keys(&mut self, ctx: &egui::Context) {
         let typing = ctx.egui_wants_keyboard_input();
         let (undo, redo, left, right, escape, enter, delete) = ctx.input_mut(|i| {
-            let undo = i.consume_key(egui::Modifiers::COMMAND, egui::Key::Z);
+            // Ctrl+Shift+Z first: Ctrl+Z would match it too (egui matches modifiers
+            // logically) and take it for undo.
             let redo = i.consume_key(
                 egui::Modifiers::COMMAND | egui::Modifiers::SHIFT,
                 egui::Key::Z,
             ) || i.consume_key(egui::Modifiers::COMMAND, egui::Key::Y);
+            let undo = !redo && i.consume_key(egui::Modifiers::COMMAND, egui::Key::Z);
             let keys =
                 |i: &mut egui::InputState, k| !typing && i.consume_key(egui::Modifiers::NONE, k);
             (
@@ -284,7 +304,6 @@ impl ShelfwindApp {
                 keys(i, egui::Key::Delete),
             )
         });
-        // Ctrl+Shift+Z also matches Ctrl+Z: redo wins.
         if redo {
             self.send(Command::Redo);
         } else if undo {

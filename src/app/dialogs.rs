@@ -11,10 +11,17 @@ use eframe::egui::{self, Color32, RichText};
 pub(super) fn windows_ui(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mut Vec<Command>) {
     cautions_window(app, ctx);
     path_prompt_window(app, ctx, commands);
-    message_windows(app, ctx);
+    super::messages::messages_window(app, ctx);
     confirm_windows(app, ctx, commands);
     if app.season.open || app.season.pending_png_or_job() {
         super::season_view::season_window(app, ctx);
+    }
+    super::help::help_window(app, ctx);
+    if app.view.boats.open {
+        super::boats::boats_window(app, ctx, commands);
+    }
+    if app.dialogs.show_wind_files {
+        super::wind_files::wind_files_window(app, ctx, commands);
     }
     if app.dialogs.show_settings {
         super::settings_window::settings_window(app, ctx, commands);
@@ -83,33 +90,6 @@ fn path_prompt_window(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mu
         } else if !open {
             app.dialogs.path_prompt = None;
         }
-    }
-}
-
-/// An error or a short message, until dismissed.
-fn message_windows(app: &mut ShelfwindApp, ctx: &egui::Context) {
-    if let Some(err) = app.dialogs.error.clone() {
-        egui::Window::new("Problem")
-            .collapsible(false)
-            .anchor(egui::Align2::CENTER_CENTER, [0.0, 0.0])
-            .show(ctx, |ui| {
-                ui.set_max_width(560.0);
-                ui.label(RichText::new(&err).color(Color32::from_rgb(150, 0, 0)));
-                if ui.button("OK").clicked() {
-                    app.dialogs.error = None;
-                }
-            });
-    }
-    if let Some(info) = app.dialogs.info.clone() {
-        egui::Window::new("Done")
-            .collapsible(false)
-            .anchor(egui::Align2::RIGHT_TOP, [-20.0, 60.0])
-            .show(ctx, |ui| {
-                ui.label(&info);
-                if ui.button("OK").clicked() {
-                    app.dialogs.info = None;
-                }
-            });
     }
 }
 

@@ -1,6 +1,7 @@
 //! Changes to the scenario, with undo and redo as value snapshots: one step per edit,
 //! and one per whole vertex drag.
 
+use super::messages::Subject;
 use super::state::{ShelfwindApp, Tool, VertexDrag};
 use crate::coast::{Closure, CoastSegment, LatLon};
 use crate::scenario::{ModelSettings, Scenario};
@@ -35,6 +36,10 @@ pub enum Edit {
     SetSettings(ModelSettings),
     /// Replace the wind files.
     SetWindFiles(Vec<std::path::PathBuf>),
+    /// Replace the boats.
+    SetVessels(Vec<crate::plan::Vessel>),
+    /// Replace the home ports.
+    SetPorts(Vec<crate::plan::Port>),
 }
 
 /// A fresh segment id not used in the scenario.
@@ -111,6 +116,8 @@ fn apply_edit(s: &mut Scenario, edit: Edit) {
         }
         Edit::SetSettings(settings) => s.settings = settings,
         Edit::SetWindFiles(files) => s.wind_files = files,
+        Edit::SetVessels(vessels) => s.vessels = vessels,
+        Edit::SetPorts(ports) => s.ports = ports,
     }
 }
 
@@ -138,9 +145,10 @@ impl ShelfwindApp {
             return;
         }
         if let Err(e) = after.validate() {
-            self.dialogs.error = Some(format!("that change was not made: {e}"));
+            self.error(Subject::Coast, format!("That change was not made: {e}"));
             return;
         }
+        self.forget(Subject::Coast);
         if self
             .view
             .editing
@@ -210,8 +218,10 @@ impl ShelfwindApp {
         let mut distinct = points.clone();
         distinct.dedup();
         if distinct.len() < 2 {
-            self.dialogs.info =
-                Some("A segment needs at least two points: click on the map to add them.".into());
+            self.info(
+                Subject::Coast,
+                "A segment needs at least two points: click on the map to add them.",
+            );
             return;
         }
         let id = fresh_id(&self.doc.scenario, "segment");

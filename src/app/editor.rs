@@ -141,6 +141,8 @@ pub(super) fn editor_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mu
         }
     });
     ui.label(RichText::new(format!("id: {}", seg.id)).small());
+    ui.label(RichText::new(wind_from_text(app, &seg.id)).small());
+    let draft = &mut app.view.segment_draft;
     text_fields_ui(draft, &seg, ids, ui, commands);
     ui.separator();
     sea_side_ui(draft, &seg, ui, commands);
@@ -154,6 +156,35 @@ pub(super) fn editor_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mu
         .clicked()
     {
         app.dialogs.confirm_delete = Some(id);
+    }
+}
+
+/// Which wind file the segment takes its wind from, in words.
+fn wind_from_text(app: &ShelfwindApp, id: &str) -> String {
+    let Some(cache) = &app.stage_cache else {
+        return "Wind: not read yet".into();
+    };
+    let forecast = cache.forecast();
+    let mut sources: Vec<usize> = forecast
+        .stretches
+        .iter()
+        .filter(|s| s.segment_id == id)
+        .filter_map(|s| s.wind_source)
+        .collect();
+    sources.sort_unstable();
+    sources.dedup();
+    let files = &app.doc.scenario.wind_files;
+    let name = |k: usize| {
+        files.get(k).and_then(|f| f.file_name()).map_or_else(
+            || format!("file {}", k + 1),
+            |n| n.to_string_lossy().to_string(),
+        )
+    };
+    if sources.is_empty() {
+        "Wind: no wind file covers this segment".into()
+    } else {
+        let names: Vec<String> = sources.into_iter().map(name).collect();
+        format!("Wind from: {}", names.join(", "))
     }
 }
 

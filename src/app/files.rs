@@ -4,6 +4,7 @@
 
 use super::commands::{Command, FileAction};
 use super::edit::Edit;
+use super::messages::Subject;
 use super::state::{AppOptions, ShelfwindApp};
 use super::tasks::Task;
 use crate::atomic::write_atomic;
@@ -146,7 +147,7 @@ fn read_coast_file(path: &Path) -> FileResult {
 fn write_file(path: &Path, make: impl FnOnce() -> String, done: &str) -> FileResult {
     write_atomic(path, make().as_bytes())
         .map(|()| FileOutcome::Written(format!("{done} {}", path.display())))
-        .map_err(|e| format!("cannot write {}: {e}", path.display()))
+        .map_err(|e| format!("{} was not written: {e}", path.display()))
 }
 
 impl ShelfwindApp {
@@ -155,23 +156,32 @@ impl ShelfwindApp {
         self.doc.base_dir.clone()
     }
 
-    /// Runs file work in the background; one file task at a time.
+    /// Runs file work in the background; one file task at a time. Messages on the
+    /// same subject are dismissed: this action supersedes them.
     fn start_file_task(
         &mut self,
-        name: &str,
+        subject: Subject,
         ctx: &egui::Context,
         work: impl FnOnce() -> FileResult + Send + 'static,
     ) {
-        if let Some(t) = &self.file_task {
-            self.dialogs.error = Some(format!(
+        if let Some((_, t)) = &self.file_task {
+            let text = format!(
                 "Still busy with the last file ({}): try again in a moment.",
                 t.name
-            ));
+            );
+            self.error(subject, text);
             return;
         }
+        self.forget(subject);
+        let name = match subject {
+            Subject::Scenario => "scenario",
+            Subject::Coast => "coast",
+            Subject::Export => "export",
+            _ => "file",
+        };
         match Task::spawn(name, ctx, work) {
-            Ok(t) => self.file_task = Some(t),
-            Err(e) => self.dialogs.error = Some(e),
+            Ok(t) => self.file_task = Some((subject, t)),
+            Err(e) => self.error(subject, e),
         }
     }
 
@@ -179,14 +189,14 @@ impl ShelfwindApp {
     /// one, so it can be read like any other file).
     pub(super) fn open_demo(&mut self, ctx: &egui::Context) {
         let dir = demo_dir(&self.options);
-        self.start_file_task("demo", ctx, move || write_demo_files(dir, None));
+        self.start_file_task(Subject::Scenario, ctx, move || write_demo_files(dir, None));
     }
 
     /// Opens a scenario at start: the file asked for, or the demo when it cannot be
     /// read (saying why).
     pub(super) fn open_at_start(&mut self, ctx: &egui::Context, path: Option<PathBuf>) {
         let dir = demo_dir(&self.options);
-        self.start_file_task("opening", ctx, move || match path {
+        self.start_file_task(Subject::Scenario, ctx, move || match path {
             Some(p) => read_scenario_file(p).or_else(|e| write_demo_files(dir, Some(e))),
             None => write_demo_files(dir, None),
         });
@@ -212,7 +222,11 @@ impl ShelfwindApp {
 
     /// Takes a finished file task's result; on failure nothing has changed.
     pub(super) fn poll_file_task(&mut self) {
-        let Some(result) = self.file_task.as_ref().and_then(Task::poll) else {
+        let Some((subject, result)) = self
+            .file_task
+            .as_ref()
+            .and_then(|(subject, t)| t.poll().map(|r| (*subject, r)))
+        else {
             return;
         };
         self.file_task = None;
@@ -227,12 +241,14 @@ impl ShelfwindApp {
                     self.remembered.last_scenario.clone_from(&path);
                 }
                 self.replace_document(scenario, path, base_dir);
-                self.dialogs.error = note;
+                if let Some(note) = note {
+                    self.error(Subject::Scenario, note);
+                }
             }
             Ok(FileOutcome::Coast(segments)) => {
                 let n = segments.len();
                 self.edit(Edit::AddSegments(segments));
-                self.dialogs.info = Some(format!("Imported {n} segment(s)."));
+                self.info(Subject::Coast, format!("Imported {n} segment(s)."));
             }
             Ok(FileOutcome::Saved { scenario, path }) => {
                 let mut current = self.doc.scenario.clone();
@@ -244,16 +260,19 @@ impl ShelfwindApp {
                     self.doc.dirty = false;
                     self.remembered.last_scenario = Some(path.clone());
                     self.discard_recovery();
-                    self.dialogs.info = Some(format!("Saved {}", path.display()));
+                    self.info(Subject::Scenario, format!("Saved {}", path.display()));
                 } else {
-                    self.dialogs.info = Some(format!(
-                        "Saved {}; the changes made while saving are not saved yet.",
-                        path.display()
-                    ));
+                    self.info(
+                        Subject::Scenario,
+                        format!(
+                            "Saved {}; the changes made while saving are not saved yet.",
+                            path.display()
+                        ),
+                    );
                 }
             }
-            Ok(FileOutcome::Written(info)) => self.dialogs.info = Some(info),
-            Err(e) => self.dialogs.error = Some(e),
+            Ok(FileOutcome::Written(info)) => self.info(subject, info),
+            Err(e) => self.error(subject, e),
         }
     }
 
@@ -305,25 +324,16 @@ impl ShelfwindApp {
         let path = path.to_path_buf();
         match action {
             FileAction::OpenScenario => {
-                self.start_file_task("opening", ctx, move || read_scenario_file(path));
+                self.start_file_task(Subject::Scenario, ctx, move || read_scenario_file(path));
             }
             FileAction::SaveScenarioAs => self.save_as(path, ctx),
-            FileAction::ImportWind => {
-                if path.exists() {
-                    self.start_plan_job(ctx, Some(vec![path]));
-                } else {
-                    self.dialogs.error = Some(format!(
-                        "The forecast was not imported: no file at {}",
-                        path.display()
-                    ));
-                }
-            }
+            FileAction::ImportWind => self.add_wind_file(path, ctx),
             FileAction::ImportCoast => {
-                self.start_file_task("coast", ctx, move || read_coast_file(&path));
+                self.start_file_task(Subject::Coast, ctx, move || read_coast_file(&path));
             }
             FileAction::ExportCoast => {
                 let segments = self.doc.scenario.segments.clone();
-                self.start_file_task("coast-export", ctx, move || {
+                self.start_file_task(Subject::Export, ctx, move || {
                     write_file(&path, || write_coast_geojson(&segments), "Coast written to")
                 });
             }
@@ -331,20 +341,34 @@ impl ShelfwindApp {
             | FileAction::ExportPlanJson
             | FileAction::ExportPlanGeoJson
             | FileAction::ExportGpx
+            | FileAction::ExportGpxSelected
             | FileAction::ExportTripSheet => self.export_plan(action, path, ctx),
         }
     }
 
     fn export_plan(&mut self, action: FileAction, path: PathBuf, ctx: &egui::Context) {
         let Some(plan) = self.plan.clone() else {
-            self.dialogs.error = Some(
-                "There is no plan to export yet: the forecast is still being read, or it failed."
-                    .into(),
+            self.error(
+                Subject::Export,
+                "There is no plan to export yet: the forecast is still being read, or it failed.",
             );
             return;
         };
-        let day = self.view.day;
-        self.start_file_task("export", ctx, move || {
+        let (day, units) = (self.view.day, self.view.units);
+        let selected: Vec<usize> = self
+            .view
+            .selected
+            .iter()
+            .filter_map(|id| plan.stretches.iter().position(|s| &s.id == id))
+            .collect();
+        if action == FileAction::ExportGpxSelected && selected.is_empty() {
+            self.error(
+                Subject::Export,
+                "No stretch is selected: click one in the list or on the map (Ctrl-click for more), then export.",
+            );
+            return;
+        }
+        self.start_file_task(Subject::Export, ctx, move || {
             write_file(
                 &path,
                 || match action {
@@ -352,7 +376,15 @@ impl ShelfwindApp {
                     FileAction::ExportPlanJson => render_plan(&plan, PlanFormat::Json),
                     FileAction::ExportPlanGeoJson => render_plan(&plan, PlanFormat::GeoJson),
                     FileAction::ExportGpx => render_plan(&plan, PlanFormat::Gpx),
-                    _ => crate::export::trip_sheet_html(&plan, crate::coast::Land::bundled(), day),
+                    FileAction::ExportGpxSelected => {
+                        crate::export::gpx_of_stretches(&plan, &selected)
+                    }
+                    _ => crate::export::trip_sheet_html(
+                        &plan,
+                        crate::coast::Land::bundled(),
+                        day,
+                        units,
+                    ),
                 },
                 "Written to",
             )
@@ -368,7 +400,7 @@ impl ShelfwindApp {
             .into_iter()
             .map(|p| p.strip_prefix(&dir).map(Path::to_path_buf).unwrap_or(p))
             .collect();
-        self.start_file_task("saving", ctx, move || {
+        self.start_file_task(Subject::Scenario, ctx, move || {
             save_scenario(&path, &scenario)
                 .map(|()| FileOutcome::Saved { scenario, path })
                 .map_err(|e| format!("The scenario was not saved: {e}"))
@@ -411,7 +443,10 @@ impl ShelfwindApp {
                     self.view.fit_coast = true;
                 }
                 Err(e) => {
-                    self.dialogs.error = Some(format!("the recovered changes cannot be read: {e}"));
+                    self.error(
+                        Subject::Scenario,
+                        format!("The recovered changes cannot be read: {e}"),
+                    );
                 }
             }
         }

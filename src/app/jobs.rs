@@ -6,6 +6,7 @@
 //! leaves the previous plan (and forecast) in place.
 
 use super::edit::Edit;
+use super::messages::Subject;
 use super::state::ShelfwindApp;
 use crate::coast::{Land, resolve_segments};
 use crate::plan::{
@@ -14,7 +15,7 @@ use crate::plan::{
 };
 use crate::progress::Progress;
 use crate::scenario::{PlanChoice, Scenario};
-use crate::wind::{SourceIdentity, load_sources};
+use crate::wind::{SourceIdentity, check_source, load_sources};
 use chrono_tz::Tz;
 use eframe::egui;
 use std::path::PathBuf;
@@ -28,6 +29,13 @@ pub struct StageCache {
     tz: Tz,
     settings: UpwellingSettings,
     forecast: Arc<Forecast>,
+}
+
+impl StageCache {
+    /// The forecast the plan was ranked from.
+    pub(super) fn forecast(&self) -> std::sync::Arc<Forecast> {
+        self.forecast.clone()
+    }
 }
 
 /// What a job gives back.
@@ -51,6 +59,8 @@ struct JobInput {
     vessel_id: Option<String>,
     port_id: Option<String>,
     cache: Option<StageCache>,
+    /// A file being added, checked whole before the plan is made.
+    new_file: Option<PathBuf>,
 }
 
 /// The conditions: from the cache when the files and the geometry are unchanged,
@@ -79,6 +89,13 @@ fn conditions(input: &JobInput, progress: &Progress) -> Result<Arc<SampledCondit
 }
 
 fn run_job(input: &JobInput, progress: &Progress) -> JobResult {
+    if let Some(new) = &input.new_file {
+        // A new file is read whole first: the files before it may cover every point.
+        let sources = load_sources(std::slice::from_ref(new)).map_err(|e| e.to_string())?;
+        for s in &sources {
+            check_source(s, progress).map_err(|e| e.to_string())?;
+        }
+    }
     let scenario = &input.scenario;
     let tz = scenario.tz().map_err(|e| e.to_string())?;
     let settings = scenario.upwelling_settings();
@@ -154,6 +171,7 @@ impl ShelfwindApp {
             port_id: valid_port(&self.view.port_id),
             scenario,
             cache: self.stage_cache.clone(),
+            new_file: new_wind.as_ref().and_then(|f| f.last().cloned()),
         };
         if input.scenario.segments.is_empty() {
             self.plan = None;
@@ -168,31 +186,34 @@ impl ShelfwindApp {
         let label = match &new_wind {
             Some(f) => format!(
                 "Reading {}",
-                f.first()
+                f.last()
                     .and_then(|p| p.file_name())
                     .map(|n| n.to_string_lossy().to_string())
                     .unwrap_or_default()
             ),
             None => "Reading the forecast and ranking the stretches".into(),
         };
-        std::thread::Builder::new()
+        let spawned = std::thread::Builder::new()
             .name("shelfwind-plan".into())
             .spawn(move || {
                 let result = run_job(&input, &worker_progress);
                 let _ = tx.send(result);
                 repaint.request_repaint();
-            })
-            .map_or_else(
-                |e| self.dialogs.error = Some(format!("cannot start the background job: {e}")),
-                |_| {
-                    self.job = Some(PlanJob {
-                        progress,
-                        label,
-                        new_wind_files: new_wind,
-                        rx,
-                    });
-                },
-            );
+            });
+        match spawned {
+            Ok(_) => {
+                self.job = Some(PlanJob {
+                    progress,
+                    label,
+                    new_wind_files: new_wind,
+                    rx,
+                });
+            }
+            Err(e) => self.error(
+                Subject::App,
+                format!("Cannot start the background job: {e}"),
+            ),
+        }
     }
 
     /// Takes the job's result when it is ready.
@@ -206,19 +227,25 @@ impl ShelfwindApp {
         match (result, job.new_wind_files) {
             (Ok((plan, cache)), new_wind) => {
                 self.stage_cache = Some(cache);
+                self.forget(Subject::Forecast);
                 if let Some(files) = new_wind {
+                    let added = files
+                        .last()
+                        .map(|f| f.display().to_string())
+                        .unwrap_or_default();
                     self.edit(Edit::SetWindFiles(files));
                     // The edit marks the plan stale; this plan already uses the new files.
                     self.plan_stale = false;
-                    self.dialogs.info = Some("Forecast imported.".into());
+                    self.info(Subject::Forecast, format!("Wind file added: {added}"));
                 }
                 self.install_plan(plan);
             }
             (Err(_), _) if cancelled => {}
             (Err(e), Some(_)) => {
-                self.dialogs.error = Some(format!(
-                    "The forecast was not imported; the previous forecast is kept.\n\n{e}"
-                ));
+                self.error(
+                    Subject::Forecast,
+                    format!("The wind file was not added; the forecast is as it was.\n\n{e}"),
+                );
             }
             (Err(e), None) => {
                 self.plan_error = Some(e);

@@ -1,15 +1,19 @@
 //! The map: base layer (bundled land, or cached online tiles), the coast coloured by the
-//! chosen measure, transport and wind arrows, ports, the editor's handles, and clicks.
+//! chosen measure, transport and wind arrows, ports, the editor's handles, and clicks;
+//! over it, zoom buttons, a scale bar in nautical miles, the pointer's position, the name
+//! of the stretch under the pointer and the length of a segment being drawn.
 
 use super::commands::Command;
 use super::edit::Edit;
 use super::land_layer::LandLayer;
 use super::state::{AppOptions, BaseLayer, Colouring, ShelfwindApp, Tool};
-use crate::coast::{CoastSegment, LatLon, SeaSide, destination, initial_bearing_deg, midpoint};
+use crate::coast::{
+    CoastSegment, LatLon, SeaSide, destination, distance_m, initial_bearing_deg, midpoint,
+};
 use crate::export::colour::{self, Rgb};
-use crate::physics::m_s_to_knots;
+use crate::physics::{NAUTICAL_MILE_M, m_s_to_knots};
 use crate::plan::{Plan, StretchInfo};
-use eframe::egui::{self, Align2, Color32, FontId, Pos2, Shape, Stroke, Vec2};
+use eframe::egui::{self, Align2, Color32, FontId, Pos2, Rect, Shape, Stroke, Vec2};
 use walkers::{MapMemory, Plugin, Projector, lat_lon};
 
 fn c32(c: Rgb) -> Color32 {
@@ -35,10 +39,11 @@ pub(super) fn online_tiles(ctx: &egui::Context, options: &AppOptions) -> walkers
 /// How a stretch stands on the chosen day for the chosen boat.
 #[derive(Debug, Clone, Copy, PartialEq)]
 enum DayStatus {
-    /// Ranked; with a full fishing day inside the safe window or not.
-    Ranked { full_day: bool },
-    /// Left out; for the wind or for another reason.
-    Excluded { wind: bool },
+    /// Ranked, with its score; with a full fishing day inside the safe window or not.
+    Ranked { full_day: bool, score: f64 },
+    /// Left out: closed to fishing, for the wind, or for another reason (range, no
+    /// forecast, the equator).
+    Excluded { wind: bool, closed: bool },
 }
 
 /// The status of every stretch on a day, found in one pass over the day's lists.
@@ -48,11 +53,13 @@ fn day_statuses(plan: &Plan, day: usize) -> Vec<Option<DayStatus>> {
         for r in &d.ranked {
             out[r.stretch] = Some(DayStatus::Ranked {
                 full_day: r.window_factor >= 1.0,
+                score: r.score,
             });
         }
         for e in &d.excluded {
             out[e.stretch] = Some(DayStatus::Excluded {
                 wind: e.exclusion.is_wind(),
+                closed: matches!(e.exclusion, crate::plan::Exclusion::Closed(_)),
             });
         }
     }
@@ -70,11 +77,19 @@ fn stretch_colour(
     let rgb = match colouring {
         Colouring::IndexNow => colour::index_colour(s.hour_at(time?)?.index_m3s_per_100m),
         Colouring::Productivity => colour::productivity_colour(s.day(date?)?.response.productivity),
+        Colouring::DayScore => match status? {
+            DayStatus::Ranked { score, .. } => colour::productivity_colour(score / 100.0),
+            DayStatus::Excluded { closed: true, .. } => colour::SAFE_CLOSED,
+            DayStatus::Excluded { .. } => colour::SAFE_EXCLUDED,
+        },
         Colouring::SafeForBoat => match status? {
-            DayStatus::Ranked { full_day: true } => colour::SAFE_ALL_DAY,
-            DayStatus::Ranked { full_day: false } => colour::SAFE_PART_DAY,
-            DayStatus::Excluded { wind: true } => colour::SAFE_NOT,
-            DayStatus::Excluded { wind: false } => colour::SAFE_EXCLUDED,
+            DayStatus::Ranked { full_day: true, .. } => colour::SAFE_ALL_DAY,
+            DayStatus::Ranked {
+                full_day: false, ..
+            } => colour::SAFE_PART_DAY,
+            DayStatus::Excluded { closed: true, .. } => colour::SAFE_CLOSED,
+            DayStatus::Excluded { wind: true, .. } => colour::SAFE_NOT,
+            DayStatus::Excluded { .. } => colour::SAFE_EXCLUDED,
         },
     };
     Some(c32(rgb))
@@ -119,6 +134,87 @@ fn distance_to_polyline(p: Pos2, line: &[Pos2]) -> f32 {
             (a + ab * t).distance(p)
         })
         .fold(f32::INFINITY, f32::min)
+}
+
+/// How near the pointer must come to a stretch to name it or pick it, pixels.
+const STRETCH_PICK_PX: f32 = 12.0;
+
+/// A stretch as drawn this frame: its screen line and the box around it.
+struct ScreenLine {
+    /// Index into [`Plan::stretches`].
+    stretch: usize,
+    bounds: Rect,
+    points: Vec<Pos2>,
+}
+
+/// The stretch whose line passes nearest `p`, if within `max_px`. Lines whose box is
+/// farther than that are passed over unmeasured, so only stretches near the pointer
+/// cost anything.
+fn nearest_stretch(p: Pos2, lines: &[ScreenLine], max_px: f32) -> Option<usize> {
+    lines
+        .iter()
+        .filter(|l| l.bounds.expand(max_px).contains(p))
+        .map(|l| (l.stretch, distance_to_polyline(p, &l.points)))
+        .filter(|(_, d)| *d < max_px)
+        .min_by(|a, b| a.1.total_cmp(&b.1))
+        .map(|(k, _)| k)
+}
+
+/// Outer rim and fill of the halo around a selected stretch.
+const SELECTED_RIM: Color32 = Color32::from_rgb(20, 20, 20);
+const SELECTED_FILL: Color32 = Color32::from_rgb(255, 222, 0);
+
+/// Paints `text` on a light box whose `align` corner is at `anchor`, wrapped at
+/// `wrap_px`; returns the box.
+fn text_box(
+    painter: &egui::Painter,
+    anchor: Pos2,
+    align: Align2,
+    text: &str,
+    wrap_px: f32,
+    border: Stroke,
+) -> Rect {
+    const PAD_PX: f32 = 4.0;
+    let colour = Color32::from_rgb(20, 20, 20);
+    let galley = painter.layout(text.to_owned(), FontId::proportional(13.5), colour, wrap_px);
+    let rect = align.anchor_size(anchor, galley.size() + Vec2::splat(2.0 * PAD_PX));
+    painter.rect(
+        rect,
+        3.0,
+        Color32::from_white_alpha(230),
+        border,
+        egui::StrokeKind::Inside,
+    );
+    painter.galley(rect.min + Vec2::splat(PAD_PX), galley, colour);
+    rect
+}
+
+/// Names something painted on the map for screen readers (and tests): a widget over
+/// `rect` that only senses hovering, so clicks and drags still reach the map.
+fn name_painted(ui: &egui::Ui, rect: Rect, salt: impl egui::AsIdSalt, name: &str) {
+    ui.interact(rect, ui.scope_id().with(salt), egui::Sense::hover())
+        .widget_info(|| egui::WidgetInfo::labeled(egui::Role::Label, true, name));
+}
+
+/// What the pointer shows over a stretch: its name and, if it is ranked on the day, its
+/// rank and score.
+fn stretch_hover_text(plan: &Plan, day: usize, stretch: usize) -> String {
+    let name = &plan.stretches[stretch].name;
+    let ranked = plan.days.get(day).and_then(|d| {
+        d.ranked
+            .iter()
+            .find(|r| r.stretch == stretch)
+            .map(|r| (r, d.ranked.len()))
+    });
+    match ranked {
+        Some((r, of)) => format!(
+            "{name}\nrank {}{} of {of}, score {:.0}",
+            if r.tied_with_above { "=" } else { "" },
+            r.rank,
+            r.score
+        ),
+        None => name.clone(),
+    }
 }
 
 /// A handle of the segment in the editor, as drawn on screen.
@@ -216,14 +312,15 @@ impl CoastLayer<'_> {
         }
     }
 
-    /// The stretches, coloured, with their arrows at the chosen hour; returns their
-    /// screen lines for clicks.
+    /// The stretches, coloured, with their arrows at the chosen hour and the selected
+    /// ones ringed and named; returns their screen lines for clicks and hovering.
     fn draw_stretches(
         &self,
+        ui: &egui::Ui,
         painter: &egui::Painter,
-        view: egui::Rect,
+        view: Rect,
         project: &dyn Fn(&LatLon) -> Pos2,
-    ) -> Vec<(usize, Vec<Pos2>)> {
+    ) -> Vec<ScreenLine> {
         let Some(plan) = self.plan else {
             return Vec::new();
         };
@@ -231,19 +328,20 @@ impl CoastLayer<'_> {
         let date = plan.days.get(self.day).map(|d| d.date);
         let mut screen_lines = Vec::new();
         let mut arrow_cells = std::collections::HashSet::new();
+        let mut names = Vec::new();
         for (k, s) in plan.stretches.iter().enumerate() {
             let line: Vec<Pos2> = s.points.iter().map(project).collect();
+            let bounds = Rect::from_points(&line);
             // Off screen: nothing to draw or click.
-            if !line.iter().any(|p| view.contains(*p))
-                && !egui::Rect::from_points(&line).intersects(view)
-            {
+            if !bounds.intersects(view) {
                 continue;
             }
             if self.selected.contains(&s.id) {
-                painter.add(Shape::line(
-                    line.clone(),
-                    Stroke::new(13.0, Color32::from_rgb(20, 20, 20)),
-                ));
+                // A bright band with a dark rim, wider than the stretch: it shows on
+                // land, sea and tiles whatever the stretch's own colour.
+                painter.add(Shape::line(line.clone(), Stroke::new(21.0, SELECTED_RIM)));
+                painter.add(Shape::line(line.clone(), Stroke::new(17.0, SELECTED_FILL)));
+                names.push((k, project(&s.centre), s.offshore_bearing_deg));
             }
             let colour = stretch_colour(s, self.colouring, date, statuses[k], self.time)
                 .unwrap_or(Color32::from_gray(160));
@@ -261,13 +359,73 @@ impl CoastLayer<'_> {
                     6.0,
                 ));
             }
-            screen_lines.push((k, line));
             if let Some(h) = self.time.and_then(|t| s.hour_at(t)) {
                 let c = project(&s.centre) + screen_dir(s.offshore_bearing_deg) * 14.0;
                 hour_arrows(painter, c, h, &mut arrow_cells);
             }
+            screen_lines.push(ScreenLine {
+                stretch: k,
+                bounds,
+                points: line,
+            });
+        }
+        // Names last, on the landward side, clear of the offshore arrows.
+        for (k, centre, offshore_deg) in names {
+            let landward = screen_dir(offshore_deg + 180.0);
+            let align = if landward.x >= 0.0 {
+                Align2::LEFT_CENTER
+            } else {
+                Align2::RIGHT_CENTER
+            };
+            let name = &plan.stretches[k].name;
+            let rect = text_box(
+                painter,
+                centre + landward * 18.0,
+                align,
+                name,
+                240.0,
+                Stroke::new(2.0, SELECTED_FILL),
+            );
+            name_painted(
+                ui,
+                rect,
+                ("selected stretch", k),
+                &format!("Selected: {name}"),
+            );
         }
         screen_lines
+    }
+
+    /// The name (and rank) of the stretch under the pointer, in a box beside it.
+    fn hover_label(&self, ui: &egui::Ui, response: &egui::Response, lines: &[ScreenLine]) {
+        let (Some(plan), Some(p)) = (self.plan, response.hover_pos()) else {
+            return;
+        };
+        let map = ui.max_rect();
+        if response.dragged() || self.dragging.is_some() || zoom_buttons_rect(map).contains(p) {
+            return;
+        }
+        let Some(k) = nearest_stretch(p, lines, STRETCH_PICK_PX) else {
+            return;
+        };
+        let text = stretch_hover_text(plan, self.day, k);
+        // Towards the middle of the map, so the box is not cut off at an edge.
+        let (left, up) = (p.x > map.center().x, p.y > map.center().y);
+        let end = |far: bool| {
+            if far {
+                egui::Align::Max
+            } else {
+                egui::Align::Min
+            }
+        };
+        let align = Align2([end(left), end(up)]);
+        let offset = Vec2::new(
+            if left { -16.0 } else { 16.0 },
+            if up { -12.0 } else { 18.0 },
+        );
+        let painter = ui.painter_at(map);
+        let rect = text_box(&painter, p + offset, align, &text, 280.0, Stroke::NONE);
+        name_painted(ui, rect, "stretch under pointer", &text);
     }
 
     fn draw_ports(&self, painter: &egui::Painter, project: &dyn Fn(&LatLon) -> Pos2) {
@@ -414,11 +572,12 @@ impl CoastLayer<'_> {
         &mut self,
         ui: &egui::Ui,
         p: Pos2,
-        screen_lines: &[(usize, Vec<Pos2>)],
+        screen_lines: &[ScreenLine],
         project: &dyn Fn(&LatLon) -> Pos2,
         unproject: &dyn Fn(Pos2) -> LatLon,
     ) {
-        if let Tool::Draw { .. } = self.tool {
+        // Drawing adds a point; placing a port puts it here.
+        if matches!(self.tool, Tool::Draw { .. } | Tool::PlacePort(_)) {
             self.commands.push(Command::AddDraftPoint(unproject(p)));
             return;
         }
@@ -437,12 +596,8 @@ impl CoastLayer<'_> {
             return;
         }
         let add = ui.input(|i| i.modifiers.command || i.modifiers.shift);
-        let nearest = screen_lines
-            .iter()
-            .map(|(k, line)| (*k, distance_to_polyline(p, line)))
-            .min_by(|a, b| a.1.total_cmp(&b.1))
-            .filter(|(_, d)| *d < 12.0);
-        if let (Some((k, _)), Some(plan)) = (nearest, self.plan) {
+        let nearest = nearest_stretch(p, screen_lines, STRETCH_PICK_PX);
+        if let (Some(k), Some(plan)) = (nearest, self.plan) {
             self.commands.push(Command::SelectStretch {
                 id: plan.stretches[k].id.clone(),
                 add,
@@ -474,10 +629,11 @@ impl Plugin for CoastLayer<'_> {
             LatLon::new(pos.y(), pos.x())
         };
         self.draw_segments(&painter, &project);
-        let screen_lines = self.draw_stretches(&painter, ui.max_rect().expand(20.0), &project);
+        let screen_lines = self.draw_stretches(ui, &painter, ui.max_rect().expand(20.0), &project);
         self.draw_ports(&painter, &project);
         self.draw_editing(&painter, &project);
         self.draw_draft(&painter, response, &project);
+        self.hover_label(ui, response, &screen_lines);
         if self.interact_pointer(ui, response, &unproject) {
             return;
         }
@@ -491,8 +647,305 @@ impl Plugin for CoastLayer<'_> {
     }
 }
 
-/// The map panel.
-pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+/// A step of the zoom buttons, applied to the map's memory after the map is drawn.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum ZoomStep {
+    In,
+    Out,
+}
+
+/// Side of a zoom button, pixels.
+const ZOOM_BUTTON_PX: f32 = 32.0;
+/// Gap between the overlays and the map's edge, pixels.
+const EDGE_PX: f32 = 10.0;
+/// Height kept free at the bottom right for the tile credit when tiles are shown, pixels.
+const CREDIT_PX: f32 = 26.0;
+/// Width of the legend (bottom left), pixels.
+const LEGEND_WIDTH_PX: f32 = 240.0;
+/// Longest the scale bar may be, pixels.
+const SCALE_BAR_MAX_PX: f32 = 140.0;
+/// Height of the scale bar's box, pixels.
+const SCALE_BOX_PX: f32 = 40.0;
+
+/// Where the zoom buttons sit: the top right corner of the map, one above the other.
+fn zoom_buttons_rect(map: Rect) -> Rect {
+    Rect::from_min_size(
+        map.right_top() + Vec2::new(-EDGE_PX - ZOOM_BUTTON_PX, EDGE_PX),
+        Vec2::new(ZOOM_BUTTON_PX, 2.0 * ZOOM_BUTTON_PX + 4.0),
+    )
+}
+
+/// The bottom right corner of the scale bar and the pointer's position, above the tile
+/// credit when there is one.
+fn readout_corner(map: Rect, credit: bool) -> Pos2 {
+    let credit_px = if credit { CREDIT_PX } else { 0.0 };
+    map.right_bottom() - Vec2::new(EDGE_PX, EDGE_PX + credit_px)
+}
+
+/// The "+" and "−" buttons; a click is left in `step` for the caller to apply.
+struct ZoomButtons<'a> {
+    step: &'a mut Option<ZoomStep>,
+}
+
+impl Plugin for ZoomButtons<'_> {
+    fn run(
+        self: Box<Self>,
+        ui: &mut egui::Ui,
+        _response: &egui::Response,
+        _projector: &Projector,
+        _memory: &MapMemory,
+    ) {
+        let area = zoom_buttons_rect(ui.max_rect());
+        let buttons = [
+            (ZoomStep::In, "+", "Zoom in", 0.0),
+            (ZoomStep::Out, "−", "Zoom out", 1.0),
+        ];
+        for (step, glyph, name, row) in buttons {
+            let at = Rect::from_min_size(
+                area.min + Vec2::new(0.0, row * (ZOOM_BUTTON_PX + 4.0)),
+                Vec2::splat(ZOOM_BUTTON_PX),
+            );
+            let button = egui::Button::new(egui::RichText::new(glyph).size(20.0).strong())
+                .min_size(Vec2::splat(ZOOM_BUTTON_PX));
+            let response = ui.put(at, button).on_hover_text(name);
+            response.widget_info(|| egui::WidgetInfo::labeled(egui::Role::Button, true, name));
+            if response.clicked() {
+                *self.step = Some(step);
+            }
+        }
+    }
+}
+
+/// The longest round length not over `max_nm`: 1, 2 or 5 times a power of ten.
+///
+/// # Units
+/// nautical miles, in and out.
+fn round_length_nm(max_nm: f64) -> Option<f64> {
+    if !(max_nm.is_finite() && max_nm > 0.0) {
+        return None;
+    }
+    let decade = 10f64.powf(max_nm.log10().floor());
+    [5.0, 2.0, 1.0]
+        .into_iter()
+        .map(|m| m * decade)
+        .find(|v| *v <= max_nm * (1.0 + 1e-9))
+}
+
+/// A length in nautical miles as a scale shows it: no trailing zeros (`0.5 nm`, `20 nm`).
+fn scale_text(length_nm: f64) -> String {
+    let digits = format!("{length_nm:.3}");
+    format!("{} nm", digits.trim_end_matches('0').trim_end_matches('.'))
+}
+
+/// The length of a path through the points, nautical miles (great circles between them).
+fn path_length_nm(points: &[LatLon]) -> f64 {
+    points
+        .windows(2)
+        .map(|w| distance_m(w[0], w[1]))
+        .sum::<f64>()
+        / NAUTICAL_MILE_M
+}
+
+/// One coordinate in degrees and decimal minutes, e.g. `38°26.4'N`; `positive` and
+/// `negative` name the hemispheres. Minutes are marked with an apostrophe: the bundled
+/// font has no prime sign.
+fn degrees_minutes(deg: f64, positive: char, negative: char) -> String {
+    // Rounded once, in tenths of a minute, so 59.96' carries into the degree.
+    let tenths = (deg.abs() * 600.0).round() as u64;
+    let (whole, minutes) = (tenths / 600, tenths % 600);
+    let hemisphere = if deg < 0.0 && tenths > 0 {
+        negative
+    } else {
+        positive
+    };
+    format!("{whole}°{:02}.{}'{hemisphere}", minutes / 10, minutes % 10)
+}
+
+/// A position in degrees and decimal minutes, latitude first, e.g.
+/// `38°26.4'N 123°08.4'W`; the longitude is brought into −180°..180° first (the map can
+/// be panned round the world).
+fn position_text(p: LatLon) -> String {
+    let lon_deg = (p.lon_deg + 180.0).rem_euclid(360.0) - 180.0;
+    format!(
+        "{} {}",
+        degrees_minutes(p.lat_deg, 'N', 'S'),
+        degrees_minutes(lon_deg, 'E', 'W')
+    )
+}
+
+/// Metres per screen pixel across the middle of the map (Mercator's scale changes with
+/// latitude, so the middle stands for the view).
+fn metres_per_px(projector: &Projector, map: Rect) -> f64 {
+    let half_span_px = 50.0;
+    let at = |dx: f32| {
+        let p = projector.unproject((map.center() + Vec2::new(dx, 0.0)).to_vec2());
+        LatLon::new(p.y(), p.x())
+    };
+    distance_m(at(-half_span_px), at(half_span_px)) / f64::from(2.0 * half_span_px)
+}
+
+/// The scale bar in nautical miles, bottom right.
+struct ScaleBar {
+    /// The tile credit takes the bottom right corner.
+    credit: bool,
+}
+
+impl Plugin for ScaleBar {
+    fn run(
+        self: Box<Self>,
+        ui: &mut egui::Ui,
+        _response: &egui::Response,
+        projector: &Projector,
+        _memory: &MapMemory,
+    ) {
+        let map = ui.max_rect();
+        let m_per_px = metres_per_px(projector, map);
+        let max_nm = f64::from(SCALE_BAR_MAX_PX) * m_per_px / NAUTICAL_MILE_M;
+        let Some(length_nm) = round_length_nm(max_nm) else {
+            return;
+        };
+        let bar_px = (length_nm * NAUTICAL_MILE_M / m_per_px) as f32;
+        let text = scale_text(length_nm);
+        let corner = readout_corner(map, self.credit);
+        let rect = Align2::RIGHT_BOTTOM
+            .anchor_size(corner, Vec2::new(bar_px.max(40.0) + 20.0, SCALE_BOX_PX));
+        let painter = ui.painter_at(map);
+        painter.rect_filled(rect, 3.0, Color32::from_white_alpha(230));
+        let ink = Color32::from_rgb(20, 20, 20);
+        let y = rect.bottom() - 10.0;
+        let (x0, x1) = (rect.right() - 10.0 - bar_px, rect.right() - 10.0);
+        let stroke = Stroke::new(2.0, ink);
+        painter.line_segment([Pos2::new(x0, y), Pos2::new(x1, y)], stroke);
+        for x in [x0, x1] {
+            painter.line_segment([Pos2::new(x, y - 7.0), Pos2::new(x, y + 3.0)], stroke);
+        }
+        painter.text(
+            Pos2::new(f32::midpoint(x0, x1), y - 6.0),
+            Align2::CENTER_BOTTOM,
+            &text,
+            FontId::proportional(13.5),
+            ink,
+        );
+        name_painted(ui, rect, "scale bar", &format!("Scale bar: {text}"));
+    }
+}
+
+/// The position under the pointer, above the scale bar.
+struct PointerPosition {
+    /// The tile credit takes the bottom right corner.
+    credit: bool,
+}
+
+impl Plugin for PointerPosition {
+    fn run(
+        self: Box<Self>,
+        ui: &mut egui::Ui,
+        response: &egui::Response,
+        projector: &Projector,
+        _memory: &MapMemory,
+    ) {
+        let map = ui.max_rect();
+        let Some(p) = response
+            .hover_pos()
+            .filter(|p| !zoom_buttons_rect(map).contains(*p))
+        else {
+            return;
+        };
+        let at = projector.unproject(p.to_vec2());
+        let text = position_text(LatLon::new(at.y(), at.x()));
+        let anchor = readout_corner(map, self.credit) - Vec2::new(0.0, SCALE_BOX_PX + 4.0);
+        let painter = ui.painter_at(map);
+        let rect = text_box(
+            &painter,
+            anchor,
+            Align2::RIGHT_BOTTOM,
+            &text,
+            f32::INFINITY,
+            Stroke::NONE,
+        );
+        name_painted(ui, rect, "pointer position", &format!("Pointer at {text}"));
+    }
+}
+
+/// How to draw a segment, and the length so far (the points and the pointer), at the
+/// bottom of the map between the legend and the scale bar.
+struct DraftHint<'a> {
+    points: &'a [LatLon],
+}
+
+impl Plugin for DraftHint<'_> {
+    fn run(
+        self: Box<Self>,
+        ui: &mut egui::Ui,
+        response: &egui::Response,
+        projector: &Projector,
+        _memory: &MapMemory,
+    ) {
+        let mut path = self.points.to_vec();
+        if let Some(p) = response.hover_pos() {
+            let at = projector.unproject(p.to_vec2());
+            path.push(LatLon::new(at.y(), at.x()));
+        }
+        let length = match path_length_nm(&path) {
+            _ if path.len() < 2 => String::new(),
+            nm if nm < 1.0 => format!(", {nm:.2} nm long"),
+            nm => format!(", {nm:.1} nm long"),
+        };
+        let text = format!(
+            "Drawing a segment: click to add points ({} so far{length}); double-click or Enter to finish; Esc to stop.",
+            self.points.len()
+        );
+        let map = ui.max_rect();
+        let left = map.left() + 2.0 * EDGE_PX + LEGEND_WIDTH_PX;
+        let right = map.right() - 2.0 * EDGE_PX - SCALE_BAR_MAX_PX - 20.0;
+        let wrap_px = (right - left).max(200.0);
+        let anchor = Pos2::new(f32::midpoint(left, right), map.bottom() - EDGE_PX);
+        let painter = ui.painter_at(map);
+        let border = Stroke::new(1.5, Color32::from_rgb(160, 60, 0));
+        let rect = text_box(
+            &painter,
+            anchor,
+            Align2::CENTER_BOTTOM,
+            &text,
+            wrap_px,
+            border,
+        );
+        name_painted(ui, rect, "drawing hint", &text);
+    }
+}
+
+/// What the map panel remembers between frames besides walkers' memory. Kept in egui's
+/// memory, so the app's state needs no field for it.
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct MapPanelMemory {
+    /// Where the map was last drawn.
+    rect: Rect,
+}
+
+/// Keeps every place where it was on screen when the map's rectangle changes (a side
+/// panel opens or is resized, the window changes size): walkers keeps its centre in the
+/// middle of the rectangle, so without this the coast would jump by half the change.
+fn keep_view_steady(
+    ctx: &egui::Context,
+    memory: &mut MapMemory,
+    my_position: walkers::Position,
+    rect: Rect,
+) {
+    let id = egui::Id::unique("shelfwind map panel");
+    let last: Option<MapPanelMemory> = ctx.data(|d| d.get_temp(id));
+    ctx.data_mut(|d| d.insert_temp(id, MapPanelMemory { rect }));
+    let Some(last) = last else {
+        return;
+    };
+    if last.rect.center() == rect.center() || !last.rect.is_positive() || !rect.is_positive() {
+        return;
+    }
+    let before = Projector::new(last.rect, &walkers::MercatorProjection, memory, my_position);
+    memory.center_at(before.unproject(rect.center().to_vec2()));
+}
+
+/// Centres the map where asked (a "Show" button), or frames the whole coast.
+fn place_view(app: &mut ShelfwindApp, size: Vec2) {
     if let Some(p) = app.view.centre_on.take() {
         app.map_memory.center_at(lat_lon(p.lat_deg, p.lon_deg));
     }
@@ -504,13 +957,21 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
             .iter()
             .flat_map(|s| s.points.iter().copied())
             .chain(app.doc.scenario.ports.iter().map(|p| p.position));
-        if let Some((centre, zoom)) = fit(points, ui.available_size()) {
+        if let Some((centre, zoom)) = fit(points, size) {
             app.map_memory
                 .center_at(lat_lon(centre.lat_deg, centre.lon_deg));
             let _ = app.map_memory.set_zoom(zoom);
         }
     }
+}
+
+/// The map panel.
+pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    let rect = ui.available_rect_before_wrap();
     let centre = app.coast_centre().unwrap_or(LatLon::new(0.0, 0.0));
+    let my_position = lat_lon(centre.lat_deg, centre.lon_deg);
+    keep_view_steady(ui.ctx(), &mut app.map_memory, my_position, rect);
+    place_view(app, rect.size());
     let time = app.view.timeline.get(app.view.hour).copied();
     let editing = app
         .view
@@ -544,68 +1005,97 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
         None
     };
     let mut handles = Vec::new();
+    let mut zoom_step = None;
     let plan = app.plan.clone();
     let ports = app.doc.scenario.ports.clone();
-    let map = walkers::Map::new(
-        tiles,
-        &mut app.map_memory,
-        lat_lon(centre.lat_deg, centre.lon_deg),
-    )
-    .panning(panning)
-    .double_click_to_zoom(!matches!(app.view.tool, Tool::Draw { .. }))
-    .with_plugin(LandLayer {
-        mesh: app.land.as_deref(),
-        paint_sea: !online,
-    })
-    .with_plugin(CoastLayer {
-        plan: plan.as_deref(),
-        segments: &app.doc.scenario.segments,
-        colouring: app.view.colouring,
-        day: app.view.day,
-        time,
-        selected: &app.view.selected,
-        editing,
-        tool: &app.view.tool,
-        dragging,
-        commands,
-        handles: &mut handles,
-        ports: &ports,
-    });
-    let response = map.show(ui, |_, _, _, _| ()).response;
+    let draft = if let Tool::Draw { points } = &app.view.tool {
+        Some(points.as_slice())
+    } else {
+        None
+    };
+    let mut map = walkers::Map::new(tiles, &mut app.map_memory, my_position)
+        .panning(panning)
+        // The wheel zooms about the pointer, with no key held: the map is what the
+        // wheel is for here (walkers' default pans with it and zooms with Ctrl).
+        .zoom_with_ctrl(false)
+        .double_click_to_zoom(draft.is_none())
+        .with_plugin(LandLayer {
+            mesh: app.land.as_deref(),
+            paint_sea: !online,
+        })
+        .with_plugin(CoastLayer {
+            plan: plan.as_deref(),
+            segments: &app.doc.scenario.segments,
+            colouring: app.view.colouring,
+            day: app.view.day,
+            time,
+            selected: &app.view.selected,
+            editing,
+            tool: &app.view.tool,
+            dragging,
+            commands,
+            handles: &mut handles,
+            ports: &ports,
+        })
+        .with_plugin(ScaleBar { credit: online })
+        .with_plugin(PointerPosition { credit: online })
+        .with_plugin(ZoomButtons {
+            step: &mut zoom_step,
+        });
+    if let Some(points) = draft {
+        map = map.with_plugin(DraftHint { points });
+    }
+    // The map in a Ui of its own: walkers zooms with the wheel while the pointer is in
+    // the Ui it is given, which must be the map and not the toolbar above it.
+    let mut map_area = ui.new_child(egui::UiBuilder::new().max_rect(rect));
+    let response = map.show(&mut map_area, |_, _, _, _| ()).response;
+    ui.advance_cursor_after_rect(rect);
     response.widget_info(|| egui::WidgetInfo::labeled(egui::Role::Canvas, true, "Map"));
     app.view.handles = handles;
-    let rect = response.rect;
-    legend_ui(ui, rect, app.view.colouring);
-    if online {
-        let painter = ui.painter_at(rect);
-        let text = "© OpenStreetMap contributors";
-        let pos = rect.right_bottom() - Vec2::new(6.0, 6.0);
-        let galley =
-            painter.layout_no_wrap(text.into(), FontId::proportional(12.0), Color32::BLACK);
-        painter.rect_filled(
-            egui::Rect::from_min_size(
-                pos - galley.size() - Vec2::splat(3.0),
-                galley.size() + Vec2::splat(6.0),
-            ),
-            3.0,
-            Color32::from_white_alpha(220),
-        );
-        painter.galley(pos - galley.size(), galley, Color32::BLACK);
+    let zoomed = match zoom_step {
+        Some(ZoomStep::In) => app.map_memory.zoom_in().is_ok(),
+        Some(ZoomStep::Out) => app.map_memory.zoom_out().is_ok(),
+        None => false,
+    };
+    if zoomed {
+        ui.ctx().request_repaint();
     }
-    if let Tool::Draw { points } = &app.view.tool {
-        let painter = ui.painter_at(rect);
-        let text = format!(
-            "Drawing a segment: click to add points ({} so far); double-click or Enter to finish; Esc to stop.",
-            points.len()
-        );
-        painter.text(
-            rect.center_bottom() - Vec2::new(0.0, 14.0),
-            Align2::CENTER_BOTTOM,
-            text,
+    legend_ui(ui, response.rect, app.view.colouring);
+    if online {
+        credit_ui(ui, response.rect);
+    }
+    if let Tool::PlacePort(k) = app.view.tool {
+        let name = app
+            .doc
+            .scenario
+            .ports
+            .get(k)
+            .map_or("the port", |p| p.name.as_str());
+        ui.painter_at(response.rect).text(
+            response.rect.center_top() + Vec2::new(0.0, 14.0),
+            Align2::CENTER_TOP,
+            format!("Placing {name}: click on the map where the harbour mouth is; Esc to stop."),
             FontId::proportional(15.0),
             Color32::from_rgb(160, 60, 0),
         );
     }
+}
+
+/// The tile credit, bottom right.
+fn credit_ui(ui: &egui::Ui, rect: Rect) {
+    let painter = ui.painter_at(rect);
+    let text = "© OpenStreetMap contributors";
+    let pos = rect.right_bottom() - Vec2::new(6.0, 6.0);
+    let galley = painter.layout_no_wrap(text.into(), FontId::proportional(12.0), Color32::BLACK);
+    painter.rect_filled(
+        Rect::from_min_size(
+            pos - galley.size() - Vec2::splat(3.0),
+            galley.size() + Vec2::splat(6.0),
+        ),
+        3.0,
+        Color32::from_white_alpha(220),
+    );
+    painter.galley(pos - galley.size(), galley, Color32::BLACK);
 }
 
 /// The centre and Web Mercator zoom that frame the points in a view of `size` pixels,
@@ -639,18 +1129,9 @@ fn fit(points: impl Iterator<Item = LatLon>, size: Vec2) -> Option<(LatLon, f64)
     ))
 }
 
-fn legend_ui(ui: &egui::Ui, rect: egui::Rect, colouring: Colouring) {
-    let painter = ui.painter_at(rect);
-    let row = 18.0;
-    let rows = match colouring {
-        Colouring::IndexNow => 7,
-        Colouring::Productivity => 5,
-        Colouring::SafeForBoat => 4,
-    } + 3;
-    let height = 28.0 + row * rows as f32 + 4.0;
-    // Bottom left, out of the way of the coast, which usually runs through the middle.
-    let origin = rect.left_bottom() + Vec2::new(10.0, -10.0 - height);
-    let (title, stops): (&str, Vec<(String, Color32)>) = match colouring {
+/// The legend's title and its colour stops for a colouring.
+fn legend_stops(colouring: Colouring) -> (&'static str, Vec<(String, Color32)>) {
+    match colouring {
         Colouring::IndexNow => (
             "Upwelling index (m³/s per 100 m)",
             [300.0, 150.0, 50.0, 0.0, -50.0, -150.0, -300.0]
@@ -677,17 +1158,48 @@ fn legend_ui(ui: &egui::Ui, rect: egui::Rect, colouring: Colouring) {
                 })
                 .collect(),
         ),
+        Colouring::DayScore => (
+            "Score on the chosen day",
+            [100.0, 75.0, 50.0, 25.0, 0.0]
+                .iter()
+                .map(|v: &f64| {
+                    (
+                        format!("{v:.0}"),
+                        c32(colour::productivity_colour(*v / 100.0)),
+                    )
+                })
+                .chain([
+                    ("closed to fishing".into(), c32(colour::SAFE_CLOSED)),
+                    ("left out (see the list)".into(), c32(colour::SAFE_EXCLUDED)),
+                ])
+                .collect(),
+        ),
         Colouring::SafeForBoat => (
             "This boat, chosen day",
             vec![
                 ("safe all day".into(), c32(colour::SAFE_ALL_DAY)),
                 ("part of the day".into(), c32(colour::SAFE_PART_DAY)),
                 ("over its wind limit".into(), c32(colour::SAFE_NOT)),
-                ("closed or out of range".into(), c32(colour::SAFE_EXCLUDED)),
+                ("closed to fishing".into(), c32(colour::SAFE_CLOSED)),
+                (
+                    "out of range or no forecast".into(),
+                    c32(colour::SAFE_EXCLUDED),
+                ),
             ],
         ),
-    };
-    let size = Vec2::new(240.0, height);
+    }
+}
+
+fn legend_ui(ui: &egui::Ui, rect: egui::Rect, colouring: Colouring) {
+    let painter = ui.painter_at(rect);
+    let row = 18.0;
+    let (title, stops) = legend_stops(colouring);
+    // The colours, then a line each for closures, wind and transport.
+    let rows = stops.len() + 3;
+    let height = 28.0 + row * rows as f32 + 4.0;
+    // Bottom left, out of the way of the coast, which usually runs through the middle.
+    let origin = rect.left_bottom() + Vec2::new(10.0, -10.0 - height);
+    let size = Vec2::new(LEGEND_WIDTH_PX, height);
     painter.rect_filled(
         egui::Rect::from_min_size(origin, size),
         4.0,
@@ -755,5 +1267,92 @@ fn legend_ui(ui: &egui::Ui, rect: egui::Rect, colouring: Colouring) {
             stroke,
         );
         text_at(y, label);
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use approx::assert_relative_eq;
+
+    #[test]
+    fn scale_lengths_are_round_and_never_longer_than_allowed() {
+        for (max_nm, want) in [
+            (0.74, 0.5),
+            (1.0, 1.0),
+            (1.99, 1.0),
+            (4.2, 2.0),
+            (9.9, 5.0),
+            (14.0, 10.0),
+            (47.0, 20.0),
+            (50.0, 50.0),
+            (0.013, 0.01),
+        ] {
+            let got = round_length_nm(max_nm).expect("a length");
+            assert_relative_eq!(got, want, max_relative = 1e-12);
+        }
+        assert_eq!(round_length_nm(0.0), None);
+        assert_eq!(round_length_nm(f64::NAN), None);
+    }
+
+    #[test]
+    fn scale_text_has_no_trailing_zeros() {
+        assert_eq!(scale_text(0.5), "0.5 nm");
+        assert_eq!(scale_text(0.05), "0.05 nm");
+        assert_eq!(scale_text(2.0), "2 nm");
+        assert_eq!(scale_text(20.0), "20 nm");
+        assert_eq!(scale_text(100.0), "100 nm");
+    }
+
+    #[test]
+    fn positions_read_in_degrees_and_minutes() {
+        // 38°26.4' = 38.44°, 123°08.4' = 123.14°.
+        assert_eq!(
+            position_text(LatLon::new(38.44, -123.14)),
+            "38°26.4'N 123°08.4'W"
+        );
+        assert_eq!(
+            position_text(LatLon::new(-33.9, 18.4)),
+            "33°54.0'S 18°24.0'E"
+        );
+        // 59.97' rounds to a whole degree, not to 60.0'.
+        assert_eq!(degrees_minutes(44.9995, 'N', 'S'), "45°00.0'N");
+        // A hair south of the equator reads as 0°00.0'N, not S.
+        assert_eq!(degrees_minutes(-0.00001, 'N', 'S'), "0°00.0'N");
+        // A map panned once round the world still reads in −180°..180°.
+        assert_eq!(
+            position_text(LatLon::new(10.0, 360.0 - 123.14)),
+            "10°00.0'N 123°08.4'W"
+        );
+    }
+
+    #[test]
+    fn one_minute_of_latitude_is_about_a_nautical_mile() {
+        let a = LatLon::new(38.0, -123.0);
+        let b = LatLon::new(38.0 + 1.0 / 60.0, -123.0);
+        let c = LatLon::new(38.0 + 2.0 / 60.0, -123.0);
+        // On the mean-radius sphere a minute of arc is 1853.2 m: 0.07 % over 1852 m.
+        assert_relative_eq!(path_length_nm(&[a, b, c]), 2.0, max_relative = 1e-3);
+        assert_relative_eq!(path_length_nm(&[a]), 0.0);
+    }
+
+    #[test]
+    fn the_nearest_stretch_is_picked_only_near_its_line() {
+        let line = |k, y: f32| {
+            let points = vec![Pos2::new(0.0, y), Pos2::new(100.0, y)];
+            ScreenLine {
+                stretch: k,
+                bounds: Rect::from_points(&points),
+                points,
+            }
+        };
+        let lines = [line(0, 0.0), line(1, 20.0)];
+        assert_eq!(nearest_stretch(Pos2::new(50.0, 4.0), &lines, 12.0), Some(0));
+        assert_eq!(
+            nearest_stretch(Pos2::new(50.0, 14.0), &lines, 12.0),
+            Some(1)
+        );
+        assert_eq!(nearest_stretch(Pos2::new(50.0, 40.0), &lines, 12.0), None);
+        assert_eq!(nearest_stretch(Pos2::new(130.0, 0.0), &lines, 12.0), None);
     }
 }

@@ -4,23 +4,30 @@
 //! It computes nothing of its own: the plan comes from [`crate::plan::build_plan`],
 //! run in a background job.
 
+mod boats;
 mod commands;
+mod compare;
 mod dialogs;
 mod edit;
 mod editor;
+mod fields;
 mod files;
+mod help;
 mod jobs;
 mod land_layer;
 mod map;
+mod messages;
 mod panels;
 mod plots;
 mod season_view;
 mod settings_window;
 mod state;
 mod tasks;
+mod wind_files;
 
 pub use commands::{Command, FileAction};
-pub use state::{AppOptions, Colouring, Remembered, ShelfwindApp};
+pub use messages::{Message, Subject};
+pub use state::{AppOptions, Colouring, Remembered, ShelfwindApp, Tool};
 
 use std::path::PathBuf;
 

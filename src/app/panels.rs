@@ -4,6 +4,7 @@
 
 use super::commands::{Command, FileAction};
 use super::state::{BaseLayer, Colouring, ShelfwindApp, Tool};
+use crate::export::units::Units;
 use crate::export::{colour, plan_text};
 use crate::plan::{DayPlan, Plan, RankedStretch};
 use eframe::egui::{self, Color32, RichText};
@@ -79,6 +80,14 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
             }
         });
         ui.menu_button("Help", |ui| {
+            if ui.button("Guide").clicked() {
+                app.view.help = super::help::HelpPage::Guide;
+                ui.close();
+            }
+            if ui.button("Data and licences").clicked() {
+                app.view.help = super::help::HelpPage::Sources;
+                ui.close();
+            }
             if ui.button("Cautions").clicked() {
                 app.dialogs.show_cautions = true;
                 ui.close();
@@ -110,9 +119,10 @@ fn file_menu(ui: &mut egui::Ui, commands: &mut Vec<Command>) {
     ui.separator();
     item(
         ui,
-        "Import wind file…",
+        "Add a wind file…",
         Command::AskFile(FileAction::ImportWind),
     );
+    item(ui, "Wind files…", Command::ShowWindFiles);
     item(
         ui,
         "Import coast (GeoJSON)…",
@@ -141,8 +151,13 @@ fn file_menu(ui: &mut egui::Ui, commands: &mut Vec<Command>) {
     );
     item(
         ui,
-        "Export GPX for the plotter…",
+        "Export GPX: each day's best three…",
         Command::AskFile(FileAction::ExportGpx),
+    );
+    item(
+        ui,
+        "Export GPX: the selected stretches…",
+        Command::AskFile(FileAction::ExportGpxSelected),
     );
     item(
         ui,
@@ -180,10 +195,36 @@ fn edit_menu(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
         commands.push(Command::SetTool(Tool::Draw { points: Vec::new() }));
         ui.close();
     }
+    ui.menu_button("Units", |ui| units_menu(&mut app.view.units, ui));
     if ui.button("Model settings…").clicked() {
         app.dialogs.show_settings = true;
         ui.close();
     }
+}
+
+/// The units of what is shown (files keep theirs).
+fn units_menu(units: &mut Units, ui: &mut egui::Ui) {
+    use crate::export::units::{DistanceUnit, FuelUnit, WindUnit};
+    ui.label(RichText::new("Wind").strong());
+    ui.radio_value(&mut units.wind, WindUnit::Knots, "knots");
+    ui.radio_value(&mut units.wind, WindUnit::MetresPerSecond, "m/s");
+    ui.radio_value(&mut units.wind, WindUnit::Beaufort, "Beaufort force");
+    ui.separator();
+    ui.label(RichText::new("Distance and boat speed").strong());
+    ui.radio_value(
+        &mut units.distance,
+        DistanceUnit::NauticalMiles,
+        "nautical miles, knots",
+    );
+    ui.radio_value(
+        &mut units.distance,
+        DistanceUnit::Kilometres,
+        "kilometres, km/h",
+    );
+    ui.separator();
+    ui.label(RichText::new("Fuel").strong());
+    ui.radio_value(&mut units.fuel, FuelUnit::Litres, "litres");
+    ui.radio_value(&mut units.fuel, FuelUnit::UsGallons, "US gallons");
 }
 
 /// Undo, redo and drawing, one click away.
@@ -227,7 +268,8 @@ fn boat_and_port_ui(app: &ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Co
             .or(scenario.vessels.first())
             .map_or("(no boat)".to_string(), |v| v.name.clone())
     };
-    egui::ComboBox::from_label("Boat")
+    let label = ui.label("Boat:");
+    egui::ComboBox::from_id_salt("boat")
         .selected_text(vessel_name(&app.view.vessel_id))
         .show_ui(ui, |ui| {
             for v in &scenario.vessels {
@@ -238,14 +280,17 @@ fn boat_and_port_ui(app: &ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Co
                     commands.push(Command::SetVessel(v.id.clone()));
                 }
             }
-        });
+        })
+        .response
+        .labelled_by(label.id);
     let port_name = scenario
         .ports
         .iter()
         .find(|p| Some(&p.id) == app.view.port_id.as_ref())
         .or(scenario.ports.first())
         .map_or("(no port)".to_string(), |p| p.name.clone());
-    egui::ComboBox::from_label("Home port")
+    let label = ui.label("Home port:");
+    egui::ComboBox::from_id_salt("home-port")
         .selected_text(port_name)
         .show_ui(ui, |ui| {
             for p in &scenario.ports {
@@ -256,14 +301,23 @@ fn boat_and_port_ui(app: &ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Co
                     commands.push(Command::SetPort(p.id.clone()));
                 }
             }
-        });
+        })
+        .response
+        .labelled_by(label.id);
+    if ui
+        .button("Boats and ports…")
+        .on_hover_text("Add your own boat and home port, and set the boat's limits")
+        .clicked()
+    {
+        commands.push(Command::ShowBoats);
+    }
 }
 
 /// The row above the map: what the coast is coloured by, the base map, the plots.
 fn map_toolbar_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
     ui.horizontal_wrapped(|ui| {
         ui.label("Colour by:");
-        for (c, label) in [(Colouring::IndexNow, "Index now"), (Colouring::Productivity, "Expected productivity"), (Colouring::SafeForBoat, "Safe for this boat")] {
+        for (c, label) in [(Colouring::DayScore, "Score (chosen day)"), (Colouring::IndexNow, "Index now"), (Colouring::Productivity, "Expected productivity"), (Colouring::SafeForBoat, "Safe for this boat")] {
             if ui.selectable_label(app.view.colouring == c, label).clicked() {
                 commands.push(Command::SetColouring(c));
             }
@@ -309,7 +363,7 @@ fn status_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
                 commands.push(Command::CancelJob);
             }
         }
-        if let Some(task) = &app.file_task {
+        if let Some((_, task)) = &app.file_task {
             ui.separator();
             ui.spinner();
             ui.label(format!("working: {}", task.name));
@@ -433,7 +487,11 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
     }
     ui.label(format!("{} from {}", plan.vessel.name, plan.port.name));
     day_switcher_ui(&plan, app.view.day, ui, commands);
-    let words = app.view.plan_words.for_day(&plan, app.view.day).clone();
+    let words = app
+        .view
+        .plan_words
+        .for_day(&plan, app.view.day, app.view.units)
+        .clone();
     for n in &words.notes {
         ui.label(RichText::new(n).small().weak());
     }
@@ -466,7 +524,7 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
             {
                 app.view.show_all_ranked = true;
             }
-            excluded_ui(&plan, day, ui);
+            excluded_ui(&plan, day, app.view.units, ui);
             ui.add_space(8.0);
             ui.label(
                 RichText::new("Ctrl-click stretches to compare them in the plots.")
@@ -540,9 +598,6 @@ fn ranked_entry_ui(
             "score = 100 × productivity {:.2} × window {:.2} × distance {:.2}",
             r.productivity, r.window_factor, r.distance_factor
         ));
-        if r.tied_with_above {
-            ui.label(RichText::new("tie").small());
-        }
         if ui
             .small_button("Show")
             .on_hover_text("Centre the map here")
@@ -575,7 +630,7 @@ fn ranked_entry_ui(
 pub struct PlanWords {
     /// The plan and day the words are for (the plan is held, so it is never mistaken
     /// for a newer one).
-    key: Option<(std::sync::Arc<Plan>, usize)>,
+    key: Option<(std::sync::Arc<Plan>, usize, Units)>,
     /// The plan's notes.
     pub notes: Vec<String>,
     /// The reasons of each ranked stretch, in rank order.
@@ -584,20 +639,20 @@ pub struct PlanWords {
 
 impl PlanWords {
     /// The words of `day` of `plan`, made now if they are not those kept.
-    pub fn for_day(&mut self, plan: &std::sync::Arc<Plan>, day: usize) -> &Self {
+    pub fn for_day(&mut self, plan: &std::sync::Arc<Plan>, day: usize, units: Units) -> &Self {
         let fresh = self
             .key
             .as_ref()
-            .is_some_and(|(p, d)| std::sync::Arc::ptr_eq(p, plan) && *d == day);
+            .is_some_and(|(p, d, u)| std::sync::Arc::ptr_eq(p, plan) && *d == day && *u == units);
         if !fresh {
             let ranked = plan.days.get(day).map_or_else(Vec::new, |d| {
                 d.ranked
                     .iter()
-                    .map(|r| plan_text::ranked_lines(plan, d.date, r))
+                    .map(|r| plan_text::ranked_lines(plan, d.date, r, units))
                     .collect()
             });
             *self = Self {
-                key: Some((plan.clone(), day)),
+                key: Some((plan.clone(), day, units)),
                 notes: plan_text::notes(plan),
                 ranked,
             };
@@ -607,7 +662,7 @@ impl PlanWords {
 }
 
 /// The stretches left out of the day, each with why.
-fn excluded_ui(plan: &Plan, day: &DayPlan, ui: &mut egui::Ui) {
+fn excluded_ui(plan: &Plan, day: &DayPlan, units: Units, ui: &mut egui::Ui) {
     if day.excluded.is_empty() {
         return;
     }
@@ -617,7 +672,7 @@ fn excluded_ui(plan: &Plan, day: &DayPlan, ui: &mut egui::Ui) {
                 RichText::new(format!(
                     "{}: {}",
                     plan.stretches[e.stretch].name,
-                    plan_text::excluded_text(plan, e)
+                    plan_text::excluded_text(plan, e, units)
                 ))
                 .small(),
             );

@@ -39,6 +39,8 @@ struct PlotFrame<'a> {
     unsafe_spans: Vec<(f64, f64)>,
     link: egui::Id,
     height: f64,
+    /// The wind's factor from knots and its unit.
+    wind_scale: (f64, &'static str),
 }
 
 impl PlotFrame<'_> {
@@ -88,16 +90,17 @@ impl PlotFrame<'_> {
     }
 
     fn wind(&self, ui: &mut egui::Ui) {
-        let limit = self.plan.vessel.wind_limit_kt;
-        self.plot(ui, "wind", "Wind speed (kt); shaded: over the boat's limit")
-            .show(ui, |p| {
-                self.decorate(p, true);
-                p.hline(
-                    HLine::new(format!("boat's limit {limit:.0} kt"), limit)
-                        .color(Color32::from_rgb(197, 27, 125)),
-                );
-                self.hourly_lines(p, &|h| Some(m_s_to_knots(h.wind.speed_m_s())));
-            });
+        let (factor, unit) = self.wind_scale;
+        let limit = self.plan.vessel.wind_limit_kt * factor;
+        let title = format!("Wind speed ({unit}); shaded: over the boat's limit");
+        self.plot(ui, "wind", &title).show(ui, |p| {
+            self.decorate(p, true);
+            p.hline(
+                HLine::new(format!("boat's limit {limit:.0} {unit}"), limit)
+                    .color(Color32::from_rgb(197, 27, 125)),
+            );
+            self.hourly_lines(p, &|h| Some(m_s_to_knots(h.wind.speed_m_s()) * factor));
+        });
     }
 
     fn direction(&self, ui: &mut egui::Ui) {
@@ -216,6 +219,10 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
     }
     let names: Vec<String> = chosen.iter().map(|s| s.name.clone()).collect();
     ui.label(RichText::new(format!("Plots: {}", names.join(", "))).strong());
+    let indices: Vec<usize> = chosen
+        .iter()
+        .filter_map(|c| plan.stretches.iter().position(|s| s.id == c.id))
+        .collect();
     let frame = PlotFrame {
         plan: &plan,
         unsafe_spans: unsafe_runs(&plan, chosen[0], t0),
@@ -227,19 +234,34 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
             .get(app.view.hour)
             .map(|t| hours_since(t0, *t)),
         link: egui::Id::unique("shelfwind-plots-x"),
+        wind_scale: app.view.units.wind_scale(),
         height: f64::from(((ui.available_height() - 80.0) / 2.0).max(50.0)),
     };
-    ui.columns(3, |cols| {
-        frame.wind(&mut cols[0]);
-        frame.direction(&mut cols[1]);
-        frame.stress(&mut cols[2]);
-    });
-    ui.columns(4, |cols| {
-        frame.index(&mut cols[0]);
-        frame.pumping(&mut cols[1]);
-        frame.cumulative(&mut cols[2]);
-        frame.productivity(&mut cols[3]);
-    });
+    let plots = |ui: &mut egui::Ui| {
+        ui.columns(3, |cols| {
+            frame.wind(&mut cols[0]);
+            frame.direction(&mut cols[1]);
+            frame.stress(&mut cols[2]);
+        });
+        ui.columns(4, |cols| {
+            frame.index(&mut cols[0]);
+            frame.pumping(&mut cols[1]);
+            frame.cumulative(&mut cols[2]);
+            frame.productivity(&mut cols[3]);
+        });
+    };
+    if indices.len() > 1 {
+        // Two or more chosen: their numbers side by side, next to their plots.
+        ui.horizontal_top(|ui| {
+            ui.vertical(|ui| {
+                super::compare::compare_ui(&plan, (app.view.day, app.view.units), &indices, ui);
+            });
+            ui.separator();
+            ui.vertical(plots);
+        });
+    } else {
+        plots(ui);
+    }
 }
 
 fn noon_x(plan: &Plan, date: chrono::NaiveDate, t0: chrono::DateTime<chrono::Utc>) -> f64 {

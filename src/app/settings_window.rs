@@ -1,5 +1,5 @@
-//! The model settings window: every setting of the index, events, response and trips
-//! with its unit and default, edited as a draft and applied as one undoable step.
+//! The model settings window: every setting of the index, events, response, trips and
+//! seasons with its unit and default, edited as a draft and applied as one undoable step.
 
 use super::commands::Command;
 use super::edit::Edit;
@@ -7,10 +7,14 @@ use super::state::ShelfwindApp;
 use crate::physics::{DragChoice, RHO_AIR_RANGE_KG_M3, RHO_WATER_RANGE_KG_M3};
 use crate::plan::TripSettings;
 use crate::scenario::ModelSettings;
-use crate::upwelling::{EventSettings, ResponseSettings};
+use crate::upwelling::{CoverageSettings, EventSettings, ResponseSettings};
 use eframe::egui::{self, RichText};
 
-/// One number with its range, unit and default, as a row of a three-column grid.
+/// The heading of the section on the data seasons need, as other windows name it.
+pub(super) const SEASONS_SECTION: &str = "Seasons";
+
+/// One number with its range, unit and default, as a row of a three-column grid; true
+/// when edited.
 fn number(
     ui: &mut egui::Ui,
     label: &str,
@@ -18,16 +22,38 @@ fn number(
     range: std::ops::RangeInclusive<f64>,
     unit: &str,
     default: f64,
-) {
-    ui.label(label);
-    ui.add(
-        egui::DragValue::new(value)
-            .range(range)
-            .speed(0.05 * default.abs().max(0.1))
-            .suffix(format!(" {unit}")),
-    );
+) -> bool {
+    let label = ui.label(label);
+    let changed = ui
+        .add(
+            egui::DragValue::new(value)
+                .range(range)
+                .speed(0.05 * default.abs().max(0.1))
+                .suffix(format!(" {unit}")),
+        )
+        .labelled_by(label.id)
+        .changed();
     ui.label(RichText::new(format!("default {default}")).small().weak());
     ui.end_row();
+    changed
+}
+
+/// A share kept as 0–1, shown and edited as a percentage.
+fn share_percent(ui: &mut egui::Ui, label: &str, share: &mut f64, default_share: f64) {
+    // Rounded so that the value shown is the same from frame to frame while typing
+    // (0.85 × 100 is not exactly 85 in binary).
+    let percent = |share: f64| (share * 100.0 * 1e6).round() / 1e6;
+    let mut value = percent(*share);
+    if number(
+        ui,
+        label,
+        &mut value,
+        0.0..=100.0,
+        "%",
+        percent(default_share),
+    ) {
+        *share = value / 100.0;
+    }
 }
 
 /// Drag law, densities and stretch length.
@@ -36,7 +62,7 @@ fn physics_grid(ui: &mut egui::Ui, draft: &mut ModelSettings, d: &ModelSettings)
     egui::Grid::new("physics").num_columns(3).show(ui, |ui| {
         ui.label("Drag law");
         egui::ComboBox::from_id_salt("drag")
-            .selected_text(draft.index.drag.to_string())
+            .selected_text(draft.index.drag.name())
             .show_ui(ui, |ui| {
                 for choice in [
                     DragChoice::default(),
@@ -44,10 +70,10 @@ fn physics_grid(ui: &mut egui::Ui, draft: &mut ModelSettings, d: &ModelSettings)
                     DragChoice::Trenberth1990,
                     DragChoice::LargeYeager2009,
                 ] {
-                    ui.selectable_value(&mut draft.index.drag, choice, choice.to_string());
+                    ui.selectable_value(&mut draft.index.drag, choice, choice.name());
                 }
             });
-        ui.label(RichText::new("default constant 1.3e-3").small().weak());
+        ui.label(RichText::new("default: constant 1.3e-3").small().weak());
         ui.end_row();
         number(
             ui,
@@ -236,6 +262,33 @@ fn trip_grid(ui: &mut egui::Ui, t: &mut TripSettings, d: &TripSettings) {
     });
 }
 
+/// How much data a day, a month and a season need for the season view.
+fn seasons_grid(ui: &mut egui::Ui, c: &mut CoverageSettings, d: &CoverageSettings) {
+    ui.label(RichText::new(SEASONS_SECTION).strong());
+    ui.label(
+        RichText::new(
+            "The least data each needs; a season with less is flagged and gets no metrics",
+        )
+        .small()
+        .weak(),
+    );
+    egui::Grid::new("seasons").num_columns(3).show(ui, |ui| {
+        share_percent(ui, "Day: hours with data", &mut c.min_day, d.min_day);
+        share_percent(
+            ui,
+            "Monthly mean: days with data",
+            &mut c.min_month,
+            d.min_month,
+        );
+        share_percent(
+            ui,
+            "Season metrics: days with data",
+            &mut c.min_year,
+            d.min_year,
+        );
+    });
+}
+
 /// The model settings window: edits a draft, applied as one undoable step.
 pub(super) fn settings_window(
     app: &mut ShelfwindApp,
@@ -261,6 +314,8 @@ pub(super) fn settings_window(
             response_grid(ui, &mut draft.response, &d.response);
             ui.separator();
             trip_grid(ui, &mut draft.trip, &d.trip);
+            ui.separator();
+            seasons_grid(ui, &mut draft.seasons, &d.seasons);
             ui.separator();
             ui.horizontal(|ui| {
                 if ui.button("Apply").clicked() {

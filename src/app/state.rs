@@ -17,8 +17,10 @@ use std::sync::Arc;
 /// What the stretches on the map are coloured by.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
 pub enum Colouring {
-    /// The upwelling index at the chosen time.
+    /// The score of the chosen day, as the ranked list shows it.
     #[default]
+    DayScore,
+    /// The upwelling index at the chosen time.
     IndexNow,
     /// Expected productivity on the chosen day.
     Productivity,
@@ -55,6 +57,9 @@ pub struct Remembered {
     pub vessel_id: Option<String>,
     /// Home port last chosen.
     pub port_id: Option<String>,
+    /// Units of what is shown.
+    #[serde(default)]
+    pub units: crate::export::units::Units,
 }
 
 /// How the app was started: where it keeps its memory and whether native dialogs are
@@ -103,6 +108,8 @@ pub enum Tool {
         /// The points so far.
         points: Vec<LatLon>,
     },
+    /// Click to place a home port (by index) on the map.
+    PlacePort(usize),
 }
 
 /// A vertex being dragged.
@@ -157,6 +164,12 @@ pub struct View {
     pub show_all_ranked: bool,
     /// The segment editor's fields as typed.
     pub segment_draft: super::editor::SegmentDraft,
+    /// The boats and ports window.
+    pub boats: super::boats::BoatsView,
+    /// The guide's page, if open.
+    pub help: super::help::HelpPage,
+    /// Units of what is shown.
+    pub units: crate::export::units::Units,
     /// The words of the plan's day, kept between frames.
     pub plan_words: super::panels::PlanWords,
 }
@@ -167,10 +180,8 @@ pub struct View {
 pub struct Dialogs {
     /// The path field for opening, saving, importing and exporting.
     pub path_prompt: Option<PathPrompt>,
-    /// An error to show until dismissed.
-    pub error: Option<String>,
-    /// A short message (saved, exported).
-    pub info: Option<String>,
+    /// What the app tells the user, newest first.
+    pub messages: Vec<super::messages::Message>,
     /// Asking to confirm deleting this segment.
     pub confirm_delete: Option<String>,
     /// Asking about unsaved changes before closing.
@@ -183,6 +194,8 @@ pub struct Dialogs {
     pub show_cautions: bool,
     /// The settings window.
     pub show_settings: bool,
+    /// The wind files window.
+    pub show_wind_files: bool,
     /// Settings being edited in the window, applied as one step.
     pub settings_draft: Option<crate::scenario::ModelSettings>,
 }
@@ -214,7 +227,10 @@ pub struct ShelfwindApp {
     pub(super) land: Option<Arc<LandMesh>>,
     pub(super) land_task: Option<super::tasks::Task<LandMesh>>,
     /// Opening, saving, importing or exporting a file.
-    pub(super) file_task: Option<super::tasks::Task<super::files::FileResult>>,
+    pub(super) file_task: Option<(
+        super::messages::Subject,
+        super::tasks::Task<super::files::FileResult>,
+    )>,
     /// Writing the recovery file.
     pub(super) autosave_task: Option<super::tasks::Task<Result<(), String>>>,
     /// Why unsaved changes could not be kept in the recovery file, if they could not.
@@ -283,6 +299,7 @@ impl ShelfwindApp {
                 base_layer: remembered.base_layer,
                 vessel_id: remembered.vessel_id.clone(),
                 port_id: remembered.port_id.clone(),
+                units: remembered.units,
                 ..View::default()
             },
             dialogs: Dialogs {
@@ -372,6 +389,7 @@ impl eframe::App for ShelfwindApp {
         r.base_layer = self.view.base_layer;
         r.vessel_id.clone_from(&self.view.vessel_id);
         r.port_id.clone_from(&self.view.port_id);
+        r.units = self.view.units;
         r.show_plots = self.view.show_plots;
         if let Some(p) = self.map_memory.detached() {
             r.map_view = Some((p.y(), p.x(), self.map_memory.zoom()));

@@ -56,14 +56,16 @@ pub fn productivity_colour(share: f64) -> Rgb {
 }
 
 /// Colours of the "safe for this boat" view: a full day, part of the day, not at all,
-/// and closed or out of range.
+/// closed, and out of range.
 pub const SAFE_ALL_DAY: Rgb = [26, 152, 80];
 /// Part of the day is inside the boat's limits.
 pub const SAFE_PART_DAY: Rgb = [230, 171, 2];
 /// Over the boat's limits all day.
 pub const SAFE_NOT: Rgb = [197, 27, 125];
-/// Closed to fishing or out of the boat's range.
-pub const SAFE_EXCLUDED: Rgb = [120, 120, 120];
+/// Closed to fishing (dark, under the dashed red of a closure).
+pub const SAFE_CLOSED: Rgb = [60, 60, 60];
+/// Out of the boat's range, or without a forecast (light).
+pub const SAFE_EXCLUDED: Rgb = [185, 185, 185];
 
 /// CSS hex form, `#rrggbb`.
 #[must_use]

@@ -2,6 +2,7 @@
 //! stretches with their scores, and GPX 1.1 waypoints and routes for a chart plotter.
 
 use super::plan_text::{excluded_text, notes, ranked_lines};
+use super::units::{DistanceUnit, FuelUnit, Units, WindUnit};
 use crate::plan::{CAUTIONS, DayPlan, Plan, RankedStretch, StretchInfo};
 use chrono::{DateTime, Utc};
 use serde_json::{Value, json};
@@ -21,6 +22,14 @@ pub enum PlanFormat {
     /// Waypoints at the best stretches and a route from the home port per day.
     Gpx,
 }
+
+/// The units of every file the tool writes: knots, nautical miles, litres (the command
+/// line's contract); the app's unit choice applies to what it shows.
+const FILE_UNITS: Units = Units {
+    wind: WindUnit::Knots,
+    distance: DistanceUnit::NauticalMiles,
+    fuel: FuelUnit::Litres,
+};
 
 /// How many stretches per day go into the GPX file as waypoints.
 pub const GPX_STRETCHES_PER_DAY: usize = 3;
@@ -113,7 +122,7 @@ fn table(plan: &Plan) -> String {
             let (from, to) = r.safe_window;
             let _ = writeln!(
                 o,
-                "  {:<4}{:<28}{} {:>3}  {}–{} ({}–{})  {:>5.1} h{}",
+                "  {:<4}{:<28}{} {:>3}  {}–{} ({}–{})  {:>5.1} h",
                 rank_label(r),
                 s.name,
                 bar(r.score),
@@ -123,13 +132,8 @@ fn table(plan: &Plan) -> String {
                 utc(from),
                 utc(to),
                 r.fishing_hours,
-                if r.tied_with_above {
-                    "  (tie with the one above)"
-                } else {
-                    ""
-                }
             );
-            for reason in ranked_lines(plan, day.date, r) {
+            for reason in ranked_lines(plan, day.date, r, FILE_UNITS) {
                 let _ = writeln!(o, "        - {reason}");
             }
         }
@@ -145,7 +149,7 @@ fn table(plan: &Plan) -> String {
                     o,
                     "        {}: {}",
                     plan.stretches[e.stretch].name,
-                    excluded_text(plan, e)
+                    excluded_text(plan, e, FILE_UNITS)
                 );
             }
             if !far.is_empty() {
@@ -225,7 +229,7 @@ fn csv(plan: &Plan) -> String {
                 format!("{:.0}", r.max_wind_kt),
                 format!("{:.5}", s.centre.lat_deg),
                 format!("{:.5}", s.centre.lon_deg),
-                ranked_lines(plan, day.date, r).join("; "),
+                ranked_lines(plan, day.date, r, FILE_UNITS).join("; "),
                 String::new(),
                 String::new(),
             ]);
@@ -246,7 +250,7 @@ fn csv(plan: &Plan) -> String {
             row.push(format!("{:.5}", s.centre.lat_deg));
             row.push(format!("{:.5}", s.centre.lon_deg));
             row.push(String::new());
-            row.push(excluded_text(plan, e));
+            row.push(excluded_text(plan, e, FILE_UNITS));
             row.push(e.exclusion.kind().to_string());
             let _ = w.write_record(&row);
         }
@@ -297,7 +301,7 @@ fn ranked_json(plan: &Plan, date: chrono::NaiveDate, r: &RankedStretch) -> Value
         "fuel_l": r.fuel_l.round(),
         "max_wind_kt": r.max_wind_kt.round(),
         "centre": {"lat": s.centre.lat_deg, "lon": s.centre.lon_deg},
-        "reasons": ranked_lines(plan, date, r),
+        "reasons": ranked_lines(plan, date, r, FILE_UNITS),
     })
 }
 
@@ -309,7 +313,7 @@ fn day_json(plan: &Plan, day: &DayPlan) -> Value {
             "stretch_id": plan.stretches[e.stretch].id,
             "name": plan.stretches[e.stretch].name,
             "reason_kind": e.exclusion.kind(),
-            "reason": excluded_text(plan, e),
+            "reason": excluded_text(plan, e, FILE_UNITS),
         })).collect::<Vec<_>>(),
     })
 }
@@ -342,9 +346,9 @@ fn feature(plan: &Plan, k: usize, s: &StretchInfo) -> Value {
         .iter()
         .map(|d| {
             if let Some(r) = d.ranked.iter().find(|r| r.stretch == k) {
-                json!({"date": d.date.to_string(), "rank": r.rank, "score": (r.score * 10.0).round() / 10.0, "reasons": ranked_lines(plan, d.date, r)})
+                json!({"date": d.date.to_string(), "rank": r.rank, "score": (r.score * 10.0).round() / 10.0, "reasons": ranked_lines(plan, d.date, r, FILE_UNITS)})
             } else {
-                let why = d.excluded.iter().find(|e| e.stretch == k).map(|e| excluded_text(plan, e)).unwrap_or_default();
+                let why = d.excluded.iter().find(|e| e.stretch == k).map(|e| excluded_text(plan, e, FILE_UNITS)).unwrap_or_default();
                 json!({"date": d.date.to_string(), "excluded": why})
             }
         })
@@ -378,7 +382,8 @@ fn xml(s: &str) -> String {
         .replace('\'', "&apos;")
 }
 
-fn gpx(plan: &Plan) -> String {
+/// The GPX document's start: declaration, root and metadata with the cautions.
+fn gpx_start(plan: &Plan) -> String {
     let mut o = String::new();
     let _ = writeln!(o, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>");
     let _ = writeln!(
@@ -393,15 +398,12 @@ fn gpx(plan: &Plan) -> String {
     );
     let _ = writeln!(o, "    <desc>{}</desc>", xml(CAUTIONS));
     let _ = writeln!(o, "  </metadata>");
-    let mut chosen: Vec<usize> = Vec::new();
-    for day in &plan.days {
-        for r in day.ranked.iter().take(GPX_STRETCHES_PER_DAY) {
-            if !chosen.contains(&r.stretch) {
-                chosen.push(r.stretch);
-            }
-        }
-    }
-    for &k in &chosen {
+    o
+}
+
+/// A waypoint at the centre of each stretch, with its rank on each day.
+fn gpx_waypoints(o: &mut String, plan: &Plan, chosen: &[usize]) {
+    for &k in chosen {
         let s = &plan.stretches[k];
         let ranks: Vec<String> = plan
             .days
@@ -427,37 +429,74 @@ fn gpx(plan: &Plan) -> String {
         let _ = writeln!(o, "    <sym>Fishing Area</sym>");
         let _ = writeln!(o, "  </wpt>");
     }
+}
+
+/// A route from the home port to a stretch's centre.
+fn gpx_route(o: &mut String, plan: &Plan, name: &str, desc: &str, k: usize) {
+    let s = &plan.stretches[k];
+    let _ = writeln!(o, "  <rte>");
+    let _ = writeln!(o, "    <name>{}</name>", xml(name));
+    let _ = writeln!(o, "    <desc>{}</desc>", xml(desc));
+    for (lat, lon, name) in [
+        (
+            plan.port.position.lat_deg,
+            plan.port.position.lon_deg,
+            plan.port.name.as_str(),
+        ),
+        (s.centre.lat_deg, s.centre.lon_deg, s.name.as_str()),
+    ] {
+        let _ = writeln!(
+            o,
+            "    <rtept lat=\"{lat:.6}\" lon=\"{lon:.6}\"><name>{}</name></rtept>",
+            xml(name)
+        );
+    }
+    let _ = writeln!(o, "  </rte>");
+}
+
+/// GPX 1.1 of the plan: a waypoint at each day's best three stretches, and a route
+/// from the home port to each day's best.
+fn gpx(plan: &Plan) -> String {
+    let mut o = gpx_start(plan);
+    let mut chosen: Vec<usize> = Vec::new();
+    for day in &plan.days {
+        for r in day.ranked.iter().take(GPX_STRETCHES_PER_DAY) {
+            if !chosen.contains(&r.stretch) {
+                chosen.push(r.stretch);
+            }
+        }
+    }
+    gpx_waypoints(&mut o, plan, &chosen);
     for day in &plan.days {
         let Some(best) = day.ranked.first() else {
             continue;
         };
-        let s = &plan.stretches[best.stretch];
-        let _ = writeln!(o, "  <rte>");
-        let _ = writeln!(
-            o,
-            "    <name>{}</name>",
-            xml(&format!("{} to {}", day.date.format("%a %-d %b"), s.name))
+        let name = format!(
+            "{} to {}",
+            day.date.format("%a %-d %b"),
+            plan.stretches[best.stretch].name
         );
-        let _ = writeln!(
-            o,
-            "    <desc>{}</desc>",
-            xml(&ranked_lines(plan, day.date, best).join("; "))
+        let desc = ranked_lines(plan, day.date, best, FILE_UNITS).join("; ");
+        gpx_route(&mut o, plan, &name, &desc, best.stretch);
+    }
+    let _ = writeln!(o, "</gpx>");
+    o
+}
+
+/// GPX 1.1 of chosen stretches (indices into the plan's stretches): a waypoint at each,
+/// with its ranks, and a route from the home port to each.
+#[must_use]
+pub fn gpx_of_stretches(plan: &Plan, chosen: &[usize]) -> String {
+    let mut o = gpx_start(plan);
+    gpx_waypoints(&mut o, plan, chosen);
+    for &k in chosen {
+        let name = format!("{} to {}", plan.port.name, plan.stretches[k].name);
+        let desc = format!(
+            "{} from {}",
+            FILE_UNITS.distance(plan.stretches[k].distance_nm),
+            plan.port.name
         );
-        for (lat, lon, name) in [
-            (
-                plan.port.position.lat_deg,
-                plan.port.position.lon_deg,
-                plan.port.name.as_str(),
-            ),
-            (s.centre.lat_deg, s.centre.lon_deg, s.name.as_str()),
-        ] {
-            let _ = writeln!(
-                o,
-                "    <rtept lat=\"{lat:.6}\" lon=\"{lon:.6}\"><name>{}</name></rtept>",
-                xml(name)
-            );
-        }
-        let _ = writeln!(o, "  </rte>");
+        gpx_route(&mut o, plan, &name, &desc, k);
     }
     let _ = writeln!(o, "</gpx>");
     o

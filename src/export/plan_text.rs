@@ -2,6 +2,7 @@
 //! out, and the plan's notes. The command line, the exports and the app all show these,
 //! so they say the same thing everywhere. Times are local, in the plan's time zone.
 
+use super::units::Units;
 use crate::localtime::local_day;
 use crate::plan::{
     Excluded, Exclusion, Plan, PlanNote, RankedStretch, Reasons, TripReason, UpwellingReason,
@@ -49,19 +50,9 @@ fn days_text(days: f64) -> String {
     format!("{} days", days.round() as i64)
 }
 
-/// A wind speed against a limit: one decimal when whole knots would hide which side of
-/// the limit it is on.
-fn knots_vs(wind_kt: f64, limit_kt: f64) -> String {
-    if (wind_kt.round() - limit_kt.round()).abs() < 1.0 {
-        format!("{wind_kt:.1} kt")
-    } else {
-        format!("{wind_kt:.0} kt")
-    }
-}
-
 /// Why a stretch is left out, in a line.
 #[must_use]
-pub fn exclusion_text(e: &Exclusion, tz: Tz, port_name: &str) -> String {
+pub fn exclusion_text(e: &Exclusion, tz: Tz, port_name: &str, units: Units) -> String {
     match e {
         Exclusion::Closed(c) => {
             let reason = if c.reason.is_empty() {
@@ -86,7 +77,9 @@ pub fn exclusion_text(e: &Exclusion, tz: Tz, port_name: &str) -> String {
             distance_nm,
             range_nm,
         } => format!(
-            "{distance_nm:.0} nm from {port_name}: beyond this boat's {range_nm:.0} nm range"
+            "{} from {port_name}: beyond this boat's {} range",
+            units.distance(*distance_nm),
+            units.distance(*range_nm)
         ),
         Exclusion::NoForecast => "no forecast for this day's working hours".into(),
         Exclusion::NoRouteForecast => "no forecast for part of the way from port".into(),
@@ -95,9 +88,10 @@ pub fn exclusion_text(e: &Exclusion, tz: Tz, port_name: &str) -> String {
             at,
             limit_kt,
         } => format!(
-            "wind up to {} ({}): over this boat's {limit_kt:.0} kt limit all day",
-            knots_vs(*max_wind_kt, *limit_kt),
-            hhmm(tz, *at)
+            "wind up to {} ({}): over this boat's {} limit all day",
+            units.wind_vs(*max_wind_kt, *limit_kt),
+            hhmm(tz, *at),
+            units.wind(*limit_kt)
         ),
         Exclusion::WindowTooShort {
             window,
@@ -105,9 +99,10 @@ pub fn exclusion_text(e: &Exclusion, tz: Tz, port_name: &str) -> String {
             steam_h,
             min_fishing_h,
         } => format!(
-            "only {}–{} under this boat's {limit_kt:.0} kt limit: too short for {} steaming each way and {min_fishing_h:.0} h fishing",
+            "only {}–{} under this boat's {} limit: too short for {} steaming each way and {min_fishing_h:.0} h fishing",
             hhmm(tz, window.0),
             hhmm(tz, window.1),
+            units.wind(*limit_kt),
             duration_text(steam_h * 60.0),
         ),
     }
@@ -150,9 +145,9 @@ fn upwelling_text(r: &Reasons, tz: Tz, date: NaiveDate) -> String {
     }
 }
 
-fn wind_text(w: &WindReason, tz: Tz) -> String {
+fn wind_text(w: &WindReason, tz: Tz, units: Units) -> String {
     let describe = |at: DateTime<Utc>, wind: Option<f64>, limit: f64| match wind {
-        Some(kt) => format!("wind {} at {}", knots_vs(kt, limit), hhmm(tz, at)),
+        Some(kt) => format!("wind {} at {}", units.wind_vs(kt, limit), hhmm(tz, at)),
         None => format!("no forecast at {}", hhmm(tz, at)),
     };
     match *w {
@@ -160,7 +155,9 @@ fn wind_text(w: &WindReason, tz: Tz) -> String {
             limit_kt,
             max_wind_kt,
         } => format!(
-            "wind under this boat's {limit_kt:.0} kt limit all day (up to {max_wind_kt:.0} kt)"
+            "wind under this boat's {} limit all day (up to {})",
+            units.wind(limit_kt),
+            units.wind(max_wind_kt)
         ),
         WindReason::OverAfter {
             at,
@@ -168,8 +165,9 @@ fn wind_text(w: &WindReason, tz: Tz) -> String {
             until,
             limit_kt,
         } => format!(
-            "{}: over this boat's {limit_kt:.0} kt limit after {}; back in by then",
+            "{}: over this boat's {} limit after {}; back in by then",
             describe(at, wind_kt, limit_kt),
+            units.wind(limit_kt),
             hhmm(tz, until)
         ),
         WindReason::OverUntil {
@@ -178,19 +176,20 @@ fn wind_text(w: &WindReason, tz: Tz) -> String {
             from,
             limit_kt,
         } => format!(
-            "{}: over this boat's {limit_kt:.0} kt limit until {}; go after that",
+            "{}: over this boat's {} limit until {}; go after that",
             describe(at, wind_kt, limit_kt),
+            units.wind(limit_kt),
             hhmm(tz, from)
         ),
     }
 }
 
-fn trip_text(t: &TripReason, port_name: &str) -> String {
+fn trip_text(t: &TripReason, port_name: &str, units: Units) -> String {
     let mut s = format!(
-        "{:.0} nm from {port_name}: {} each way, about {:.0} l of fuel",
-        t.distance_nm,
+        "{} from {port_name}: {} each way, about {} of fuel",
+        units.distance(t.distance_nm),
         duration_text(t.steam_minutes),
-        t.fuel_l
+        units.fuel(t.fuel_l)
     );
     if t.crosses_land {
         s.push_str(" (straight line crosses land: the way by sea is longer)");
@@ -201,11 +200,17 @@ fn trip_text(t: &TripReason, port_name: &str) -> String {
 /// The reasons of a rank, one line each: the upwelling, the wind, the trip, and for a
 /// stretch between 5° and 10° from the equator, a caution.
 #[must_use]
-pub fn reason_lines(r: &Reasons, tz: Tz, date: NaiveDate, port_name: &str) -> Vec<String> {
+pub fn reason_lines(
+    r: &Reasons,
+    tz: Tz,
+    date: NaiveDate,
+    port_name: &str,
+    units: Units,
+) -> Vec<String> {
     let mut lines = vec![
         upwelling_text(r, tz, date),
-        wind_text(&r.wind, tz),
-        trip_text(&r.trip, port_name),
+        wind_text(&r.wind, tz, units),
+        trip_text(&r.trip, port_name, units),
     ];
     if let Some(lat) = r.near_equator_lat_deg {
         lines.push(format!(
@@ -217,14 +222,14 @@ pub fn reason_lines(r: &Reasons, tz: Tz, date: NaiveDate, port_name: &str) -> Ve
 
 /// The reasons of a ranked stretch of a plan's day.
 #[must_use]
-pub fn ranked_lines(plan: &Plan, date: NaiveDate, r: &RankedStretch) -> Vec<String> {
-    reason_lines(&r.reasons, plan.time_zone, date, &plan.port.name)
+pub fn ranked_lines(plan: &Plan, date: NaiveDate, r: &RankedStretch, units: Units) -> Vec<String> {
+    reason_lines(&r.reasons, plan.time_zone, date, &plan.port.name, units)
 }
 
 /// Why a stretch of a plan is left out.
 #[must_use]
-pub fn excluded_text(plan: &Plan, e: &Excluded) -> String {
-    exclusion_text(&e.exclusion, plan.time_zone, &plan.port.name)
+pub fn excluded_text(plan: &Plan, e: &Excluded, units: Units) -> String {
+    exclusion_text(&e.exclusion, plan.time_zone, &plan.port.name, units)
 }
 
 /// A plan-wide note.

@@ -15,6 +15,7 @@ mod plots;
 
 use super::colour::{hex, productivity_colour};
 use super::plan_text::{excluded_text, notes, ranked_lines};
+use super::units::Units;
 use crate::coast::{Land, LatLon};
 use crate::localtime::{local_midnight, local_noon};
 use crate::plan::{CAUTIONS, DayPlan, Plan, RankedStretch};
@@ -29,7 +30,7 @@ use std::fmt::Write as _;
 /// line). Times are local to the plan's time zone with UTC beside them; wind in knots,
 /// distances in nautical miles, fuel in litres.
 #[must_use]
-pub fn trip_sheet_html(plan: &Plan, land: &Land, day: usize) -> String {
+pub fn trip_sheet_html(plan: &Plan, land: &Land, day: usize, units: Units) -> String {
     let mut o = String::with_capacity(96 * 1024);
     let day_plan = plan.days.get(day);
     let title = match day_plan {
@@ -41,13 +42,13 @@ pub fn trip_sheet_html(plan: &Plan, land: &Land, day: usize) -> String {
         None => format!("Trip sheet: {}", plan.scenario_name),
     };
     head(&mut o, &title);
-    header(&mut o, plan, day_plan.map(|d| d.date));
+    header(&mut o, plan, day_plan.map(|d| d.date), units);
     cautions(&mut o, plan);
     match day_plan {
         Some(d) => {
             map::map_section(&mut o, plan, land, d);
-            ranked_section(&mut o, plan, d);
-            excluded_section(&mut o, plan, d);
+            ranked_section(&mut o, plan, d, units);
+            excluded_section(&mut o, plan, d, units);
             plots::plots_section(&mut o, plan, d);
         }
         None => {
@@ -221,7 +222,7 @@ fn head(o: &mut String, title: &str) {
     let _ = writeln!(o, "<body>");
 }
 
-fn header(o: &mut String, plan: &Plan, date: Option<NaiveDate>) {
+fn header(o: &mut String, plan: &Plan, date: Option<NaiveDate>, units: Units) {
     let v = &plan.vessel;
     let _ = writeln!(
         o,
@@ -237,12 +238,12 @@ fn header(o: &mut String, plan: &Plan, date: Option<NaiveDate>) {
     let _ = writeln!(o, "<table class=\"facts\">");
     let _ = writeln!(
         o,
-        "<tr><th>Boat</th><td>{}: cruise {} kt, wind limit {} kt, range {} nm, {} l/h at cruise</td></tr>",
+        "<tr><th>Boat</th><td>{}: cruise {}, wind limit {}, range {}, {} at cruise</td></tr>",
         esc(&v.name),
-        num(v.cruise_speed_kt),
-        num(v.wind_limit_kt),
-        num(v.range_nm),
-        num(v.fuel_l_per_h)
+        units.speed(v.cruise_speed_kt),
+        units.wind(v.wind_limit_kt),
+        units.distance(v.range_nm),
+        units.fuel_rate(v.fuel_l_per_h)
     );
     let _ = writeln!(
         o,
@@ -332,7 +333,7 @@ fn nice_step(target: f64) -> f64 {
 // ---------------------------------------------------------------------------------------
 // The ranked list and the stretches left out.
 
-fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan) {
+fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan, units: Units) {
     let tz = plan.time_zone;
     let _ = writeln!(o, "<h2>Where to go: ranked stretches</h2>");
     if day.ranked.is_empty() {
@@ -351,7 +352,7 @@ fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan) {
     );
     let _ = writeln!(
         o,
-        "<tr><th>productivity</th><th>window</th><th>distance</th><th>nm</th><th>steaming each way</th><th>fuel, round trip</th></tr>"
+        "<tr><th>productivity</th><th>window</th><th>distance</th><th>distance</th><th>steaming each way</th><th>fuel, round trip</th></tr>"
     );
     let _ = writeln!(o, "</thead>");
     for r in &day.ranked {
@@ -360,7 +361,7 @@ fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan) {
         let _ = writeln!(o, "<tbody>");
         let _ = writeln!(
             o,
-            "<tr class=\"stretch\"><td class=\"rank\">{}</td><td class=\"stretch\"><span class=\"name\">{}</span><br/><span class=\"small\">{}</span></td><td class=\"score\"><span class=\"swatch\" style=\"background:{}\"></span>{:.0}</td><td class=\"n\">{:.0} %</td><td class=\"n\">{:.2}</td><td class=\"n\">{:.2}</td><td class=\"when\">{}–{}<br/><span class=\"small\">({}–{})</span></td><td class=\"n\">{:.1} h</td><td class=\"n\">{:.1}</td><td class=\"n\">{}</td><td class=\"n\">{:.0} l</td></tr>",
+            "<tr class=\"stretch\"><td class=\"rank\">{}</td><td class=\"stretch\"><span class=\"name\">{}</span><br/><span class=\"small\">{}</span></td><td class=\"score\"><span class=\"swatch\" style=\"background:{}\"></span>{:.0}</td><td class=\"n\">{:.0} %</td><td class=\"n\">{:.2}</td><td class=\"n\">{:.2}</td><td class=\"when\">{}–{}<br/><span class=\"small\">({}–{})</span></td><td class=\"n\">{:.1} h</td><td class=\"n\">{}</td><td class=\"n\">{}</td><td class=\"n\">{}</td></tr>",
             esc(&rank_label(r)),
             esc(&s.name),
             position_text(s.centre),
@@ -374,12 +375,12 @@ fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan) {
             utc(from),
             utc(to),
             r.fishing_hours,
-            s.distance_nm,
+            units.distance(s.distance_nm),
             duration_text(r.steam_minutes),
-            r.fuel_l
+            units.fuel(r.fuel_l)
         );
         let _ = write!(o, "<tr class=\"reasons\"><td></td><td colspan=\"10\"><ul>");
-        for reason in ranked_lines(plan, day.date, r) {
+        for reason in ranked_lines(plan, day.date, r, units) {
             let _ = write!(o, "<li>{}</li>", esc(&reason));
         }
         let _ = writeln!(o, "</ul></td></tr>");
@@ -392,7 +393,7 @@ fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan) {
     );
 }
 
-fn excluded_section(o: &mut String, plan: &Plan, day: &DayPlan) {
+fn excluded_section(o: &mut String, plan: &Plan, day: &DayPlan, units: Units) {
     if day.excluded.is_empty() {
         return;
     }
@@ -407,7 +408,7 @@ fn excluded_section(o: &mut String, plan: &Plan, day: &DayPlan) {
     let mut groups: Vec<(String, Vec<&str>)> = Vec::new();
     for e in other {
         let name = plan.stretches[e.stretch].name.as_str();
-        let reason = excluded_text(plan, e);
+        let reason = excluded_text(plan, e, units);
         match groups.iter_mut().find(|g| g.0 == reason) {
             Some(g) => g.1.push(name),
             None => groups.push((reason, vec![name])),
@@ -426,8 +427,8 @@ fn excluded_section(o: &mut String, plan: &Plan, day: &DayPlan) {
             o,
             "<li><b>{}</b>: {}</li>",
             esc(&format!(
-                "beyond this boat's {} nm range from {}",
-                num(plan.vessel.range_nm),
+                "beyond this boat's {} range from {}",
+                units.distance(plan.vessel.range_nm),
                 plan.port.name
             )),
             names.join(", ")

@@ -125,6 +125,22 @@ impl DragLaw for DragChoice {
     }
 }
 
+impl DragChoice {
+    /// The law's name for people (the command line and files use the `Display` form).
+    #[must_use]
+    pub fn name(&self) -> String {
+        match self {
+            DragChoice::Constant(c) if (c.0 - 1.3e-3).abs() < 1e-12 => {
+                "Constant 1.3e-3 (the classic upwelling index)".into()
+            }
+            DragChoice::Constant(c) => format!("Constant {}", c.0),
+            DragChoice::LargePond1981 => "Large & Pond 1981".into(),
+            DragChoice::Trenberth1990 => "Trenberth, Large & Olson 1990".into(),
+            DragChoice::LargeYeager2009 => "Large & Yeager 2009".into(),
+        }
+    }
+}
+
 impl fmt::Display for DragChoice {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         match self {

@@ -2,6 +2,18 @@
 
 use crate::coast::LatLon;
 use serde::{Deserialize, Serialize};
+use std::ops::RangeInclusive;
+
+/// Cruising speeds accepted, knots.
+pub const CRUISE_SPEED_RANGE_KT: RangeInclusive<f64> = 1.0..=60.0;
+/// Fuel use accepted, litres per hour.
+pub const FUEL_RANGE_L_PER_H: RangeInclusive<f64> = 0.0..=2000.0;
+/// Wind limits accepted, knots.
+pub const WIND_LIMIT_RANGE_KT: RangeInclusive<f64> = 1.0..=100.0;
+/// Ranges accepted, nautical miles (one way).
+pub const RANGE_RANGE_NM: RangeInclusive<f64> = 0.5..=500.0;
+/// Wave limits accepted, metres of significant height.
+pub const WAVE_LIMIT_RANGE_M: RangeInclusive<f64> = 0.1..=20.0;
 
 /// A home port.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]

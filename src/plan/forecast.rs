@@ -17,8 +17,8 @@ use crate::upwelling::{
     daily_upwelling, detect_events, index_series,
 };
 use crate::wind::{
-    Conditions, GroupWind, PointGroup, SegmentWind, SourceIdentity, WindError, WindSource,
-    groups_fingerprint, length_weighted_at, sample_conditions, wind_at_time,
+    Conditions, GroupWind, PointGroup, SegmentWind, SourceIdentity, SourceSpan, WindError,
+    WindSource, groups_fingerprint, length_weighted_at, sample_conditions, wind_at_time,
 };
 use chrono::{DateTime, Duration, NaiveDate, Timelike, Utc};
 use chrono_tz::Tz;
@@ -85,6 +85,8 @@ pub struct StretchForecast {
     pub latitude: Latitude,
     /// Whether some wind file covers it.
     pub has_wind: bool,
+    /// The wind file it takes its wind from (index in the list given), if any.
+    pub wind_source: Option<usize>,
     /// Hourly values (empty without wind or too near the equator).
     pub hours: Vec<StretchHour>,
     /// Daily values over every day of the forecast.
@@ -203,6 +205,8 @@ pub struct Forecast {
     pub latest_reference: Option<DateTime<Utc>>,
     /// The settings the upwelling was computed with.
     pub settings: UpwellingSettings,
+    /// What each wind file held (`None`: not read, the files before it covered all).
+    pub sources: Vec<Option<SourceSpan>>,
 }
 
 /// Why no forecast could be made.
@@ -255,6 +259,7 @@ fn cut_stretches(segments: &[Segment], stretch_length_nm: f64) -> Vec<(Segment, 
                 ),
                 latitude,
                 has_wind: false,
+                wind_source: None,
                 hours: Vec::new(),
                 days: Vec::new(),
                 events: Vec::new(),
@@ -503,6 +508,7 @@ impl SampledConditions {
             routes: self.routes.clone(),
             latest_reference: self.conditions.latest_reference,
             settings: *settings,
+            sources: self.conditions.sources.clone(),
         }
     }
 
@@ -520,6 +526,7 @@ impl SampledConditions {
             return s;
         };
         s.has_wind = true;
+        s.wind_source = Some(g.source);
         if s.latitude == Latitude::TooClose {
             return s;
         }

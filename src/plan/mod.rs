@@ -13,7 +13,10 @@ mod reasons;
 mod settings;
 mod window;
 
-pub use boat::{Port, Vessel};
+pub use boat::{
+    CRUISE_SPEED_RANGE_KT, FUEL_RANGE_L_PER_H, Port, RANGE_RANGE_NM, Vessel, WAVE_LIMIT_RANGE_M,
+    WIND_LIMIT_RANGE_KT,
+};
 pub use forecast::{
     Forecast, ForecastError, ForecastGeometry, Latitude, PortRoutes, SampledConditions,
     StretchForecast, StretchHour, UpwellingSettings, forecast_key, sample_forecast_conditions,

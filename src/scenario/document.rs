@@ -150,12 +150,24 @@ fn check_segment(what: &str, s: &CoastSegment) -> Result<(), String> {
 
 /// Checks a boat's speed, fuel use and limits.
 fn check_vessel(what: &str, v: &Vessel) -> Result<(), String> {
-    check_range(what, "cruise_speed_kt", v.cruise_speed_kt, 1.0, 60.0, "kt")?;
-    check_range(what, "fuel_l_per_h", v.fuel_l_per_h, 0.0, 2000.0, "l/h")?;
-    check_range(what, "wind_limit_kt", v.wind_limit_kt, 1.0, 100.0, "kt")?;
-    check_range(what, "range_nm", v.range_nm, 0.5, 500.0, "nm")?;
+    use crate::plan::{
+        CRUISE_SPEED_RANGE_KT, FUEL_RANGE_L_PER_H, RANGE_RANGE_NM, WAVE_LIMIT_RANGE_M,
+        WIND_LIMIT_RANGE_KT,
+    };
+    let check = |name: &str, value: f64, range: &std::ops::RangeInclusive<f64>, unit: &str| {
+        check_range(what, name, value, *range.start(), *range.end(), unit)
+    };
+    check(
+        "cruise_speed_kt",
+        v.cruise_speed_kt,
+        &CRUISE_SPEED_RANGE_KT,
+        "kt",
+    )?;
+    check("fuel_l_per_h", v.fuel_l_per_h, &FUEL_RANGE_L_PER_H, "l/h")?;
+    check("wind_limit_kt", v.wind_limit_kt, &WIND_LIMIT_RANGE_KT, "kt")?;
+    check("range_nm", v.range_nm, &RANGE_RANGE_NM, "nm")?;
     if let Some(w) = v.wave_limit_m {
-        check_range(what, "wave_limit_m", w, 0.1, 20.0, "m")?;
+        check("wave_limit_m", w, &WAVE_LIMIT_RANGE_M, "m")?;
     }
     Ok(())
 }

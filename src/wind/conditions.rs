@@ -81,6 +81,45 @@ pub struct Conditions {
     pub groups: Vec<Option<GroupWind>>,
     /// The latest reference (issue) time among the GRIB2 files used, if any.
     pub latest_reference: Option<DateTime<Utc>>,
+    /// What each source held, in the order given; `None` for a source that was not
+    /// read because the sources before it covered every group.
+    pub sources: Vec<Option<SourceSpan>>,
+}
+
+/// What one source holds, as read.
+#[derive(Debug, Clone, PartialEq)]
+pub struct SourceSpan {
+    /// A grid, or a station's point series (with its position, if the file gives one).
+    pub kind: SourceKind,
+    /// First and last valid time.
+    pub times: Option<(DateTime<Utc>, DateTime<Utc>)>,
+    /// Number of time steps.
+    pub steps: usize,
+    /// The latest issue time the file states (GRIB2 reference time), if any.
+    pub issued: Option<DateTime<Utc>>,
+}
+
+/// The kind of a wind source.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum SourceKind {
+    /// A gridded field (GRIB2).
+    Grid,
+    /// A point series (CSV), with the station's position where the file gives it.
+    Station(Option<LatLon>),
+}
+
+impl SourceSpan {
+    fn of(source: &WindSource, read: &SourceSamples) -> Self {
+        Self {
+            kind: match source {
+                WindSource::Grib2 { .. } => SourceKind::Grid,
+                WindSource::Series { series, .. } => SourceKind::Station(series.position),
+            },
+            times: read.times.first().copied().zip(read.times.last().copied()),
+            steps: read.times.len(),
+            issued: read.latest_reference,
+        }
+    }
 }
 
 /// What identifies a source file's contents without reading it: its path, size and
@@ -172,6 +211,12 @@ fn read_source(
     }
 }
 
+/// Reads a source whole, to check it before it is added to a forecast (a file that
+/// earlier files leave unread would otherwise go unchecked).
+pub fn check_source(source: &WindSource, progress: &Progress) -> Result<(), WindError> {
+    read_source(source, &[], progress).map(|_| ())
+}
+
 /// For an anchor, the index of the nearest source that is a point series with a
 /// station position (`None` when there is none).
 fn nearest_station_of(sources: &[WindSource]) -> impl Fn(LatLon) -> Option<usize> + '_ {
@@ -242,6 +287,7 @@ pub fn sample_conditions(
     let mut out = Conditions {
         groups: vec![None; groups.len()],
         latest_reference: None,
+        sources: vec![None; sources.len()],
     };
     for k in 0..sources.len() {
         let pending: Vec<usize> = (0..groups.len())
@@ -252,6 +298,7 @@ pub fn sample_conditions(
         }
         let pending_groups: Vec<&PointGroup> = pending.iter().map(|&g| &groups[g]).collect();
         let read = read_source(&sources[k], &flatten(&pending_groups), progress)?;
+        out.sources[k] = Some(SourceSpan::of(&sources[k], &read));
         if let Some(t) = read.latest_reference {
             out.latest_reference = Some(out.latest_reference.map_or(t, |x| x.max(t)));
         }
@@ -307,6 +354,11 @@ pub fn sample_merged(
     let mut out = Conditions {
         groups: Vec::with_capacity(groups.len()),
         latest_reference: per_file.iter().filter_map(|f| f.latest_reference).max(),
+        sources: sources
+            .iter()
+            .zip(&per_file)
+            .map(|(s, f)| Some(SourceSpan::of(s, f)))
+            .collect(),
     };
     for group in groups {
         // time → (point winds, extra wind), the first file giving a time wins.

@@ -18,8 +18,8 @@ pub use assign::{
     SegmentWind, WindSource, assign_wind, assign_wind_merged, length_weighted_at, load_sources,
 };
 pub use conditions::{
-    Conditions, GroupWind, PointGroup, SourceIdentity, groups_fingerprint, sample_conditions,
-    sample_merged,
+    Conditions, GroupWind, PointGroup, SourceIdentity, SourceKind, SourceSpan, check_source,
+    groups_fingerprint, sample_conditions, sample_merged,
 };
 pub use csv::read_csv_series;
 pub use demo::{
