@@ -321,7 +321,7 @@ fn closure_ui(
                 .add(
                     egui::TextEdit::singleline(&mut draft.from)
                         .id(ids.from)
-                        .desired_width(90.0)
+                        .desired_width(100.0)
                         .hint_text("YYYY-MM-DD"),
                 )
                 .labelled_by(label.id);
@@ -330,7 +330,7 @@ fn closure_ui(
                 .add(
                     egui::TextEdit::singleline(&mut draft.to)
                         .id(ids.to)
-                        .desired_width(90.0)
+                        .desired_width(100.0)
                         .hint_text("YYYY-MM-DD"),
                 )
                 .labelled_by(label.id);

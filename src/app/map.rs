@@ -1060,7 +1060,9 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     if zoomed {
         ui.ctx().request_repaint();
     }
-    legend_ui(ui, response.rect, app.view.colouring);
+    if app.view.show_legend {
+        legend_ui(ui, response.rect, app.view.colouring);
+    }
     if online {
         credit_ui(ui, response.rect);
     }

@@ -40,6 +40,7 @@ pub(super) fn all_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     }
     egui::Panel::top("menu").show(ui, |ui| menu_ui(app, ui, commands));
     egui::Panel::bottom("status").show(ui, |ui| status_ui(app, ui, commands));
+    fit_to_screen(app, ui.ctx());
     if app.view.show_plots && app.plan.is_some() {
         // A third of the window at most by default, so a small screen keeps its map.
         let height = ui.ctx().content_rect().height();
@@ -67,6 +68,19 @@ pub(super) fn all_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
         super::map::map_ui(app, ui, commands);
     });
     super::dialogs::windows_ui(app, ui.ctx(), commands);
+}
+
+/// On a small screen (under 700 points tall) the map and the ranked list come first:
+/// the plots and the legend start hidden, a click away in the map's toolbar.
+fn fit_to_screen(app: &mut ShelfwindApp, ctx: &egui::Context) {
+    if app.view.fitted_to_screen {
+        return;
+    }
+    app.view.fitted_to_screen = true;
+    if ctx.content_rect().height() < 700.0 {
+        app.view.show_plots = false;
+        app.view.show_legend = false;
+    }
 }
 
 fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
@@ -341,6 +355,7 @@ fn map_toolbar_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<
                 }
             });
         ui.checkbox(&mut app.view.show_plots, "Plots");
+        ui.checkbox(&mut app.view.show_legend, "Legend");
     });
 }
 
@@ -604,6 +619,13 @@ fn ranked_entry_ui(
             .clicked()
         {
             commands.push(Command::CentreOn(s.centre));
+        }
+        if ui
+            .small_button("Segment…")
+            .on_hover_text("Edit this stretch's segment: name, notes, closures")
+            .clicked()
+        {
+            commands.push(Command::EditSegment(Some(s.segment_id.clone())));
         }
     });
     ui.indent(&s.id, |ui| {

@@ -149,6 +149,11 @@ pub struct View {
     pub last_play_step_s: f64,
     /// Show the plots panel.
     pub show_plots: bool,
+    /// Show the map's legend.
+    pub show_legend: bool,
+    /// The layout was fitted to the screen's size (small screens start without plots
+    /// and legend, which the user can switch on).
+    pub fitted_to_screen: bool,
     /// Base layer of the map.
     pub base_layer: BaseLayer,
     /// Handles of the edited segment drawn last frame, for starting drags before the
@@ -296,6 +301,7 @@ impl ShelfwindApp {
             view: View {
                 colouring: remembered.colouring,
                 show_plots: true,
+                show_legend: true,
                 base_layer: remembered.base_layer,
                 vessel_id: remembered.vessel_id.clone(),
                 port_id: remembered.port_id.clone(),
