@@ -719,8 +719,8 @@ impl Plugin for ZoomButtons<'_> {
 /// The longest round length not over `max_nm`: 1, 2 or 5 times a power of ten.
 ///
 /// # Units
-/// nautical miles, in and out.
-fn round_length_nm(max_nm: f64) -> Option<f64> {
+/// any one unit (nautical miles or kilometres), in and out.
+fn round_scale_length(max_nm: f64) -> Option<f64> {
     if !(max_nm.is_finite() && max_nm > 0.0) {
         return None;
     }
@@ -732,9 +732,9 @@ fn round_length_nm(max_nm: f64) -> Option<f64> {
 }
 
 /// A length in nautical miles as a scale shows it: no trailing zeros (`0.5 nm`, `20 nm`).
-fn scale_text(length_nm: f64) -> String {
-    let digits = format!("{length_nm:.3}");
-    format!("{} nm", digits.trim_end_matches('0').trim_end_matches('.'))
+fn scale_text(length: f64, unit: &str) -> String {
+    let digits = format!("{length:.3}");
+    format!("{} {unit}", digits.trim_end_matches('0').trim_end_matches('.'))
 }
 
 /// The length of a path through the points, nautical miles (great circles between them).
@@ -788,6 +788,8 @@ fn metres_per_px(projector: &Projector, map: Rect) -> f64 {
 struct ScaleBar {
     /// The tile credit takes the bottom right corner.
     credit: bool,
+    /// The unit of the bar: metres in one, and its name (nautical miles or km).
+    unit: (f64, &'static str),
 }
 
 impl Plugin for ScaleBar {
@@ -800,12 +802,13 @@ impl Plugin for ScaleBar {
     ) {
         let map = ui.max_rect();
         let m_per_px = metres_per_px(projector, map);
-        let max_nm = f64::from(SCALE_BAR_MAX_PX) * m_per_px / NAUTICAL_MILE_M;
-        let Some(length_nm) = round_length_nm(max_nm) else {
+        let (unit_m, unit) = self.unit;
+        let max_units = f64::from(SCALE_BAR_MAX_PX) * m_per_px / unit_m;
+        let Some(length) = round_scale_length(max_units) else {
             return;
         };
-        let bar_px = (length_nm * NAUTICAL_MILE_M / m_per_px) as f32;
-        let text = scale_text(length_nm);
+        let bar_px = (length * unit_m / m_per_px) as f32;
+        let text = scale_text(length, unit);
         let corner = readout_corner(map, self.credit);
         let rect = Align2::RIGHT_BOTTOM
             .anchor_size(corner, Vec2::new(bar_px.max(40.0) + 20.0, SCALE_BOX_PX));
@@ -1037,7 +1040,13 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
             handles: &mut handles,
             ports: &ports,
         })
-        .with_plugin(ScaleBar { credit: online })
+        .with_plugin(ScaleBar {
+            credit: online,
+            unit: match app.view.units.distance {
+                crate::export::units::DistanceUnit::NauticalMiles => (NAUTICAL_MILE_M, "nm"),
+                crate::export::units::DistanceUnit::Kilometres => (1000.0, "km"),
+            },
+        })
         .with_plugin(PointerPosition { credit: online })
         .with_plugin(ZoomButtons {
             step: &mut zoom_step,
@@ -1290,20 +1299,20 @@ mod tests {
             (50.0, 50.0),
             (0.013, 0.01),
         ] {
-            let got = round_length_nm(max_nm).expect("a length");
+            let got = round_scale_length(max_nm).expect("a length");
             assert_relative_eq!(got, want, max_relative = 1e-12);
         }
-        assert_eq!(round_length_nm(0.0), None);
-        assert_eq!(round_length_nm(f64::NAN), None);
+        assert_eq!(round_scale_length(0.0), None);
+        assert_eq!(round_scale_length(f64::NAN), None);
     }
 
     #[test]
     fn scale_text_has_no_trailing_zeros() {
-        assert_eq!(scale_text(0.5), "0.5 nm");
-        assert_eq!(scale_text(0.05), "0.05 nm");
-        assert_eq!(scale_text(2.0), "2 nm");
-        assert_eq!(scale_text(20.0), "20 nm");
-        assert_eq!(scale_text(100.0), "100 nm");
+        assert_eq!(scale_text(0.5, "nm"), "0.5 nm");
+        assert_eq!(scale_text(0.05, "nm"), "0.05 nm");
+        assert_eq!(scale_text(2.0, "nm"), "2 nm");
+        assert_eq!(scale_text(20.0, "km"), "20 km");
+        assert_eq!(scale_text(100.0, "nm"), "100 nm");
     }
 
     #[test]
