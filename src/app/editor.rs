@@ -7,30 +7,19 @@
 
 use super::commands::Command;
 use super::edit::Edit;
+use super::fields::Fields;
 use super::state::ShelfwindApp;
 use crate::coast::{Closure, CoastSegment, Land, LatLon, SeaSide, SideFinding, find_sea_side};
 use chrono::NaiveDate;
 use eframe::egui::{self, Color32, RichText};
 
-/// The editor's text fields and what they were loaded from.
+/// The editor's text fields as typed, for the segment being edited.
 #[derive(Debug, Clone, Default, PartialEq)]
 pub struct SegmentDraft {
     /// The segment edited.
     pub id: String,
-    /// Its name as typed.
-    pub name: String,
-    /// Its notes as typed.
-    pub notes: String,
-    /// The closure's reason as typed.
-    pub reason: String,
-    /// The closure's first day as typed (YYYY-MM-DD).
-    pub from: String,
-    /// The closure's last day as typed.
-    pub to: String,
-    /// What is wrong with the dates typed, shown next to them.
-    pub date_error: Option<String>,
-    /// The segment as the fields were last loaded from it.
-    loaded: Option<CoastSegment>,
+    /// The fields as typed.
+    fields: Fields,
     /// The sea side the land gives for these points (found once per geometry).
     side: Option<(Vec<LatLon>, SideFinding)>,
 }
@@ -39,7 +28,7 @@ fn date_text(d: Option<NaiveDate>) -> String {
     d.map(|d| d.to_string()).unwrap_or_default()
 }
 
-/// Which of the editor's fields has the keyboard, by the ids given to them.
+/// The ids of the editor's fields.
 #[derive(Debug, Clone, Copy)]
 struct FieldIds {
     name: egui::Id,
@@ -63,35 +52,6 @@ impl FieldIds {
 }
 
 impl SegmentDraft {
-    /// Brings the draft up to date with the stored segment: a new segment loads every
-    /// field; a changed one reloads the fields not being typed in.
-    fn sync(&mut self, seg: &CoastSegment, focused: &dyn Fn(egui::Id) -> bool, ids: FieldIds) {
-        let fresh = self.id != seg.id;
-        if !fresh && self.loaded.as_ref() == Some(seg) {
-            return;
-        }
-        let closure = seg.closure.clone().unwrap_or(Closure {
-            reason: String::new(),
-            from: None,
-            to: None,
-        });
-        let set = |field: &mut String, id: egui::Id, value: String| {
-            if fresh || !focused(id) {
-                *field = value;
-            }
-        };
-        set(&mut self.name, ids.name, seg.name.clone());
-        set(&mut self.notes, ids.notes, seg.notes.clone());
-        set(&mut self.reason, ids.reason, closure.reason);
-        set(&mut self.from, ids.from, date_text(closure.from));
-        set(&mut self.to, ids.to, date_text(closure.to));
-        if fresh {
-            self.date_error = None;
-        }
-        self.id.clone_from(&seg.id);
-        self.loaded = Some(seg.clone());
-    }
-
     /// The sea side the land gives for these points, when the land can tell.
     pub(super) fn sea_from_land(&mut self, points: &[LatLon]) -> Option<SeaSide> {
         match self.side_from_land(points) {
@@ -130,10 +90,11 @@ pub(super) fn editor_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mu
         return;
     };
     let ids = FieldIds::of(ui, &id);
-    let ctx = ui.ctx().clone();
-    let focused = |field: egui::Id| ctx.memory(|m| m.has_focus(field));
     let draft = &mut app.view.segment_draft;
-    draft.sync(&seg, &focused, ids);
+    if draft.id != seg.id {
+        draft.fields.clear();
+        draft.id.clone_from(&seg.id);
+    }
     ui.horizontal(|ui| {
         ui.heading("Segment");
         if ui.button("Close").clicked() {
@@ -196,33 +157,12 @@ fn text_fields_ui(
     ui: &mut egui::Ui,
     commands: &mut Vec<Command>,
 ) {
-    let label = ui.label("Segment name");
-    let r = ui
-        .add(
-            egui::TextEdit::singleline(&mut draft.name)
-                .id(ids.name)
-                .hint_text("e.g. Kelp Shelf"),
-        )
-        .labelled_by(label.id);
-    if r.lost_focus() && draft.name != seg.name {
-        commands.push(Command::Edit(Edit::Rename(
-            seg.id.clone(),
-            draft.name.clone(),
-        )));
+    let fields = &mut draft.fields;
+    if let Some(name) = fields.line(ui, "Segment name", ids.name, &seg.name, f32::INFINITY) {
+        commands.push(Command::Edit(Edit::Rename(seg.id.clone(), name)));
     }
-    let label = ui.label("Notes");
-    let r = ui
-        .add(
-            egui::TextEdit::multiline(&mut draft.notes)
-                .id(ids.notes)
-                .desired_rows(3),
-        )
-        .labelled_by(label.id);
-    if r.lost_focus() && draft.notes != seg.notes {
-        commands.push(Command::Edit(Edit::SetNotes(
-            seg.id.clone(),
-            draft.notes.clone(),
-        )));
+    if let Some(notes) = fields.lines(ui, "Notes", ids.notes, &seg.notes, 3) {
+        commands.push(Command::Edit(Edit::SetNotes(seg.id.clone(), notes)));
     }
 }
 
@@ -290,83 +230,61 @@ fn closure_ui(
     let mut closed = seg.closure.is_some();
     if ui.checkbox(&mut closed, "Closed to fishing").changed() {
         let closure = closed.then(|| Closure {
-            reason: if draft.reason.trim().is_empty() {
-                "closed".into()
-            } else {
-                draft.reason.clone()
-            },
-            from: parse_date(&draft.from).ok().flatten(),
-            to: parse_date(&draft.to).ok().flatten(),
+            reason: "closed".into(),
+            from: None,
+            to: None,
         });
         commands.push(Command::Edit(Edit::SetClosure(seg.id.clone(), closure)));
     }
     let Some(c) = &seg.closure else { return };
-    let label = ui.label("Reason for the closure");
-    let r = ui
-        .add(egui::TextEdit::singleline(&mut draft.reason).id(ids.reason))
-        .labelled_by(label.id);
-    if r.lost_focus() && draft.reason != c.reason {
-        commands.push(Command::Edit(Edit::SetClosure(
-            seg.id.clone(),
-            Some(Closure {
-                reason: draft.reason.clone(),
-                ..c.clone()
-            }),
-        )));
+    let fields = &mut draft.fields;
+    let set = |closure: Closure| Command::Edit(Edit::SetClosure(seg.id.clone(), Some(closure)));
+    if let Some(reason) = fields.line(
+        ui,
+        "Reason for the closure",
+        ids.reason,
+        &c.reason,
+        f32::INFINITY,
+    ) {
+        commands.push(set(Closure {
+            reason,
+            ..c.clone()
+        }));
     }
-    let lost = ui
+    let (from_text, to_text) = (date_text(c.from), date_text(c.to));
+    let (from, to) = ui
         .horizontal(|ui| {
-            let label = ui.label("Closed from");
-            let a = ui
-                .add(
-                    egui::TextEdit::singleline(&mut draft.from)
-                        .id(ids.from)
-                        .desired_width(100.0)
-                        .hint_text("YYYY-MM-DD"),
-                )
-                .labelled_by(label.id);
-            let label = ui.label("to");
-            let b = ui
-                .add(
-                    egui::TextEdit::singleline(&mut draft.to)
-                        .id(ids.to)
-                        .desired_width(100.0)
-                        .hint_text("YYYY-MM-DD"),
-                )
-                .labelled_by(label.id);
-            a.lost_focus() || b.lost_focus()
+            (
+                fields.line(ui, "Closed from", ids.from, &from_text, 100.0),
+                fields.line(ui, "to", ids.to, &to_text, 100.0),
+            )
         })
         .inner;
-    if lost {
-        match (parse_date(&draft.from), parse_date(&draft.to)) {
-            (Ok(from), Ok(to)) if from.zip(to).is_some_and(|(f, t)| f > t) => {
-                draft.date_error = Some("the closure ends before it starts".into());
+    if from.is_some() || to.is_some() {
+        let from = parse_date(&from.unwrap_or(from_text));
+        let to = parse_date(&to.unwrap_or(to_text));
+        fields.set_error(ids.from, from.as_ref().err().cloned());
+        fields.set_error(ids.to, to.as_ref().err().cloned());
+        if let (Ok(from), Ok(to)) = (from, to) {
+            if from.zip(to).is_some_and(|(f, t)| f > t) {
+                fields.set_error(ids.to, Some("the closure ends before it starts".into()));
+            } else if from != c.from || to != c.to {
+                commands.push(set(Closure {
+                    from,
+                    to,
+                    ..c.clone()
+                }));
             }
-            (Ok(from), Ok(to)) => {
-                draft.date_error = None;
-                if from != c.from || to != c.to {
-                    commands.push(Command::Edit(Edit::SetClosure(
-                        seg.id.clone(),
-                        Some(Closure {
-                            from,
-                            to,
-                            ..c.clone()
-                        }),
-                    )));
-                }
-            }
-            (Err(e), _) | (_, Err(e)) => draft.date_error = Some(e),
         }
     }
-    if let Some(e) = &draft.date_error {
-        ui.colored_label(Color32::from_rgb(170, 0, 0), e);
-    } else {
-        ui.label(
+    match fields.error_of(ids.from).or(fields.error_of(ids.to)) {
+        Some(e) => ui.colored_label(Color32::from_rgb(170, 0, 0), e),
+        None => ui.label(
             RichText::new("Empty dates: closed every day.")
                 .small()
                 .weak(),
-        );
-    }
+        ),
+    };
 }
 
 /// The points: how to move them, and splitting.

@@ -12,6 +12,10 @@ use std::ops::RangeInclusive;
 pub struct Fields {
     text: HashMap<egui::Id, String>,
     error: HashMap<egui::Id, String>,
+    /// Fields that had the keyboard last frame: focus can leave a field before it is
+    /// drawn (a click, or a screen reader moving focus), and what was typed in it must
+    /// still be handed back then.
+    focused: std::collections::HashSet<egui::Id>,
 }
 
 /// A number as a skipper types it: no trailing zeros.
@@ -31,21 +35,60 @@ impl Fields {
         stored: &str,
         width: f32,
     ) -> Option<String> {
-        let focused = ui.ctx().memory(|m| m.has_focus(id));
-        let buffer = self.text.entry(id).or_insert_with(|| stored.to_string());
-        // A field with a message keeps what was typed, so it can be corrected.
-        if !focused && !self.error.contains_key(&id) {
-            stored.clone_into(buffer);
-        }
         let label = ui.label(label);
-        let r = ui
-            .add(
-                egui::TextEdit::singleline(buffer)
-                    .id(id)
-                    .desired_width(width),
-            )
-            .labelled_by(label.id);
-        (r.lost_focus() && buffer != stored).then(|| buffer.clone())
+        let (r, typed) = self.edit(ui, id, stored, |buffer| {
+            egui::TextEdit::singleline(buffer)
+                .id(id)
+                .desired_width(width)
+        });
+        r.labelled_by(label.id);
+        typed
+    }
+
+    /// A labelled multi-line field, like [`Fields::line`].
+    pub fn lines(
+        &mut self,
+        ui: &mut egui::Ui,
+        label: &str,
+        id: egui::Id,
+        stored: &str,
+        rows: usize,
+    ) -> Option<String> {
+        let label = ui.label(label);
+        let (r, typed) = self.edit(ui, id, stored, |buffer| {
+            egui::TextEdit::multiline(buffer).id(id).desired_rows(rows)
+        });
+        r.labelled_by(label.id);
+        typed
+    }
+
+    /// Shows a text edit over the field's buffer; with the text typed when the field
+    /// has just lost focus with a change.
+    fn edit(
+        &mut self,
+        ui: &mut egui::Ui,
+        id: egui::Id,
+        stored: &str,
+        widget: impl FnOnce(&mut String) -> egui::TextEdit<'_>,
+    ) -> (egui::Response, Option<String>) {
+        let had_focus = self.focused.contains(&id) || ui.ctx().memory(|m| m.has_focus(id));
+        let keep = had_focus || self.error.contains_key(&id);
+        let mut buffer = self.text.remove(&id).unwrap_or_else(|| stored.to_string());
+        // A field not being typed in shows what is stored (an undo shows at once); one
+        // with a message keeps what was typed, so it can be corrected.
+        if !keep {
+            stored.clone_into(&mut buffer);
+        }
+        let r = ui.add(widget(&mut buffer));
+        let left = r.lost_focus() || (had_focus && !r.has_focus());
+        let typed = (left && buffer != stored).then(|| buffer.clone());
+        self.text.insert(id, buffer);
+        if r.has_focus() {
+            self.focused.insert(id);
+        } else {
+            self.focused.remove(&id);
+        }
+        (r, typed)
     }
 
     /// A labelled number field with its unit; returns the number when the field loses
@@ -83,6 +126,11 @@ impl Fields {
         ui.end_row();
     }
 
+    /// The message of a field, if it has one.
+    pub fn error_of(&self, id: egui::Id) -> Option<&String> {
+        self.error.get(&id)
+    }
+
     /// Sets a message on a field (a check made elsewhere).
     pub fn set_error(&mut self, id: egui::Id, message: Option<String>) {
         match message {
@@ -95,6 +143,7 @@ impl Fields {
     pub fn clear(&mut self) {
         self.text.clear();
         self.error.clear();
+        self.focused.clear();
     }
 }
 

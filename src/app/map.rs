@@ -734,7 +734,10 @@ fn round_scale_length(max_nm: f64) -> Option<f64> {
 /// A length in nautical miles as a scale shows it: no trailing zeros (`0.5 nm`, `20 nm`).
 fn scale_text(length: f64, unit: &str) -> String {
     let digits = format!("{length:.3}");
-    format!("{} {unit}", digits.trim_end_matches('0').trim_end_matches('.'))
+    format!(
+        "{} {unit}",
+        digits.trim_end_matches('0').trim_end_matches('.')
+    )
 }
 
 /// The length of a path through the points, nautical miles (great circles between them).
