@@ -789,3 +789,53 @@ fn the_guide_explains_the_colours_and_the_shortcuts() {
     harness.run_steps(4);
     harness.get_by_label_contains("Natural Earth");
 }
+
+/// Export for the chart plotter: the stretches selected (Ctrl-click) as GPX waypoints,
+/// with a route from the home port to each.
+#[test]
+fn the_selected_stretches_go_to_the_plotter_as_gpx() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let plan = harness.state().plan.clone().expect("plan");
+    let day = harness.state().view.day;
+    let names: Vec<String> = plan.days[day]
+        .ranked
+        .iter()
+        .take(2)
+        .map(|r| plan.stretches[r.stretch].name.clone())
+        .collect();
+    harness
+        .get_by_label(&format!("Stretch {}", names[0]))
+        .click();
+    harness.run_steps(2);
+    harness
+        .get_by_label(&format!("Stretch {}", names[1]))
+        .click_modifiers(egui::Modifiers::COMMAND);
+    harness.run_steps(2);
+    harness.get_by_label("File").click();
+    harness.run_steps(2);
+    harness
+        .get_by_label("Export GPX: the selected stretches…")
+        .click();
+    harness.run_steps(4);
+    let out = dir.path().join("plotter.gpx");
+    type_path(&mut harness, out.to_str().expect("utf-8"));
+    harness.get_by_label("Save here").click();
+    harness.run_steps(1);
+    wait_until(&mut harness, "the GPX written", |a| !a.is_busy());
+    let gpx = gpx::read(std::io::BufReader::new(
+        std::fs::File::open(&out).expect("written"),
+    ))
+    .expect("reads as GPX");
+    let waypoints: Vec<String> = gpx
+        .waypoints
+        .iter()
+        .filter_map(|w| w.name.clone())
+        .collect();
+    assert_eq!(waypoints, names);
+    assert_eq!(gpx.routes.len(), 2);
+    assert_eq!(
+        gpx.routes[0].points[0].name.as_deref(),
+        Some("Tern Harbour")
+    );
+}
