@@ -116,7 +116,10 @@ fn the_demo_week_follows_its_story() {
         for r in &d.ranked {
             let recomposed = 100.0 * r.productivity * r.window_factor * r.distance_factor;
             assert!((recomposed - r.score).abs() < 1e-9);
-            assert_eq!(reasons(&plan, k, r).len(), 3);
+            // Upwelling, wind, sea state (the small boat has a wave limit), trip.
+            let lines = reasons(&plan, k, r);
+            assert_eq!(lines.len(), 4, "{lines:?}");
+            assert!(lines[2].contains("wave"), "{lines:?}");
         }
     }
 }

@@ -2,6 +2,7 @@
 //! know their midpoint, length, alongshore bearing and offshore-normal bearing.
 
 mod drawn;
+mod fetch;
 mod geodesy;
 mod geojson;
 mod land;
@@ -9,6 +10,7 @@ mod resolve;
 mod segment;
 
 pub use drawn::{Closure, CoastSegment};
+pub use fetch::{FETCH_CAP_M, FETCH_DIRECTIONS, fetch_from_table, fetch_m, fetch_table};
 pub use geodesy::{
     EARTH_MEAN_RADIUS_M, LatLon, destination, distance_m, initial_bearing_deg, is_a_line, midpoint,
 };

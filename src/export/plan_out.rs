@@ -300,6 +300,8 @@ fn ranked_json(plan: &Plan, date: chrono::NaiveDate, r: &RankedStretch) -> Value
         "steam_minutes": r.steam_minutes.round(),
         "fuel_l": r.fuel_l.round(),
         "max_wind_kt": r.max_wind_kt.round(),
+        "max_wave_height_m": r.reasons.waves.max_m.map(|m| round_to(m, 1)),
+        "wave_source": r.reasons.waves.source.kind(),
         "centre": {"lat": s.centre.lat_deg, "lon": s.centre.lon_deg},
         "reasons": ranked_lines(plan, date, r, FILE_UNITS),
     })

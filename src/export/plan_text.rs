@@ -5,8 +5,8 @@
 use super::units::Units;
 use crate::localtime::local_day;
 use crate::plan::{
-    Excluded, Exclusion, Plan, PlanNote, RankedStretch, Reasons, TripReason, UpwellingReason,
-    WindReason,
+    Excluded, Exclusion, Plan, PlanNote, RankedStretch, Reasons, Stopper, TripReason,
+    UpwellingReason, WaveReason, WaveSource, WindReason,
 };
 use chrono::{DateTime, NaiveDate, Utc};
 use chrono_tz::Tz;
@@ -83,6 +83,21 @@ pub fn exclusion_text(e: &Exclusion, tz: Tz, port_name: &str, units: Units) -> S
         ),
         Exclusion::NoForecast => "no forecast for this day's working hours".into(),
         Exclusion::NoRouteForecast => "no forecast for part of the way from port".into(),
+        Exclusion::NoSeaRoute => format!("no way by sea from {port_name} within this boat's range"),
+        Exclusion::OverWaveLimit {
+            max_wave_m,
+            at,
+            limit_m,
+            source,
+        } => format!(
+            "{} up to {max_wave_m:.1} m ({}): over this boat's {limit_m:.1} m limit all day",
+            if *source == WaveSource::Estimate {
+                "estimated wind sea"
+            } else {
+                "waves"
+            },
+            hhmm(tz, *at)
+        ),
         Exclusion::OverWindLimit {
             max_wind_kt,
             at,
@@ -145,11 +160,25 @@ fn upwelling_text(r: &Reasons, tz: Tz, date: NaiveDate) -> String {
     }
 }
 
+/// What stops the boat at an hour, in words: "wind 28 kt at 13:00: over this boat's
+/// 25 kt limit" or "waves 1.8 m at 14:00: over this boat's 1.2 m limit".
+fn stopper_text(stopper: Stopper, at: DateTime<Utc>, tz: Tz, units: Units) -> String {
+    match stopper {
+        Stopper::NoForecast => format!("no forecast at {}", hhmm(tz, at)),
+        Stopper::Wind { kt, limit_kt } => format!(
+            "wind {} at {}: over this boat's {} limit",
+            units.wind_vs(kt, limit_kt),
+            hhmm(tz, at),
+            units.wind(limit_kt)
+        ),
+        Stopper::Waves { m, limit_m } => format!(
+            "waves {m:.1} m at {}: over this boat's {limit_m:.1} m limit",
+            hhmm(tz, at)
+        ),
+    }
+}
+
 fn wind_text(w: &WindReason, tz: Tz, units: Units) -> String {
-    let describe = |at: DateTime<Utc>, wind: Option<f64>, limit: f64| match wind {
-        Some(kt) => format!("wind {} at {}", units.wind_vs(kt, limit), hhmm(tz, at)),
-        None => format!("no forecast at {}", hhmm(tz, at)),
-    };
     match *w {
         WindReason::UnderAllDay {
             limit_kt,
@@ -159,28 +188,33 @@ fn wind_text(w: &WindReason, tz: Tz, units: Units) -> String {
             units.wind(limit_kt),
             units.wind(max_wind_kt)
         ),
-        WindReason::OverAfter {
-            at,
-            wind_kt,
-            until,
-            limit_kt,
-        } => format!(
-            "{}: over this boat's {} limit after {}; back in by then",
-            describe(at, wind_kt, limit_kt),
-            units.wind(limit_kt),
+        WindReason::OverAfter { at, stopper, until } => format!(
+            "{} after {}; back in by then",
+            stopper_text(stopper, at, tz, units),
             hhmm(tz, until)
         ),
-        WindReason::OverUntil {
-            at,
-            wind_kt,
-            from,
-            limit_kt,
-        } => format!(
-            "{}: over this boat's {} limit until {}; go after that",
-            describe(at, wind_kt, limit_kt),
-            units.wind(limit_kt),
+        WindReason::OverUntil { at, stopper, from } => format!(
+            "{} until {}; go after that",
+            stopper_text(stopper, at, tz, units),
             hhmm(tz, from)
         ),
+    }
+}
+
+/// The sea state, in words; an estimate is always called one.
+fn wave_text(w: &WaveReason) -> Option<String> {
+    let limit = w
+        .limit_m
+        .map(|l| format!(" (this boat's limit {l:.1} m)"))
+        .unwrap_or_default();
+    match (w.source, w.max_m) {
+        (WaveSource::Forecast, Some(m)) => Some(format!("waves up to {m:.1} m{limit}")),
+        (WaveSource::Estimate, Some(m)) => Some(format!(
+            "waves: an estimate of the local wind sea only, up to {m:.1} m{limit}; swell unknown"
+        )),
+        _ => w
+            .limit_m
+            .map(|l| format!("wave limit {l:.1} m not checked: nothing tells the waves here")),
     }
 }
 
@@ -191,8 +225,8 @@ fn trip_text(t: &TripReason, port_name: &str, units: Units) -> String {
         duration_text(t.steam_minutes),
         units.fuel(t.fuel_l)
     );
-    if t.crosses_land {
-        s.push_str(" (straight line crosses land: the way by sea is longer)");
+    if t.straight_line {
+        s.push_str(" (straight line: no way by sea was measured)");
     }
     s
 }
@@ -212,6 +246,9 @@ pub fn reason_lines(
         wind_text(&r.wind, tz, units),
         trip_text(&r.trip, port_name, units),
     ];
+    if let Some(w) = wave_text(&r.waves) {
+        lines.insert(2, w);
+    }
     if let Some(lat) = r.near_equator_lat_deg {
         lines.push(format!(
             "{lat:.1}° from the equator: the index is large and unreliable this close to it (under 10°)"
@@ -239,9 +276,20 @@ pub fn note_text(n: &PlanNote, port_name: &str) -> String {
         PlanNote::GreatCircleDistances => format!(
             "Distances are great-circle from {port_name} to each stretch's centre; where that line crosses land the way by sea is longer (marked)."
         ),
-        PlanNote::WaveLimitNotChecked { limit_m } => format!(
-            "Wave limit {limit_m} m not checked: the forecast has no wave height. Check the sea state yourself."
-        ),
+        PlanNote::WaveSources {
+            forecast,
+            estimate,
+            none,
+            limit_m,
+        } => {
+            let limit = limit_m.map_or_else(
+                || "This boat has no wave limit set: waves are shown, not checked".to_string(),
+                |l| format!("Wave limit {l:.1} m"),
+            );
+            format!(
+                "{limit}. Waves from a wave forecast at {forecast} stretch(es); only an estimate of the local wind sea (no swell) at {estimate}; nothing at {none}. Check the sea state yourself."
+            )
+        }
         PlanNote::NearEquator => "Some stretches lie between 5° and 10° from the equator, where the upwelling index is large and unreliable.".into(),
     }
 }

@@ -11,6 +11,7 @@ mod ekman;
 mod pumping;
 mod stress;
 mod units;
+mod waves;
 
 pub use coriolis::{
     EARTH_ROTATION_RAD_S, EquatorError, LatitudeCheck, REFUSE_BELOW_LAT_DEG, WARN_BELOW_LAT_DEG,
@@ -29,3 +30,4 @@ pub use units::{
     KMH_IN_M_S, KNOT_IN_M_S, NAUTICAL_MILE_M, Wind, bearing_deg, km_h_to_m_s, knots_to_m_s,
     m_s_to_knots,
 };
+pub use waves::{SeaLimit, WindSea, wind_sea, wind_stress_factor_m_s};

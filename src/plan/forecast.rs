@@ -4,6 +4,7 @@
 //! here; only a change of wind files or coast geometry samples again, and a change of
 //! model settings recomputes the upwelling from the same samples.
 
+use super::WaveSource;
 use crate::coast::{Land, LatLon, Segment, destination, distance_m, initial_bearing_deg};
 use crate::localtime::local_day;
 use crate::physics::{
@@ -131,6 +132,11 @@ pub struct PortRoutes {
     /// Per stretch, per hour of [`Forecast::timeline`]: the strongest wind on the way
     /// and at the stretch, knots; `None` where part of the way has no forecast.
     pub max_wind_kt: Vec<Arc<[Option<f64>]>>,
+    /// Per stretch, per hour: the highest significant waves on the way and at the
+    /// stretch, m; `None` where nothing tells them.
+    pub max_wave_m: Vec<Arc<[Option<f64>]>>,
+    /// Per stretch: where those wave heights come from.
+    pub wave_source: Vec<WaveSource>,
 }
 
 /// Model settings that the upwelling stage uses.
@@ -443,6 +449,8 @@ fn port_routes(
         distance_nm: Vec::with_capacity(stretches.len()),
         crosses_land: Vec::with_capacity(stretches.len()),
         max_wind_kt: Vec::with_capacity(stretches.len()),
+        max_wave_m: Vec::with_capacity(stretches.len()),
+        wave_source: Vec::with_capacity(stretches.len()),
     };
     for ((s, l), &(first, n, crosses)) in stretches.iter().zip(layout).zip(route_groups) {
         out.distance_nm
@@ -466,6 +474,8 @@ fn port_routes(
             })
             .collect();
         out.max_wind_kt.push(max.into());
+        out.max_wave_m.push(vec![None; timeline.len()].into());
+        out.wave_source.push(WaveSource::None);
     }
     out
 }

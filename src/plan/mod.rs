@@ -25,9 +25,11 @@ pub use rank::{
     DayPlan, Excluded, Plan, PlanError, PlanNote, PlanRequest, RankedStretch, StretchInfo,
     rank_plan,
 };
-pub use reasons::{Exclusion, Reasons, TripReason, UpwellingReason, WindReason};
+pub use reasons::{
+    Exclusion, Reasons, Stopper, TripReason, UpwellingReason, WaveReason, WaveSource, WindReason,
+};
 pub use settings::TripSettings;
-pub use window::{WorkingHour, longest_safe_run, run_span};
+pub use window::{Limits, Unsafe, WorkingHour, longest_safe_run, run_span};
 
 /// The cautions shown with every plan (DESIGN.md, Safety).
 pub const CAUTIONS: &str = "Not a navigation aid and no substitute for official marine forecasts and warnings. \

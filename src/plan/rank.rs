@@ -3,8 +3,10 @@
 //! typed reasons.
 
 use super::forecast::{Forecast, Latitude, StretchForecast};
-use super::reasons::{Exclusion, Reasons, TripReason, UpwellingReason, WindReason};
-use super::window::{WorkingHour, longest_safe_run, run_span};
+use super::reasons::{
+    Exclusion, Reasons, Stopper, TripReason, UpwellingReason, WaveReason, WaveSource, WindReason,
+};
+use super::window::{Limits, Unsafe, WorkingHour, longest_safe_run, run_span};
 use super::{Port, TripSettings, Vessel};
 use crate::coast::{Closure, CoastSegment};
 use crate::localtime::{local_day, local_time};
@@ -30,6 +32,10 @@ pub struct StretchInfo {
     /// Per hour of the forecast timeline, the strongest wind on the way and at the
     /// stretch, knots.
     route_max_wind_kt: Arc<[Option<f64>]>,
+    /// Per hour, the highest waves on the way and at the stretch, m.
+    route_max_wave_m: Arc<[Option<f64>]>,
+    /// Where those wave heights come from.
+    pub wave_source: WaveSource,
     timeline_start: Option<DateTime<Utc>>,
 }
 
@@ -48,6 +54,13 @@ impl StretchInfo {
     pub fn route_wind_kt(&self, t: DateTime<Utc>) -> Option<f64> {
         let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
         self.route_max_wind_kt.get(k).copied().flatten()
+    }
+
+    /// The highest waves on the way from port and at the stretch at hour `t`, m.
+    #[must_use]
+    pub fn route_wave_m(&self, t: DateTime<Utc>) -> Option<f64> {
+        let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
+        self.route_max_wave_m.get(k).copied().flatten()
     }
 }
 
@@ -107,10 +120,18 @@ pub struct DayPlan {
 pub enum PlanNote {
     /// Distances are great-circle from the port; a way over land is marked.
     GreatCircleDistances,
-    /// The boat has a wave limit, which the wind forecast cannot check.
-    WaveLimitNotChecked {
-        /// The limit, m.
-        limit_m: f64,
+    /// Where the waves the plan checked come from: how many stretches were checked
+    /// against a wave forecast, against an estimate of the wind sea only, and against
+    /// nothing.
+    WaveSources {
+        /// Stretches checked against a wave forecast.
+        forecast: usize,
+        /// Stretches checked against an estimate of the local wind sea.
+        estimate: usize,
+        /// Stretches whose waves nothing tells.
+        none: usize,
+        /// The boat's wave limit, if set.
+        limit_m: Option<f64>,
     },
     /// Some stretches lie between 5° and 10° from the equator.
     NearEquator,
@@ -217,6 +238,8 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
                 distance_nm: routes.distance_nm[k],
                 crosses_land: routes.crosses_land[k],
                 route_max_wind_kt: routes.max_wind_kt[k].clone(),
+                route_max_wave_m: routes.max_wave_m[k].clone(),
+                wave_source: routes.wave_source[k],
                 timeline_start: forecast.timeline.first().copied(),
             }
         })
@@ -236,9 +259,13 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
         .map(|d| ranker.rank_day(d, &stretches))
         .collect();
     let mut notes = vec![PlanNote::GreatCircleDistances];
-    if let Some(limit_m) = req.vessel.wave_limit_m {
-        notes.push(PlanNote::WaveLimitNotChecked { limit_m });
-    }
+    let count = |w: WaveSource| stretches.iter().filter(|s| s.wave_source == w).count();
+    notes.push(PlanNote::WaveSources {
+        forecast: count(WaveSource::Forecast),
+        estimate: count(WaveSource::Estimate),
+        none: count(WaveSource::None),
+        limit_m: req.vessel.wave_limit_m,
+    });
     if stretches
         .iter()
         .any(|s| s.latitude == Latitude::NearEquator)
@@ -318,7 +345,11 @@ impl DayRanker<'_> {
         s.hours
             .iter()
             .filter(|h| h.time >= start && h.time < end)
-            .map(|h| (h.time, s.route_wind_kt(h.time)))
+            .map(|h| WorkingHour {
+                time: h.time,
+                wind_kt: s.route_wind_kt(h.time),
+                wave_m: s.route_wave_m(h.time),
+            })
             .collect()
     }
 
@@ -347,9 +378,13 @@ impl DayRanker<'_> {
         if working.is_empty() {
             return Err(Exclusion::NoForecast);
         }
-        let max_wind_kt = working.iter().filter_map(|h| h.1).fold(0.0, f64::max);
-        let Some(run) = longest_safe_run(&working, vessel.wind_limit_kt) else {
-            return Err(never_safe(&working, vessel.wind_limit_kt));
+        let max_wind_kt = working.iter().filter_map(|h| h.wind_kt).fold(0.0, f64::max);
+        let limits = Limits {
+            wind_kt: vessel.wind_limit_kt,
+            wave_m: vessel.wave_limit_m,
+        };
+        let Some(run) = longest_safe_run(&working, &limits) else {
+            return Err(never_safe(&working, &limits, s.wave_source));
         };
         let steam_h = s.distance_nm / vessel.cruise_speed_kt;
         let window = run_span(&working, run);
@@ -371,7 +406,7 @@ impl DayRanker<'_> {
             distance_nm: s.distance_nm,
             steam_minutes: steam_h * 60.0,
             fuel_l: 2.0 * steam_h * vessel.fuel_l_per_h,
-            crosses_land: s.crosses_land,
+            straight_line: s.crosses_land,
         };
         Ok(RankedStretch {
             stretch: 0,
@@ -389,7 +424,12 @@ impl DayRanker<'_> {
             reasons: Reasons {
                 upwelling: self.upwelling_reason(s, day),
                 productivity,
-                wind: wind_reason(&working, window, vessel.wind_limit_kt, max_wind_kt),
+                wind: wind_reason(&working, window, &limits, max_wind_kt),
+                waves: WaveReason {
+                    max_m: working.iter().filter_map(|h| h.wave_m).reduce(f64::max),
+                    source: s.wave_source,
+                    limit_m: vessel.wave_limit_m,
+                },
                 trip,
                 near_equator_lat_deg: (s.latitude == Latitude::NearEquator)
                     .then_some(s.centre.lat_deg),
@@ -437,51 +477,90 @@ impl DayRanker<'_> {
     }
 }
 
-/// Why no hour of the day is safe.
-fn never_safe(working: &[WorkingHour], limit_kt: f64) -> Exclusion {
-    let worst = working.iter().filter_map(|h| h.1.map(|w| (h.0, w))).fold(
-        None,
-        |m: Option<(DateTime<Utc>, f64)>, x| match m {
-            Some(m) if m.1 >= x.1 => Some(m),
-            _ => Some(x),
-        },
-    );
-    match worst {
-        None => Exclusion::NoRouteForecast,
-        Some((at, max_wind_kt)) => Exclusion::OverWindLimit {
+/// Why no hour of the day is safe: the wind when it is over its limit all day, else the
+/// waves.
+fn never_safe(working: &[WorkingHour], limits: &Limits, source: WaveSource) -> Exclusion {
+    let worst = |f: &dyn Fn(&WorkingHour) -> Option<f64>| {
+        working
+            .iter()
+            .filter_map(|h| f(h).map(|v| (h.time, v)))
+            .fold(None, |m: Option<(DateTime<Utc>, f64)>, x| match m {
+                Some(m) if m.1 >= x.1 => Some(m),
+                _ => Some(x),
+            })
+    };
+    let wind_blocks = working.iter().all(|h| {
+        matches!(
+            h.unsafe_for(limits),
+            Some(Unsafe::Wind(_) | Unsafe::NoForecast)
+        )
+    });
+    match (worst(&|h| h.wind_kt), worst(&|h| h.wave_m), limits.wave_m) {
+        (None, _, _) => Exclusion::NoRouteForecast,
+        (Some((at, max_wind_kt)), _, _) if wind_blocks => Exclusion::OverWindLimit {
             max_wind_kt,
             at,
-            limit_kt,
+            limit_kt: limits.wind_kt,
+        },
+        (_, Some((at, max_wave_m)), Some(limit_m)) => Exclusion::OverWaveLimit {
+            max_wave_m,
+            at,
+            limit_m,
+            source,
+        },
+        (Some((at, max_wind_kt)), _, _) => Exclusion::OverWindLimit {
+            max_wind_kt,
+            at,
+            limit_kt: limits.wind_kt,
         },
     }
 }
 
-/// What the wind allows around the safe window.
+/// What the wind and the sea allow around the safe window.
 fn wind_reason(
     working: &[WorkingHour],
     (from, to): (DateTime<Utc>, DateTime<Utc>),
-    limit_kt: f64,
+    limits: &Limits,
     max_wind_kt: f64,
 ) -> WindReason {
-    let over = |h: &&WorkingHour| h.1.is_none_or(|w| w > limit_kt);
-    if let Some(h) = working.iter().filter(over).find(|h| h.0 >= to) {
+    let stopper = |h: &WorkingHour| {
+        h.unsafe_for(limits).map(|u| match u {
+            Unsafe::NoForecast => Stopper::NoForecast,
+            Unsafe::Wind(kt) => Stopper::Wind {
+                kt,
+                limit_kt: limits.wind_kt,
+            },
+            Unsafe::Waves(m) => Stopper::Waves {
+                m,
+                limit_m: limits.wave_m.unwrap_or(m),
+            },
+        })
+    };
+    if let Some((h, stopper)) = working
+        .iter()
+        .filter(|h| h.time >= to)
+        .find_map(|h| stopper(h).map(|s| (h, s)))
+    {
         return WindReason::OverAfter {
-            at: h.0,
-            wind_kt: h.1,
+            at: h.time,
+            stopper,
             until: to,
-            limit_kt,
         };
     }
-    if let Some(h) = working.iter().filter(over).rev().find(|h| h.0 < from) {
+    if let Some((h, stopper)) = working
+        .iter()
+        .rev()
+        .filter(|h| h.time < from)
+        .find_map(|h| stopper(h).map(|s| (h, s)))
+    {
         return WindReason::OverUntil {
-            at: h.0,
-            wind_kt: h.1,
+            at: h.time,
+            stopper,
             from,
-            limit_kt,
         };
     }
     WindReason::UnderAllDay {
-        limit_kt,
+        limit_kt: limits.wind_kt,
         max_wind_kt,
     }
 }

@@ -26,6 +26,19 @@ pub enum Exclusion {
     NoForecast,
     /// Part of the way from port has no forecast all day.
     NoRouteForecast,
+    /// Over the boat's wave limit in every working hour the wind allows.
+    OverWaveLimit {
+        /// The highest waves on the way and at the stretch, m.
+        max_wave_m: f64,
+        /// When, UTC.
+        at: DateTime<Utc>,
+        /// The boat's limit, m.
+        limit_m: f64,
+        /// Where the wave heights come from.
+        source: WaveSource,
+    },
+    /// No way by sea from the home port within the boat's range.
+    NoSeaRoute,
     /// Over the boat's wind limit in every working hour.
     OverWindLimit {
         /// The strongest wind on the way and at the stretch, knots.
@@ -58,6 +71,8 @@ impl Exclusion {
             Exclusion::BeyondRange { .. } => "beyond_range",
             Exclusion::NoForecast | Exclusion::NoRouteForecast => "no_forecast",
             Exclusion::OverWindLimit { .. } => "over_wind_limit",
+            Exclusion::OverWaveLimit { .. } => "over_wave_limit",
+            Exclusion::NoSeaRoute => "no_sea_route",
             Exclusion::WindowTooShort { .. } => "window_too_short",
         }
     }
@@ -74,7 +89,9 @@ impl Exclusion {
     pub fn is_wind(&self) -> bool {
         matches!(
             self,
-            Exclusion::OverWindLimit { .. } | Exclusion::WindowTooShort { .. }
+            Exclusion::OverWindLimit { .. }
+                | Exclusion::OverWaveLimit { .. }
+                | Exclusion::WindowTooShort { .. }
         )
     }
 }
@@ -124,7 +141,52 @@ pub enum UpwellingReason {
     NoEvent,
 }
 
-/// What the wind allows.
+/// Where the wave heights of a stretch and its way come from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum WaveSource {
+    /// A wave forecast (or a buoy's record) everywhere on the way.
+    Forecast,
+    /// Somewhere an estimate of the local wind sea from the wind and the fetch (Shore
+    /// Protection Manual, CERC 1984): swell unknown.
+    Estimate,
+    /// Nothing tells the waves.
+    None,
+}
+
+impl WaveSource {
+    /// The word written in JSON (`wave_source`).
+    #[must_use]
+    pub fn kind(self) -> &'static str {
+        match self {
+            WaveSource::Forecast => "forecast",
+            WaveSource::Estimate => "estimate",
+            WaveSource::None => "none",
+        }
+    }
+}
+
+/// What stops the boat in an hour outside the window.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum Stopper {
+    /// No wind forecast then for part of the way.
+    NoForecast,
+    /// Wind, knots, over the limit.
+    Wind {
+        /// The wind, knots.
+        kt: f64,
+        /// The limit, knots.
+        limit_kt: f64,
+    },
+    /// Waves, m, over the limit.
+    Waves {
+        /// The waves, m.
+        m: f64,
+        /// The limit, m.
+        limit_m: f64,
+    },
+}
+
+/// What the wind and the sea allow.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub enum WindReason {
     /// Under the limit in every working hour.
@@ -134,42 +196,49 @@ pub enum WindReason {
         /// The strongest wind, knots.
         max_wind_kt: f64,
     },
-    /// Over the limit (or no forecast) after the window: back in by its end.
+    /// Over a limit (or no forecast) after the window: back in by its end.
     OverAfter {
-        /// The first hour over the limit after the window, with its wind (knots; `None`
-        /// without a forecast then).
+        /// The first hour over a limit after the window.
         at: DateTime<Utc>,
-        /// Wind then, knots.
-        wind_kt: Option<f64>,
+        /// What stops the boat then.
+        stopper: Stopper,
         /// End of the window, UTC.
         until: DateTime<Utc>,
-        /// The boat's limit, knots.
-        limit_kt: f64,
     },
-    /// Over the limit (or no forecast) before the window: go after it opens.
+    /// Over a limit (or no forecast) before the window: go after it opens.
     OverUntil {
-        /// The last hour over the limit before the window.
+        /// The last hour over a limit before the window.
         at: DateTime<Utc>,
-        /// Wind then, knots.
-        wind_kt: Option<f64>,
+        /// What stops the boat then.
+        stopper: Stopper,
         /// Start of the window, UTC.
         from: DateTime<Utc>,
-        /// The boat's limit, knots.
-        limit_kt: f64,
     },
+}
+
+/// The sea state of a ranked stretch's day.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct WaveReason {
+    /// Highest waves on the way and at the stretch in working hours, m (`None` where
+    /// nothing tells them).
+    pub max_m: Option<f64>,
+    /// Where the heights come from.
+    pub source: WaveSource,
+    /// The boat's wave limit, m, if set.
+    pub limit_m: Option<f64>,
 }
 
 /// What the trip costs.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct TripReason {
-    /// Great-circle distance from the port, nm.
+    /// Distance from the port by sea, nm.
     pub distance_nm: f64,
     /// Steaming time each way, minutes.
     pub steam_minutes: f64,
     /// Fuel for the round trip, litres.
     pub fuel_l: f64,
-    /// The straight line crosses land: the way by sea is longer.
-    pub crosses_land: bool,
+    /// The distance is the great-circle line (no way by sea was found to measure).
+    pub straight_line: bool,
 }
 
 /// The reasons that come with a rank.
@@ -181,6 +250,8 @@ pub struct Reasons {
     pub productivity: f64,
     /// What the wind allows.
     pub wind: WindReason,
+    /// The sea state.
+    pub waves: WaveReason,
     /// What the trip costs.
     pub trip: TripReason,
     /// Latitude of a stretch between 5° and 10° from the equator, where the index is
