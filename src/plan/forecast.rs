@@ -5,6 +5,7 @@
 //! model settings recomputes the upwelling from the same samples.
 
 use super::WaveSource;
+use super::seastate::FetchCache;
 use crate::coast::{Land, LatLon, Segment, destination, distance_m, initial_bearing_deg};
 use crate::localtime::local_day;
 use crate::physics::{
@@ -407,6 +408,7 @@ pub fn sample_forecast_conditions(
     let timeline = hourly_timeline(&conditions);
     let (stretch_pieces, stretches): (Vec<Segment>, Vec<StretchForecast>) = cut.into_iter().unzip();
     let n = stretches.len();
+    let mut fetch = FetchCache::new(geometry.land);
     let routes = geometry
         .ports
         .iter()
@@ -417,8 +419,8 @@ pub fn sample_forecast_conditions(
                 &stretches,
                 &layout,
                 &route_groups[p * n..(p + 1) * n],
-                &conditions,
-                &timeline,
+                (&conditions, &groups),
+                (&timeline, &mut fetch),
             )
         })
         .collect();
@@ -441,8 +443,8 @@ fn port_routes(
     stretches: &[StretchForecast],
     layout: &[StretchGroups],
     route_groups: &[(usize, usize, bool)],
-    conditions: &Conditions,
-    timeline: &[DateTime<Utc>],
+    (conditions, groups): (&Conditions, &[PointGroup]),
+    (timeline, fetch): (&[DateTime<Utc>], &mut FetchCache<'_>),
 ) -> PortRoutes {
     let mut out = PortRoutes {
         port,
@@ -474,8 +476,32 @@ fn port_routes(
             })
             .collect();
         out.max_wind_kt.push(max.into());
-        out.max_wave_m.push(vec![None; timeline.len()].into());
-        out.wave_source.push(WaveSource::None);
+        // No wave forecast: the wind sea estimated at each point of the way and at the
+        // stretch, the highest each hour.
+        let mut points: Vec<(LatLon, Vec<Option<Wind>>)> = way
+            .iter()
+            .zip(&groups[first..first + n])
+            .filter_map(|(g, group)| {
+                let g = (*g)?;
+                Some((group.anchor, timeline.iter().map(|&t| wind_at(g, 0, t)).collect()))
+            })
+            .collect();
+        points.push((
+            s.centre,
+            timeline
+                .iter()
+                .map(|&t| centre.and_then(|g| centre_wind_at(g, t)))
+                .collect(),
+        ));
+        let seas: Vec<Vec<Option<f64>>> = points
+            .iter()
+            .map(|(p, winds)| fetch.wind_sea_m(*p, winds))
+            .collect();
+        let highest: Vec<Option<f64>> = (0..timeline.len())
+            .map(|k| seas.iter().filter_map(|h| h[k]).reduce(f64::max))
+            .collect();
+        out.max_wave_m.push(highest.into());
+        out.wave_source.push(WaveSource::Estimate);
     }
     out
 }

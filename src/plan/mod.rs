@@ -10,6 +10,7 @@ mod boat;
 mod forecast;
 mod rank;
 mod reasons;
+mod seastate;
 mod settings;
 mod window;
 
