@@ -245,11 +245,16 @@ fn the_demo_friday_sheet_has_what_the_skipper_needs() {
     );
 }
 
-/// The big boat on the day of the blow works some hours: the hours over its limit are
-/// hatched on the wind plots.
+/// The big boat on the day of the blow, its wave limit taken off (the blow's sea keeps
+/// it in otherwise: tests/plan_demo.rs), works some hours: the hours over its wind
+/// limit are hatched on the wind plots.
 #[test]
 fn hours_over_the_limit_are_shaded() {
-    let plan = demo_plan("steady-hand", "harrow-cove", "2027-05-13");
+    let mut scenario = demo_scenario().expect("demo");
+    for v in &mut scenario.vessels {
+        v.wave_limit_m = None;
+    }
+    let plan = plan_for(&scenario, "steady-hand", "harrow-cove", "2027-05-13");
     assert!(!plan.days[0].ranked.is_empty());
     let html = trip_sheet_html(&plan, Land::bundled(), 0, Units::default());
     assert_parses(&html);

@@ -103,6 +103,32 @@ impl PlotFrame<'_> {
         });
     }
 
+    fn waves(&self, ui: &mut egui::Ui) {
+        let s = self.chosen[0];
+        let title = match s.wave_source {
+            crate::plan::WaveSource::Forecast => "Waves on the way (m); shaded: over a limit",
+            crate::plan::WaveSource::Estimate => "Waves on the way (m): estimate of the wind sea only",
+            crate::plan::WaveSource::None => "Waves on the way (m): no data",
+        };
+        self.plot(ui, "waves", title).include_y(0.0).show(ui, |p| {
+            self.decorate(p, true);
+            if let Some(limit) = self.plan.vessel.wave_limit_m {
+                p.hline(
+                    HLine::new(format!("boat's limit {limit:.1} m"), limit)
+                        .color(Color32::from_rgb(197, 27, 125)),
+                );
+            }
+            for (k, s) in self.chosen.iter().enumerate() {
+                let pts: Vec<[f64; 2]> = s
+                    .hours
+                    .iter()
+                    .filter_map(|h| s.route_wave_m(h.time).map(|m| [hours_since(self.t0, h.time), m]))
+                    .collect();
+                p.line(Line::new(s.name.clone(), PlotPoints::from(pts)).color(PALETTE[k]));
+            }
+        });
+    }
+
     fn direction(&self, ui: &mut egui::Ui) {
         self.plot(ui, "direction", "Wind from (degrees true)")
             .include_y(0.0)
@@ -238,10 +264,11 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
         height: f64::from(((ui.available_height() - 80.0) / 2.0).max(50.0)),
     };
     let plots = |ui: &mut egui::Ui| {
-        ui.columns(3, |cols| {
+        ui.columns(4, |cols| {
             frame.wind(&mut cols[0]);
-            frame.direction(&mut cols[1]);
-            frame.stress(&mut cols[2]);
+            frame.waves(&mut cols[1]);
+            frame.direction(&mut cols[2]);
+            frame.stress(&mut cols[3]);
         });
         ui.columns(4, |cols| {
             frame.index(&mut cols[0]);
@@ -268,13 +295,21 @@ fn noon_x(plan: &Plan, date: chrono::NaiveDate, t0: chrono::DateTime<chrono::Utc
     hours_since(t0, crate::localtime::local_noon(plan.time_zone, date))
 }
 
-/// Runs of hours over the boat's wind limit (at the stretch or on the way), as x ranges.
+/// Runs of hours over the boat's wind or wave limit (at the stretch or on the way), as
+/// x ranges.
 fn unsafe_runs(plan: &Plan, s: &StretchInfo, t0: chrono::DateTime<chrono::Utc>) -> Vec<(f64, f64)> {
+    let limits = crate::plan::Limits {
+        wind_kt: plan.vessel.wind_limit_kt,
+        wave_m: plan.vessel.wave_limit_m,
+    };
     let mut runs: Vec<(f64, f64)> = Vec::new();
     for h in &s.hours {
-        if s.route_wind_kt(h.time)
-            .is_none_or(|w| w > plan.vessel.wind_limit_kt)
-        {
+        let hour = crate::plan::WorkingHour {
+            time: h.time,
+            wind_kt: s.route_wind_kt(h.time),
+            wave_m: s.route_wave_m(h.time),
+        };
+        if hour.unsafe_for(&limits).is_some() {
             let x = hours_since(t0, h.time);
             match runs.last_mut() {
                 Some(last) if (x - last.1) <= 1.01 => last.1 = x + 1.0,

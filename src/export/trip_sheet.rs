@@ -238,12 +238,15 @@ fn header(o: &mut String, plan: &Plan, date: Option<NaiveDate>, units: Units) {
     let _ = writeln!(o, "<table class=\"facts\">");
     let _ = writeln!(
         o,
-        "<tr><th>Boat</th><td>{}: cruise {}, wind limit {}, range {}, {} at cruise</td></tr>",
+        "<tr><th>Boat</th><td>{}: cruise {}, wind limit {}, range {}, {} at cruise{}</td></tr>",
         esc(&v.name),
         units.speed(v.cruise_speed_kt),
         units.wind(v.wind_limit_kt),
         units.distance(v.range_nm),
-        units.fuel_rate(v.fuel_l_per_h)
+        units.fuel_rate(v.fuel_l_per_h),
+        v.wave_limit_m
+            .map(|m| format!(", wave limit {m:.1} m"))
+            .unwrap_or_default()
     );
     let _ = writeln!(
         o,
