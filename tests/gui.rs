@@ -651,8 +651,9 @@ fn redo_answers_ctrl_shift_z_and_ctrl_y() {
 fn a_station_file_is_added_beside_the_grid() {
     let dir = tempfile::tempdir().expect("temp dir");
     let mut harness = app_harness(dir.path());
+    // The demo's wind grid and its wave forecast.
     let grid = harness.state().doc.scenario.wind_files.clone();
-    assert_eq!(grid.len(), 1);
+    assert_eq!(grid.len(), 2);
     // A station near the north end of the demo coast, with a second station far off
     // so the north one covers only the segments nearest to it.
     let write = |name: &str, lat: f64, lon: f64| {
@@ -680,33 +681,35 @@ fn a_station_file_is_added_beside_the_grid() {
     harness.run_steps(2);
     wait_for_plan(&mut harness);
     let files = harness.state().doc.scenario.wind_files.clone();
-    assert_eq!(files.len(), 2, "{files:?}");
-    assert_eq!(files[0], grid[0]);
-    assert_eq!(files[1], north);
+    assert_eq!(files.len(), 3, "{files:?}");
+    assert_eq!(files[..2], grid[..]);
+    assert_eq!(files[2], north);
     // The grid comes first, so it still gives the wind where it covers the coast.
     harness
         .state_mut()
         .send(shelfwind::app::Command::ShowWindFiles);
     harness.run_steps(3);
     harness.get_by_label(&format!("1. {}", grid[0].display()));
-    harness.get_by_label(&format!("2. {}", north.display()));
-    harness.get_by_label("wind for no segment");
+    harness.get_by_label(&format!("3. {}", north.display()));
+    assert_eq!(harness.get_all_by_label("wind for no segment").count(), 2);
     let plan = harness.state().plan.clone().expect("plan");
     assert!(plan.stretches.iter().all(|s| s.wind_source == Some(0)));
     // Put the station first: as the only station it is the nearest to every segment,
     // so every stretch takes its wind, and the grid gives none.
-    harness
-        .get_all_by_label("Move up")
-        .nth(1)
-        .expect("second file")
-        .click();
-    harness.run_steps(2);
-    wait_for_plan(&mut harness);
-    harness.run_steps(2);
+    for k in [2, 1] {
+        harness
+            .get_all_by_label("Move up")
+            .nth(k)
+            .expect("a file")
+            .click();
+        harness.run_steps(2);
+        wait_for_plan(&mut harness);
+        harness.run_steps(2);
+    }
     assert_eq!(harness.state().doc.scenario.wind_files[0], north);
     let plan = harness.state().plan.clone().expect("plan");
     assert!(plan.stretches.iter().all(|s| s.wind_source == Some(0)));
-    harness.get_by_label("wind for no segment");
+    assert_eq!(harness.get_all_by_label("wind for no segment").count(), 2);
 }
 
 /// Ctrl-click and Shift-click on the ranked list add to the selection; the side-by-side

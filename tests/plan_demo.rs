@@ -147,7 +147,10 @@ fn the_blow_keeps_every_boat_in_the_sea_state_even_the_largest() {
     for e in by_waves {
         let text = excluded_text(&large, e, Units::default());
         assert!(text.starts_with("estimated wind sea up to "), "{text}");
-        assert!(text.ends_with("over this boat's 3.0 m limit all day"), "{text}");
+        assert!(
+            text.ends_with("over this boat's 3.0 m limit all day"),
+            "{text}"
+        );
     }
     let mut scenario = demo_scenario().expect("demo");
     for v in &mut scenario.vessels {
@@ -292,7 +295,8 @@ fn gpx_is_valid_gpx_1_1_and_reads_back() {
     .expect("reads as GPX");
     assert_eq!(gpx.version, gpx::GpxVersion::Gpx11);
     assert!(!gpx.waypoints.is_empty() && gpx.waypoints.len() <= 9);
-    assert_eq!(gpx.routes.len(), 3, "one route per day");
+    // One route per day with a ranked stretch: Tuesday's swell keeps the small boat in.
+    assert_eq!(gpx.routes.len(), 2, "Monday and Wednesday");
     let first = &gpx.routes[0];
     assert_eq!(first.points.len(), 2);
     assert_eq!(first.points[0].name.as_deref(), Some("Tern Harbour"));
@@ -365,4 +369,58 @@ fn render_does_not_panic_on_an_empty_day() {
     ] {
         assert!(!render_plan(&plan, f).is_empty());
     }
+}
+
+/// The demo's sea state (written before looking: a swell passes on Tuesday 11 May, 1.8 m
+/// at noon while the wind is light). With the wave forecast the small boat (1.2 m limit)
+/// is kept in by the waves on a day the wind alone allows; without it, the same day
+/// ranks stretches (checked against the wind sea estimate, which knows no swell).
+#[test]
+fn a_swell_keeps_the_small_boat_in_on_a_calm_day() {
+    let scenario = demo_scenario().expect("demo");
+    let segments = resolve_segments(&scenario.segments, Land::bundled()).expect("sides");
+    let dir = tempfile::tempdir().expect("temp dir");
+    let o = Command::new(env!("CARGO_BIN_EXE_shelfwind"))
+        .args(["demo", "--out", dir.path().to_str().expect("utf-8")])
+        .output()
+        .expect("runs");
+    assert!(o.status.success());
+    let files = [
+        dir.path().join(DEMO_FORECAST_FILE),
+        dir.path().join(shelfwind::scenario::DEMO_WAVES_FILE),
+    ];
+    let choice = PlanChoice {
+        vessel_id: Some("little-auk"),
+        port_id: Some("tern-harbour"),
+        from: Some(day("2027-05-11")),
+        days: 1,
+        now: chrono::Utc::now(),
+    };
+    let plan = |files: &[PathBuf]| {
+        let sources = load_sources(files).expect("files");
+        plan_scenario(&scenario, &segments, &sources, &choice, &Progress::new()).expect("plan")
+    };
+    let with_waves = plan(&files);
+    let tuesday = &with_waves.days[0];
+    assert!(tuesday.ranked.is_empty(), "{:?}", tuesday.ranked);
+    let by_waves: Vec<_> = tuesday
+        .excluded
+        .iter()
+        .filter(|e| e.exclusion.kind() == "over_wave_limit")
+        .collect();
+    assert_eq!(by_waves.len(), 4, "the four stretches in range");
+    for e in by_waves {
+        let text = excluded_text(&with_waves, e, Units::default());
+        assert!(
+            text.starts_with("waves up to 1.8 m") || text.starts_with("waves up to 1.9 m"),
+            "{text}"
+        );
+    }
+    let wind_only = plan(&files[..1]);
+    assert!(
+        !wind_only.days[0].ranked.is_empty(),
+        "the wind allows Tuesday"
+    );
+    let json = render_plan(&with_waves, PlanFormat::Json);
+    assert!(json.contains("\"reason_kind\": \"over_wave_limit\""));
 }

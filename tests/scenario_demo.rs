@@ -287,3 +287,52 @@ fn demo_then_index_from_the_command_line() {
     );
     assert_eq!(from_geojson.stdout, explicit.stdout);
 }
+
+/// ecCodes reads the demo's wave forecast as significant wave height (short name `swh`,
+/// discipline 10, category 0, number 3) and finds the generator's heights; the committed
+/// file is what the generator writes.
+#[test]
+fn eccodes_reads_the_demo_waves() {
+    use shelfwind::wind::{demo_wave_height_m, demo_waves_grib2};
+    let committed = std::fs::read(repo("demo-scenarios/north-reach/north-reach-waves.grib2"))
+        .expect("committed");
+    assert!(
+        committed == demo_waves_grib2(),
+        "run: cargo run -- demo --out demo-scenarios/north-reach"
+    );
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("w.grib2");
+    std::fs::write(&path, &committed).expect("write");
+    let Ok(out) = Command::new("grib_get_data")
+        .args(["-w", "step=36,shortName=swh"])
+        .arg(&path)
+        .output()
+    else {
+        assert!(
+            std::env::var_os("CI").is_none(),
+            "grib_get_data is missing in CI: .ci/run installs libeccodes-tools"
+        );
+        eprintln!("skipped: grib_get_data (ecCodes) is not installed");
+        return;
+    };
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8(out.stdout).expect("utf-8");
+    let mut checked = 0;
+    for line in text.lines().skip(1) {
+        let cols: Vec<f64> = line
+            .split_whitespace()
+            .map(|x| x.parse().expect("number"))
+            .collect();
+        let expected = demo_wave_height_m(cols[0], cols[1] - 360.0, 36.0);
+        assert!(
+            (cols[2] - expected).abs() < 0.006,
+            "{line}: generator {expected}"
+        );
+        checked += 1;
+    }
+    assert_eq!(checked, 13 * 14);
+}

@@ -107,7 +107,9 @@ impl PlotFrame<'_> {
         let s = self.chosen[0];
         let title = match s.wave_source {
             crate::plan::WaveSource::Forecast => "Waves on the way (m); shaded: over a limit",
-            crate::plan::WaveSource::Estimate => "Waves on the way (m): estimate of the wind sea only",
+            crate::plan::WaveSource::Estimate => {
+                "Waves on the way (m): estimate of the wind sea only"
+            }
             crate::plan::WaveSource::None => "Waves on the way (m): no data",
         };
         self.plot(ui, "waves", title).include_y(0.0).show(ui, |p| {
@@ -122,7 +124,10 @@ impl PlotFrame<'_> {
                 let pts: Vec<[f64; 2]> = s
                     .hours
                     .iter()
-                    .filter_map(|h| s.route_wave_m(h.time).map(|m| [hours_since(self.t0, h.time), m]))
+                    .filter_map(|h| {
+                        s.route_wave_m(h.time)
+                            .map(|m| [hours_since(self.t0, h.time), m])
+                    })
                     .collect();
                 p.line(Line::new(s.name.clone(), PlotPoints::from(pts)).color(PALETTE[k]));
             }

@@ -19,8 +19,9 @@ use crate::upwelling::{
     daily_upwelling, detect_events, index_series,
 };
 use crate::wind::{
-    Conditions, GroupWind, PointGroup, SegmentWind, SourceIdentity, SourceSpan, WindError,
-    WindSource, groups_fingerprint, length_weighted_at, sample_conditions, wind_at_time,
+    Conditions, GroupWind, PointGroup, PointSeries, SegmentWind, SourceIdentity, SourceSpan,
+    WindError, WindSource, groups_fingerprint, length_weighted_at, sample_conditions, sample_waves,
+    wind_at_time,
 };
 use chrono::{DateTime, Duration, NaiveDate, Timelike, Utc};
 use chrono_tz::Tz;
@@ -406,6 +407,8 @@ pub fn sample_forecast_conditions(
         return Err(ForecastError::NoWind);
     }
     let timeline = hourly_timeline(&conditions);
+    let anchors: Vec<LatLon> = groups.iter().map(|g| g.anchor).collect();
+    let waves = sample_waves(sources, &anchors, progress)?;
     let (stretch_pieces, stretches): (Vec<Segment>, Vec<StretchForecast>) = cut.into_iter().unzip();
     let n = stretches.len();
     let mut fetch = FetchCache::new(geometry.land);
@@ -419,7 +422,7 @@ pub fn sample_forecast_conditions(
                 &stretches,
                 &layout,
                 &route_groups[p * n..(p + 1) * n],
-                (&conditions, &groups),
+                (&conditions, &groups, &waves),
                 (&timeline, &mut fetch),
             )
         })
@@ -443,7 +446,7 @@ fn port_routes(
     stretches: &[StretchForecast],
     layout: &[StretchGroups],
     route_groups: &[(usize, usize, bool)],
-    (conditions, groups): (&Conditions, &[PointGroup]),
+    (conditions, groups, waves): (&Conditions, &[PointGroup], &[Option<PointSeries>]),
     (timeline, fetch): (&[DateTime<Utc>], &mut FetchCache<'_>),
 ) -> PortRoutes {
     let mut out = PortRoutes {
@@ -476,32 +479,48 @@ fn port_routes(
             })
             .collect();
         out.max_wind_kt.push(max.into());
-        // No wave forecast: the wind sea estimated at each point of the way and at the
-        // stretch, the highest each hour.
-        let mut points: Vec<(LatLon, Vec<Option<Wind>>)> = way
+        // Waves at each point of the way and at the stretch: forecast where a wave file
+        // covers the point, else the wind sea estimated there; the highest each hour.
+        let mut points: Vec<(LatLon, usize, Vec<Option<Wind>>)> = way
             .iter()
-            .zip(&groups[first..first + n])
-            .filter_map(|(g, group)| {
+            .zip(first..first + n)
+            .filter_map(|(g, k)| {
                 let g = (*g)?;
-                Some((group.anchor, timeline.iter().map(|&t| wind_at(g, 0, t)).collect()))
+                let winds = timeline.iter().map(|&t| wind_at(g, 0, t)).collect();
+                Some((groups[k].anchor, k, winds))
             })
             .collect();
         points.push((
             s.centre,
+            l.pieces,
             timeline
                 .iter()
                 .map(|&t| centre.and_then(|g| centre_wind_at(g, t)))
                 .collect(),
         ));
+        let mut estimated = false;
         let seas: Vec<Vec<Option<f64>>> = points
             .iter()
-            .map(|(p, winds)| fetch.wind_sea_m(*p, winds))
+            .map(|(p, k, winds)| match &waves[*k] {
+                Some(series) => timeline
+                    .iter()
+                    .map(|&t| series.wave_at(t, MAX_WIND_GAP_H).map(|w| w.height_m))
+                    .collect(),
+                None => {
+                    estimated = true;
+                    fetch.wind_sea_m(*p, winds)
+                }
+            })
             .collect();
         let highest: Vec<Option<f64>> = (0..timeline.len())
             .map(|k| seas.iter().filter_map(|h| h[k]).reduce(f64::max))
             .collect();
         out.max_wave_m.push(highest.into());
-        out.wave_source.push(WaveSource::Estimate);
+        out.wave_source.push(if estimated {
+            WaveSource::Estimate
+        } else {
+            WaveSource::Forecast
+        });
     }
     out
 }

@@ -71,7 +71,11 @@ impl<'a> FetchCache<'a> {
                 }
                 _ => true,
             };
-            run = if turned { 1 } else { (run + 1).min(MAX_DURATION_H) };
+            run = if turned {
+                1
+            } else {
+                (run + 1).min(MAX_DURATION_H)
+            };
             if turned {
                 last_dir = dir;
             }

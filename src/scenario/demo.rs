@@ -3,13 +3,15 @@
 
 use super::{Scenario, ScenarioError, parse_scenario};
 use crate::atomic::write_atomic;
-use crate::wind::demo_forecast_grib2;
+use crate::wind::{demo_forecast_grib2, demo_waves_grib2};
 use std::path::{Path, PathBuf};
 
 /// File name of the demo scenario.
 pub const DEMO_SCENARIO_FILE: &str = "north-reach.shelfwind.json";
 /// File name of the demo forecast (the scenario refers to it by this name).
 pub const DEMO_FORECAST_FILE: &str = "north-reach-forecast.grib2";
+/// File name of the demo wave forecast (the scenario refers to it by this name).
+pub const DEMO_WAVES_FILE: &str = "north-reach-waves.grib2";
 /// The demo scenario's text, as committed in `demo-scenarios/north-reach/`.
 pub const DEMO_SCENARIO_JSON: &str =
     include_str!("../../demo-scenarios/north-reach/north-reach.shelfwind.json");
@@ -26,6 +28,7 @@ pub fn write_demo(dir: &Path) -> std::io::Result<(PathBuf, PathBuf)> {
     let scenario = dir.join(DEMO_SCENARIO_FILE);
     let forecast = dir.join(DEMO_FORECAST_FILE);
     write_atomic(&forecast, &demo_forecast_grib2())?;
+    write_atomic(&dir.join(DEMO_WAVES_FILE), &demo_waves_grib2())?;
     write_atomic(&scenario, DEMO_SCENARIO_JSON.as_bytes())?;
     Ok((scenario, forecast))
 }

@@ -8,7 +8,8 @@ mod file;
 
 pub use compose::{PlanChoice, plan_scenario, record_settings, segment_names};
 pub use demo::{
-    DEMO_FORECAST_FILE, DEMO_SCENARIO_FILE, DEMO_SCENARIO_JSON, demo_scenario, write_demo,
+    DEMO_FORECAST_FILE, DEMO_SCENARIO_FILE, DEMO_SCENARIO_JSON, DEMO_WAVES_FILE, demo_scenario,
+    write_demo,
 };
 pub use document::{ModelSettings, Port, Scenario, Vessel};
 pub use file::{

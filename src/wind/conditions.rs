@@ -16,7 +16,10 @@
 //! ([`sample_conditions`]); a long record takes every source that covers it, joined in
 //! time, the first source winning where two give the same time ([`sample_merged`]).
 
-use super::{WindError, WindFileError, WindSource, sample_grib2_with};
+use super::{
+    PointSeries, WindError, WindFileError, WindSource, grib2_contents, sample_grib2_with,
+    sample_waves_grib2_sized,
+};
 use crate::coast::{LatLon, distance_m};
 use crate::physics::Wind;
 use crate::progress::Progress;
@@ -185,6 +188,12 @@ fn read_source(
     progress: &Progress,
 ) -> Result<SourceSamples, WindError> {
     match source {
+        // A wave-only series gives no wind.
+        WindSource::Series { series, .. } if !series.has_wind() => Ok(SourceSamples {
+            times: Vec::new(),
+            points: vec![None; points.len()],
+            latest_reference: None,
+        }),
         WindSource::Series { series, .. } => Ok(SourceSamples {
             times: series.series.times.clone(),
             points: vec![Some(series.series.wind.clone()); points.len()],
@@ -195,6 +204,18 @@ fn read_source(
                 path: path.clone(),
                 source,
             };
+            let contents = grib2_contents(std::io::BufReader::new(
+                std::fs::File::open(path).map_err(|e| bad(e.into()))?,
+            ))
+            .map_err(bad)?;
+            // A wave-only file gives no wind (its waves are read by `sample_waves`).
+            if contents.waves && !contents.wind {
+                return Ok(SourceSamples {
+                    times: Vec::new(),
+                    points: vec![None; points.len()],
+                    latest_reference: None,
+                });
+            }
             let file = std::fs::File::open(path).map_err(|e| bad(e.into()))?;
             let s = sample_grib2_with(
                 std::io::BufReader::with_capacity(1 << 16, file),
@@ -211,10 +232,86 @@ fn read_source(
     }
 }
 
+/// The waves of every point, each from the first source with waves that covers it: a
+/// grid with a sea value near the point ([`sample_waves_grib2`]), a wave series without
+/// a position, or the nearest of the positioned wave series. Each point's waves come as
+/// a point series (no wind, waves at its times).
+pub fn sample_waves(
+    sources: &[WindSource],
+    points: &[LatLon],
+    progress: &Progress,
+) -> Result<Vec<Option<PointSeries>>, WindError> {
+    let wave_stations: Vec<WindSource> = sources
+        .iter()
+        .filter(|s| matches!(s, WindSource::Series { series, .. } if series.waves.is_some()))
+        .cloned()
+        .collect();
+    let nearest = nearest_station_of(&wave_stations);
+    let mut out: Vec<Option<PointSeries>> = vec![None; points.len()];
+    for source in sources {
+        let pending: Vec<usize> = (0..points.len()).filter(|&i| out[i].is_none()).collect();
+        if pending.is_empty() {
+            break;
+        }
+        match source {
+            WindSource::Series { series, path } if series.waves.is_some() => {
+                let k = wave_stations
+                    .iter()
+                    .position(|w| w.path() == path.as_path());
+                for i in pending {
+                    if series.position.is_none() || nearest(points[i]) == k {
+                        out[i] = Some(series.clone());
+                    }
+                }
+            }
+            WindSource::Series { .. } => {}
+            WindSource::Grib2 { path } => {
+                let bad = |source: WindFileError| WindError::File {
+                    path: path.clone(),
+                    source,
+                };
+                let file = std::fs::File::open(path).map_err(|e| bad(e.into()))?;
+                let len = file.metadata().map_or(0, |m| m.len());
+                let wanted: Vec<LatLon> = pending.iter().map(|&i| points[i]).collect();
+                let Some(samples) = sample_waves_grib2_sized(
+                    std::io::BufReader::with_capacity(1 << 16, file),
+                    len,
+                    &wanted,
+                    progress,
+                )
+                .map_err(bad)?
+                else {
+                    continue;
+                };
+                for (i, waves) in pending.into_iter().zip(samples.points) {
+                    out[i] = waves.map(|w| PointSeries {
+                        position: Some(points[i]),
+                        series: super::WindSeries {
+                            times: samples.times.clone(),
+                            wind: Vec::new(),
+                        },
+                        waves: Some(w.into_iter().map(Some).collect()),
+                    });
+                }
+            }
+        }
+    }
+    Ok(out)
+}
+
 /// Reads a source whole, to check it before it is added to a forecast (a file that
 /// earlier files leave unread would otherwise go unchecked).
 pub fn check_source(source: &WindSource, progress: &Progress) -> Result<(), WindError> {
-    read_source(source, &[], progress).map(|_| ())
+    read_source(source, &[], progress)?;
+    if let WindSource::Grib2 { path } = source {
+        let bad = |source: WindFileError| WindError::File {
+            path: path.clone(),
+            source,
+        };
+        let file = std::fs::File::open(path).map_err(|e| bad(e.into()))?;
+        sample_waves_grib2_sized(std::io::BufReader::new(file), 0, &[], progress).map_err(bad)?;
+    }
+    Ok(())
 }
 
 /// For an anchor, the index of the nearest source that is a point series with a
@@ -419,6 +516,7 @@ mod tests {
         WindSource::Series {
             path: PathBuf::from("s.csv"),
             series: PointSeries {
+                waves: None,
                 position,
                 series: WindSeries {
                     times: vec![t],

@@ -9,9 +9,19 @@
 //!   `speed_kt` / `speed_kn` / `speed_knots`, `speed_kmh` / `speed_km_h`, with the
 //!   direction the wind blows from: `direction_from_deg` / `dir_from_deg` /
 //!   `wind_from_deg`;
-//! - optional station position: `lat` / `latitude` and `lon` / `longitude`.
+//! - optional station position: `lat` / `latitude` and `lon` / `longitude`;
+//! - optional sea state: significant wave height in metres `wave_height_m` / `hs_m` /
+//!   `wvht_m`, and with it, optionally, a wave period in seconds `wave_period_s` /
+//!   `tp_s` / `dpd_s`. An empty wave cell is a missing value: the row keeps its wind and
+//!   its entry in [`PointSeries::waves`] is `None` (a period without a height is
+//!   dropped). Heights must lie in 0–30 m and periods in 0–40 s (more is taken for a
+//!   missing-value code such as 99, and refused).
+//!
+//! A file with wave columns and no wind column at all is a wave-only series: its
+//! `series.times` holds the rows' times and `series.wind` is empty. A file with some but
+//! not all of the wind columns is refused as before.
 
-use super::{PointSeries, WindFileError, WindSeries};
+use super::{PointSeries, Wave, WindFileError, WindSeries};
 use crate::coast::LatLon;
 use crate::physics::{Wind, km_h_to_m_s, knots_to_m_s};
 use chrono::{DateTime, NaiveDateTime, Utc};
@@ -42,6 +52,13 @@ const SPEED_UNITS: [SpeedUnit; 3] = [
 ];
 const DIRECTION: &[&str] = &["direction_from_deg", "dir_from_deg", "wind_from_deg"];
 const LAT: &[&str] = &["lat", "latitude"];
+const WAVE_HEIGHT: &[&str] = &["wave_height_m", "hs_m", "wvht_m"];
+const WAVE_PERIOD: &[&str] = &["wave_period_s", "tp_s", "dpd_s"];
+/// Largest significant wave height accepted, m: above any measured sea state (the
+/// largest buoy records are near 20 m), so a larger number is a missing-value code.
+const MAX_WAVE_HEIGHT_M: f64 = 30.0;
+/// Largest wave period accepted, s: above the longest ocean swell periods (near 25 s).
+const MAX_WAVE_PERIOD_S: f64 = 40.0;
 const LON: &[&str] = &["lon", "longitude"];
 
 /// How the wind is given in a file.
@@ -66,17 +83,32 @@ struct SpeedColumns {
     direction: usize,
 }
 
+/// The wave height column and the optional wave period column.
+struct WaveColumns {
+    height: usize,
+    period: Option<usize>,
+}
+
 /// The columns named by the header, and the header's own line for errors about them.
 struct Header {
     line: u64,
     names: Vec<String>,
     time: usize,
-    wind: WindColumns,
+    /// `None` in a wave-only file.
+    wind: Option<WindColumns>,
+    waves: Option<WaveColumns>,
     position: Option<(usize, usize)>,
 }
 
-/// One data row: valid time, wind and its line in the file.
-type Row = (DateTime<Utc>, Wind, u64);
+/// One data row.
+struct Row {
+    time: DateTime<Utc>,
+    /// `None` in a wave-only file.
+    wind: Option<Wind>,
+    /// `None` where the wave height cell is empty or the file has no wave columns.
+    wave: Option<Wave>,
+    line: u64,
+}
 
 fn err(line: u64, problem: impl Into<String>) -> WindFileError {
     WindFileError::Csv {
@@ -187,8 +219,30 @@ fn position_columns(names: &[String], line: u64) -> Result<Option<(usize, usize)
     }
 }
 
+/// The wave columns of a header: a height with an optional period, or none.
+fn wave_columns(names: &[String], line: u64) -> Result<Option<WaveColumns>, WindFileError> {
+    match (find(names, WAVE_HEIGHT), find(names, WAVE_PERIOD)) {
+        (Some(height), period) => Ok(Some(WaveColumns { height, period })),
+        (None, None) => Ok(None),
+        (None, Some(_)) => Err(err(
+            line,
+            format!(
+                "a wave period column needs a wave height column: expected one of {}",
+                WAVE_HEIGHT.join(", ")
+            ),
+        )),
+    }
+}
+
+/// Whether any column names a part of the wind (a component, speed or direction).
+fn any_wind_column(names: &[String]) -> bool {
+    [U, V, SPEED_MS, SPEED_KT, SPEED_KMH, DIRECTION]
+        .iter()
+        .any(|group| find(names, group).is_some())
+}
+
 impl Header {
-    /// Finds the time, wind and position columns of the header record.
+    /// Finds the time, wind, wave and position columns of the header record.
     fn parse(record: &csv::StringRecord) -> Result<Self, WindFileError> {
         let line = record.position().map_or(1, csv::Position::line);
         let names: Vec<String> = record.iter().map(str::to_ascii_lowercase).collect();
@@ -201,18 +255,21 @@ impl Header {
                 ),
             )
         })?;
-        let wind = wind_columns(&names).ok_or_else(|| {
-            err(
+        let waves = wave_columns(&names, line)?;
+        let wind = wind_columns(&names);
+        if wind.is_none() && (waves.is_none() || any_wind_column(&names)) {
+            return Err(err(
                 line,
                 "no wind columns: expected u_ms and v_ms, or a speed (speed_ms, speed_kt or speed_kmh) with direction_from_deg",
-            )
-        })?;
+            ));
+        }
         let position = position_columns(&names, line)?;
         Ok(Self {
             line,
             names,
             time,
             wind,
+            waves,
             position,
         })
     }
@@ -227,15 +284,68 @@ impl Header {
         number(record, col, &self.names[col], line)
     }
 
-    /// The wind of one row.
-    fn wind(&self, record: &csv::StringRecord, line: u64) -> Result<Wind, WindFileError> {
+    /// The wind of one row; `None` in a wave-only file.
+    fn wind(&self, record: &csv::StringRecord, line: u64) -> Result<Option<Wind>, WindFileError> {
         match &self.wind {
-            WindColumns::Components { u, v } => Ok(Wind::new(
+            None => Ok(None),
+            Some(WindColumns::Components { u, v }) => Ok(Some(Wind::new(
                 self.number(record, *u, line)?,
                 self.number(record, *v, line)?,
-            )),
-            WindColumns::SpeedDirection(columns) => self.speed_direction(record, columns, line),
+            ))),
+            Some(WindColumns::SpeedDirection(columns)) => {
+                self.speed_direction(record, columns, line).map(Some)
+            }
         }
+    }
+
+    /// The number in wave column `col` of a row, `None` for an empty cell; refused
+    /// below 0 (or at 0 unless `zero_ok`) and above `max`; `what` and `unit` name it in
+    /// errors.
+    fn wave_number(
+        &self,
+        record: &csv::StringRecord,
+        col: usize,
+        line: u64,
+        (what, unit, zero_ok, max): (&str, &str, bool, f64),
+    ) -> Result<Option<f64>, WindFileError> {
+        if record.get(col).unwrap_or("").trim().is_empty() {
+            return Ok(None);
+        }
+        let x = self.number(record, col, line)?;
+        if x > max || x < 0.0 || (x == 0.0 && !zero_ok) {
+            let low = if zero_ok { "0" } else { "more than 0" };
+            return Err(err(
+                line,
+                format!(
+                    "column {}: {what} {x} {unit} is out of range: expected {low} to {max} {unit} (leave the cell empty for a missing value)",
+                    self.names[col]
+                ),
+            ));
+        }
+        Ok(Some(x))
+    }
+
+    /// The sea state of one row; `None` without wave columns or with an empty height.
+    fn wave(&self, record: &csv::StringRecord, line: u64) -> Result<Option<Wave>, WindFileError> {
+        let Some(columns) = &self.waves else {
+            return Ok(None);
+        };
+        let height_m = self.wave_number(
+            record,
+            columns.height,
+            line,
+            ("wave height", "m", true, MAX_WAVE_HEIGHT_M),
+        )?;
+        let period_s = match columns.period {
+            Some(col) => self.wave_number(
+                record,
+                col,
+                line,
+                ("wave period", "s", false, MAX_WAVE_PERIOD_S),
+            )?,
+            None => None,
+        };
+        Ok(height_m.map(|height_m| Wave { height_m, period_s }))
     }
 
     /// The wind of one row given as a speed and the direction it blows from.
@@ -324,30 +434,36 @@ fn check_one_station(
     Ok(())
 }
 
-/// Orders the rows in time, refusing an empty file or a time given twice.
-fn into_series(mut rows: Vec<Row>, header_line: u64) -> Result<WindSeries, WindFileError> {
+/// Orders the rows in time, refusing an empty file or a time given twice; returns the
+/// wind series (without wind in a wave-only file) and the waves at its times.
+fn into_series(
+    mut rows: Vec<Row>,
+    header_line: u64,
+) -> Result<(WindSeries, Vec<Option<Wave>>), WindFileError> {
     if rows.is_empty() {
         return Err(err(header_line, "no data rows after the header"));
     }
-    rows.sort_by_key(|r| (r.0, r.2));
-    if let Some(w) = rows.windows(2).find(|w| w[0].0 == w[1].0) {
+    rows.sort_by_key(|r| (r.time, r.line));
+    if let Some(w) = rows.windows(2).find(|w| w[0].time == w[1].time) {
         return Err(err(
-            w[1].2,
+            w[1].line,
             format!(
                 "time {} repeats line {}",
-                w[1].0.to_rfc3339_opts(chrono::SecondsFormat::Secs, true),
-                w[0].2
+                w[1].time.to_rfc3339_opts(chrono::SecondsFormat::Secs, true),
+                w[0].line
             ),
         ));
     }
-    Ok(WindSeries {
-        times: rows.iter().map(|r| r.0).collect(),
-        wind: rows.iter().map(|r| r.1).collect(),
-    })
+    let series = WindSeries {
+        times: rows.iter().map(|r| r.time).collect(),
+        wind: rows.iter().filter_map(|r| r.wind).collect(),
+    };
+    Ok((series, rows.iter().map(|r| r.wave).collect()))
 }
 
-/// Reads a CSV point series from text. Times are sorted; a repeated time is an error
-/// naming both lines.
+/// Reads a CSV point series from text (wind, waves or both; see the module
+/// documentation for the columns). Times are sorted; a repeated time is an error naming
+/// both lines.
 pub fn read_csv_series(text: &str) -> Result<PointSeries, WindFileError> {
     let mut reader = csv::ReaderBuilder::new()
         .comment(Some(b'#'))
@@ -362,14 +478,22 @@ pub fn read_csv_series(text: &str) -> Result<PointSeries, WindFileError> {
         let line = record.position().map_or(0, csv::Position::line);
         let time = parse_time(record.get(header.time).unwrap_or("")).map_err(|p| err(line, p))?;
         let wind = header.wind(&record, line)?;
+        let wave = header.wave(&record, line)?;
         if let Some(here) = header.station(&record, line)? {
             check_one_station(&mut station, here, line)?;
         }
-        rows.push((time, wind, line));
+        rows.push(Row {
+            time,
+            wind,
+            wave,
+            line,
+        });
     }
+    let (series, waves) = into_series(rows, header.line)?;
     Ok(PointSeries {
         position: station.map(|s| s.0),
-        series: into_series(rows, header.line)?,
+        series,
+        waves: header.waves.is_some().then_some(waves),
     })
 }
 

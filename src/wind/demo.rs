@@ -10,7 +10,7 @@
 //! stronger offshore and to the north, so the field has curl, and it freshens in the
 //! afternoons.
 
-use super::{GridField, encode_wind_message};
+use super::{GridField, Parameter, encode_message, encode_wind_message};
 use crate::physics::{Wind, knots_to_m_s};
 use chrono::{DateTime, TimeZone, Utc};
 
@@ -124,6 +124,53 @@ pub fn demo_forecast_grib2() -> Vec<u8> {
                 values,
             }));
         }
+    }
+    out
+}
+
+/// The demo's significant wave height, m, at a place and hour (hours after
+/// [`demo_reference_time`], local midnight starting Monday 10 May): a low sea of
+/// 0.6–0.9 m, a passing swell on Tuesday (1.8 m at noon, over 1.2 m from about 05:00 to
+/// 19:00 local) while the wind is light, and the sea of Thursday's blow (about 3.4 m at
+/// noon). Invented, like the rest of the demo.
+#[must_use]
+pub fn demo_wave_height_m(lat_deg: f64, _lon_deg: f64, hour: f64) -> f64 {
+    let bump = |centre_h: f64, width_h: f64, height_m: f64| {
+        height_m * (-((hour - centre_h) / width_h).powi(2)).exp()
+    };
+    0.6 + 0.1 * (lat_deg - 38.0).clamp(0.0, 3.0) + bump(36.0, 8.0, 1.2) + bump(84.0, 12.0, 2.8)
+}
+
+/// The demo's wave forecast as GRIB2 (significant height of combined wind waves and
+/// swell, discipline 10, category 0, number 3) on the wind's grid, issued with it,
+/// hourly for seven days.
+#[must_use]
+pub fn demo_waves_grib2() -> Vec<u8> {
+    let issued = demo_reference_time();
+    let mut out = Vec::new();
+    for step in 0..=DEMO_HOURS {
+        let mut values = Vec::with_capacity(DEMO_NI * DEMO_NJ);
+        for j in 0..DEMO_NJ {
+            for i in 0..DEMO_NI {
+                let lat = DEMO_LAT_NORTH_DEG - DEMO_STEP_DEG * j as f64;
+                let lon = DEMO_LON_WEST_DEG + DEMO_STEP_DEG * i as f64;
+                values.push(demo_wave_height_m(lat, lon, f64::from(step)));
+            }
+        }
+        out.extend(encode_message(
+            &GridField {
+                lat_north_deg: DEMO_LAT_NORTH_DEG,
+                lon_west_deg: DEMO_LON_WEST_DEG,
+                step_deg: DEMO_STEP_DEG,
+                ni: DEMO_NI,
+                nj: DEMO_NJ,
+                parameter: 3,
+                reference: issued,
+                step_hours: step,
+                values: &values,
+            },
+            Parameter::WaveHeight,
+        ));
     }
     out
 }

@@ -1,12 +1,14 @@
-//! GRIB2 (WMO FM 92 GRIB edition 2) importer for 10 m wind.
+//! GRIB2 (WMO FM 92 GRIB edition 2) importer for 10 m wind, and the message scanner,
+//! grid reader and field decoder that the wave importer (`waves.rs`) shares.
 //!
 //! The file is walked message by message with a small scanner of our own, so that each
 //! message is read alone (memory stays bounded by one message), errors name the message
 //! number, and messages the tool does not need (other parameters, other levels) are
 //! skipped before any decoding: a file is never rejected because a message it does not
 //! need cannot be decoded. The messages that hold 10 m u or v (discipline 0, category 2,
-//! numbers 2 and 3, first fixed surface 103 at 10 m) are decoded with the `grib` crate
-//! and sampled at once at the requested points (bilinear in longitude and latitude).
+//! numbers 2 and 3, first fixed surface 103 at 10 m) are decoded field by field with the
+//! `grib` crate and sampled at once at the requested points (bilinear in longitude and
+//! latitude).
 
 use super::WindFileError;
 use super::grid::{RegularGrid, Weights, interpolate};
@@ -15,7 +17,7 @@ use crate::physics::Wind;
 use crate::progress::Progress;
 use chrono::{DateTime, TimeZone, Utc};
 use std::collections::{BTreeMap, HashMap};
-use std::io::{Read, Seek, SeekFrom};
+use std::io::{BufRead, BufReader, Read, Seek, SeekFrom};
 
 /// Wind sampled from a GRIB2 file at a list of points.
 #[derive(Debug, Clone, PartialEq)]
@@ -30,19 +32,32 @@ pub struct Grib2Samples {
     pub latest_reference: Option<DateTime<Utc>>,
 }
 
-/// What the scanner reads from one product definition section (section 4).
+/// Byte range (start, length) of a section inside its message.
+pub(super) type Span = (usize, usize);
+
+/// What the scanner reads about one field: its product definition section (section 4)
+/// and where the sections that hold its grid and its data are.
 #[derive(Debug, Clone, Copy, PartialEq)]
-struct FieldHeader {
-    discipline: u8,
-    template: u16,
-    category: u8,
-    number: u8,
-    time_unit: u8,
-    forecast_time: u32,
-    surface_type: u8,
-    surface_m: f64,
-    /// Byte range of the grid definition section (section 3) that applies to this field.
-    grid: (usize, usize),
+pub(super) struct FieldHeader {
+    pub(super) discipline: u8,
+    pub(super) template: u16,
+    pub(super) category: u8,
+    pub(super) number: u8,
+    pub(super) time_unit: u8,
+    pub(super) forecast_time: u32,
+    pub(super) surface_type: u8,
+    pub(super) surface_m: f64,
+    /// The grid definition section (section 3) that applies to this field.
+    pub(super) grid: Span,
+    /// Its data representation section (section 5).
+    data_representation: Option<Span>,
+    /// Its bit-map section (section 6), as stored (indicator 254 included).
+    bitmap: Option<Span>,
+    /// The last bit-map section with a bit map of its own (indicator 0) before this
+    /// field in the same message: what bit-map indicator 254 refers to.
+    earlier_bitmap: Option<Span>,
+    /// Its data section (section 7).
+    data: Option<Span>,
 }
 
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -68,7 +83,13 @@ impl FieldHeader {
         }
     }
 
-    fn describe(&self) -> String {
+    /// Whether the field is 10 m u (`Some(true)`), 10 m v (`Some(false)`) or neither.
+    pub(super) fn is_wind_u(&self) -> Option<bool> {
+        self.wind_component().map(|c| c == Component::U)
+    }
+
+    /// "discipline/category/number at surface type", for messages listing what a file holds.
+    pub(super) fn describe(&self) -> String {
         format!(
             "{}/{}/{} at surface {}",
             self.discipline, self.category, self.number, self.surface_type
@@ -95,14 +116,61 @@ fn signed_i32(x: u32) -> i64 {
     if x & 0x8000_0000 == 0 { m } else { -m }
 }
 
-/// Reads the reference time (section 1) and the field headers (every section 4) of one
-/// message, checking the section lengths as it goes.
-fn scan_message(msg: &[u8]) -> Result<(DateTime<Utc>, Vec<FieldHeader>), String> {
+/// The reference time of an identification section (section 1).
+fn reference_time(s: &[u8]) -> Result<DateTime<Utc>, String> {
+    let (year, month, day) = (u16_at(s, 12), s[14], s[15]);
+    let (hour, minute, second) = (s[16], s[17], s[18]);
+    Utc.with_ymd_and_hms(
+        i32::from(year),
+        u32::from(month),
+        u32::from(day),
+        u32::from(hour),
+        u32::from(minute),
+        u32::from(second),
+    )
+    .single()
+    .ok_or_else(|| {
+        format!(
+            "reference time {year:04}-{month:02}-{day:02} {hour:02}:{minute:02}:{second:02} is not a valid date"
+        )
+    })
+}
+
+/// The header of a field from its product definition section `s` (section 4).
+fn field_header(discipline: u8, s: &[u8], grid: Span, earlier_bitmap: Option<Span>) -> FieldHeader {
+    let template = u16_at(s, 7);
+    let layout_known = template <= 15 && s.len() >= 28;
+    FieldHeader {
+        discipline,
+        template,
+        category: s[9],
+        number: s[10],
+        time_unit: if layout_known { s[17] } else { 255 },
+        forecast_time: if layout_known { u32_at(s, 18) } else { 0 },
+        surface_type: if layout_known { s[22] } else { 255 },
+        surface_m: if layout_known {
+            signed_i32(u32_at(s, 24)) as f64 * 10f64.powi(-signed_i8(s[23]))
+        } else {
+            f64::NAN
+        },
+        grid,
+        data_representation: None,
+        bitmap: None,
+        earlier_bitmap,
+        data: None,
+    }
+}
+
+/// Reads the reference time (section 1) and the field headers (every section 4, with
+/// the sections 5, 6 and 7 that follow it) of one message, checking the section lengths
+/// as it goes.
+pub(super) fn scan_message(msg: &[u8]) -> Result<(DateTime<Utc>, Vec<FieldHeader>), String> {
     let discipline = msg[6];
     let mut pos = 16;
     let mut ref_time = None;
     let mut grid = (0, 0);
-    let mut fields = Vec::new();
+    let mut last_bitmap = None;
+    let mut fields: Vec<FieldHeader> = Vec::new();
     loop {
         if msg.len() < pos + 4 {
             return Err("ends before its end section \"7777\"".into());
@@ -121,36 +189,19 @@ fn scan_message(msg: &[u8]) -> Result<(DateTime<Utc>, Vec<FieldHeader>), String>
             ));
         }
         let s = &msg[pos..pos + len];
-        match number {
-            1 if len >= 19 => {
-                let (year, month, day) = (u16_at(s, 12), s[14], s[15]);
-                let (hour, minute, second) = (s[16], s[17], s[18]);
-                let t = Utc
-                    .with_ymd_and_hms(i32::from(year), u32::from(month), u32::from(day), u32::from(hour), u32::from(minute), u32::from(second))
-                    .single()
-                    .ok_or_else(|| format!("reference time {year:04}-{month:02}-{day:02} {hour:02}:{minute:02}:{second:02} is not a valid date"))?;
-                ref_time = Some(t);
+        let span = Some((pos, len));
+        match (number, fields.last_mut()) {
+            (1, _) if len >= 19 => ref_time = Some(reference_time(s)?),
+            (3, _) => grid = (pos, len),
+            (4, _) if len >= 11 => fields.push(field_header(discipline, s, grid, last_bitmap)),
+            (5, Some(f)) => f.data_representation = span,
+            (6, Some(f)) if len >= 6 => {
+                f.bitmap = span;
+                if s[5] == 0 {
+                    last_bitmap = span;
+                }
             }
-            3 => grid = (pos, len),
-            4 if len >= 11 => {
-                let template = u16_at(s, 7);
-                let layout_known = template <= 15 && len >= 28;
-                fields.push(FieldHeader {
-                    discipline,
-                    template,
-                    category: s[9],
-                    number: s[10],
-                    time_unit: if layout_known { s[17] } else { 255 },
-                    forecast_time: if layout_known { u32_at(s, 18) } else { 0 },
-                    surface_type: if layout_known { s[22] } else { 255 },
-                    surface_m: if layout_known {
-                        signed_i32(u32_at(s, 24)) as f64 * 10f64.powi(-signed_i8(s[23]))
-                    } else {
-                        f64::NAN
-                    },
-                    grid,
-                });
-            }
+            (7, Some(f)) => f.data = span,
             _ => {}
         }
         pos += len;
@@ -160,7 +211,10 @@ fn scan_message(msg: &[u8]) -> Result<(DateTime<Utc>, Vec<FieldHeader>), String>
 }
 
 /// Valid time = reference time + forecast time × unit (Code Table 4.4).
-fn valid_time(ref_time: DateTime<Utc>, h: &FieldHeader) -> Result<DateTime<Utc>, String> {
+pub(super) fn valid_time(
+    ref_time: DateTime<Utc>,
+    h: &FieldHeader,
+) -> Result<DateTime<Utc>, String> {
     let unit_s: i64 = match h.time_unit {
         0 => 60,
         1 => 3600,
@@ -185,7 +239,8 @@ fn valid_time(ref_time: DateTime<Utc>, h: &FieldHeader) -> Result<DateTime<Utc>,
         })
 }
 
-fn grid_template_name(t: u16) -> &'static str {
+/// The name of a grid definition template (Code Table 3.1) in error messages.
+pub(super) fn grid_template_name(t: u16) -> &'static str {
     match t {
         1 => "rotated latitude/longitude",
         10 => "Mercator",
@@ -198,127 +253,327 @@ fn grid_template_name(t: u16) -> &'static str {
     }
 }
 
-/// Finds the next "GRIB" at or after `from`; `None` at the end of the file.
-fn find_magic<R: Read + Seek>(r: &mut R, from: u64) -> std::io::Result<Option<u64>> {
-    let mut buf = vec![0u8; 64 * 1024];
-    let mut base = from;
-    r.seek(SeekFrom::Start(base))?;
-    loop {
-        let mut filled = 0;
-        while filled < buf.len() {
-            let n = r.read(&mut buf[filled..])?;
-            if n == 0 {
-                break;
-            }
-            filled += n;
+/// One GRIB message as read from a file.
+pub(super) struct Message {
+    /// 1-based number of the message in the file.
+    pub(super) number: usize,
+    /// Byte offset of its "GRIB" in the file.
+    pub(super) start: u64,
+    /// All its bytes, "GRIB" to "7777".
+    pub(super) bytes: Vec<u8>,
+}
+
+/// Walks the GRIB2 messages of a stream one at a time, skipping bytes between messages
+/// and checking each message's framing (edition, length, end section).
+pub(super) struct Messages<R: Read> {
+    r: BufReader<R>,
+    /// Bytes of the stream consumed so far.
+    offset: u64,
+    /// Messages returned so far.
+    count: usize,
+}
+
+impl<R: Read> Messages<R> {
+    /// Starts at the beginning of the stream.
+    pub(super) fn new(r: R) -> Self {
+        Self {
+            r: BufReader::with_capacity(64 * 1024, r),
+            offset: 0,
+            count: 0,
         }
-        if let Some(k) = buf[..filled].windows(4).position(|w| w == b"GRIB") {
-            return Ok(Some(base + k as u64));
-        }
-        if filled < buf.len() {
+    }
+
+    /// Bytes of the stream read so far.
+    pub(super) fn bytes_read(&self) -> u64 {
+        self.offset
+    }
+
+    /// The next message, `None` at the end of the stream; an error for a message that
+    /// is cut short, of another GRIB edition or otherwise badly framed.
+    pub(super) fn next_message(&mut self) -> Result<Option<Message>, WindFileError> {
+        let Some(start) = self.skip_to_magic()? else {
             return Ok(None);
+        };
+        self.count += 1;
+        let message = self.count;
+        let fail = |problem: String| message_error(message, problem);
+        let mut bytes = b"GRIB".to_vec();
+        let got = self.read_up_to(&mut bytes, 12)?;
+        if got < 12 {
+            return Err(fail(format!(
+                "is cut short: only {} bytes after \"GRIB\" (truncated file?)",
+                4 + got
+            )));
         }
-        // Keep three bytes of overlap so a magic across the chunk border is found.
-        base += (filled - 3) as u64;
-        r.seek(SeekFrom::Start(base))?;
+        if bytes[7] != 2 {
+            return Err(fail(format!(
+                "is GRIB edition {}: only GRIB edition 2 is read (convert the file to GRIB2)",
+                bytes[7]
+            )));
+        }
+        let len = u64::from_be_bytes([
+            bytes[8], bytes[9], bytes[10], bytes[11], bytes[12], bytes[13], bytes[14], bytes[15],
+        ]);
+        let want = len.saturating_sub(16);
+        let got = self.read_up_to(&mut bytes, want)?;
+        if got < want {
+            return Err(fail(format!(
+                "is cut short: it declares {len} bytes but the file ends {} bytes after its start (truncated download?)",
+                16 + got
+            )));
+        }
+        if len < 20 {
+            return Err(fail(format!(
+                "declares an impossible length of {len} bytes"
+            )));
+        }
+        if &bytes[bytes.len() - 4..] != b"7777" {
+            return Err(fail("does not end with \"7777\": damaged message".into()));
+        }
+        Ok(Some(Message {
+            number: message,
+            start,
+            bytes,
+        }))
+    }
+
+    /// Appends up to `n` bytes of the stream to `out`; returns how many there were.
+    fn read_up_to(&mut self, out: &mut Vec<u8>, n: u64) -> std::io::Result<u64> {
+        // Reserve what the message declares, but not more than 64 MiB on its word: a
+        // damaged length must not allocate before the bytes are there.
+        out.reserve(usize::try_from(n).unwrap_or(usize::MAX).min(1 << 26));
+        let got = (&mut self.r).take(n).read_to_end(out)? as u64;
+        self.offset += got;
+        Ok(got)
+    }
+
+    /// Consumes bytes up to and including the next "GRIB"; returns the offset of its
+    /// "G", or `None` at the end of the stream.
+    fn skip_to_magic(&mut self) -> std::io::Result<Option<u64>> {
+        const MAGIC: &[u8; 4] = b"GRIB";
+        let mut matched = 0usize;
+        loop {
+            let buf = self.r.fill_buf()?;
+            if buf.is_empty() {
+                return Ok(None);
+            }
+            let mut used = 0;
+            let mut found = false;
+            for &b in buf {
+                used += 1;
+                matched = if b == MAGIC[matched] {
+                    matched + 1
+                } else {
+                    usize::from(b == MAGIC[0])
+                };
+                if matched == MAGIC.len() {
+                    found = true;
+                    break;
+                }
+            }
+            self.r.consume(used);
+            self.offset += used as u64;
+            if found {
+                return Ok(Some(self.offset - 4));
+            }
+        }
     }
 }
 
-/// Number of grid values, and bilinear weights for each requested point.
-type GridWeights = (usize, Vec<Option<Weights>>);
+/// Why a grid definition section cannot be used.
+#[derive(Debug)]
+pub(super) enum GridError {
+    /// A grid template other than 3.0 (the number is given).
+    Unsupported(u16),
+    /// A regular latitude/longitude grid that is damaged or not regular.
+    Bad(String),
+}
 
-/// The positions of the values of a regular latitude/longitude grid (template 3.0), in
-/// data order, from the raw grid definition section.
+/// A regular latitude/longitude grid (template 3.0) as the file scans it.
 ///
 /// Read here rather than by the decoder crate because real files (and ecCodes) store
 /// western longitudes with the sign bit set, which a reader of the unsigned field
 /// misplaces by thousands of degrees. Flag table 3.4 gives the scan order: bit 1 (0x80)
 /// points scan westward, bit 2 (0x40) rows run south to north, bit 3 (0x20) columns are
-/// consecutive, bit 4 (0x10) every other row runs backward.
-/// Grid point positions (latitude, longitude in degrees) in data order, with the
-/// numbers of columns and rows.
-type GridPoints = (Vec<(f64, f64)>, usize, usize);
+/// consecutive, bit 4 (0x10) every other row runs backward. Rows and columns here count
+/// in scan order: row 0 is at `la1`, column 0 at `lo1`.
+#[derive(Debug, Clone, PartialEq)]
+pub(super) struct LatLonGrid {
+    /// Number of columns (points along a parallel).
+    pub(super) ni: usize,
+    /// Number of rows (points along a meridian).
+    pub(super) nj: usize,
+    la1_deg: f64,
+    lo1_deg: f64,
+    /// Step from one row to the next in scan order, degrees (negative north to south).
+    dlat_deg: f64,
+    /// Step from one column to the next in scan order, degrees (negative westward).
+    dlon_deg: f64,
+    columns_consecutive: bool,
+    alternate: bool,
+}
 
-fn regular_lat_lon_points(s3: &[u8]) -> Result<GridPoints, String> {
-    if s3.len() < 14 {
-        return Err("grid definition section is cut short".into());
-    }
-    let template = u16_at(s3, 12);
-    if template != 0 {
-        return Err(format!(
-            "10 m wind on a {} grid (template 3.{template}) is not supported yet: only regular latitude/longitude grids (template 3.0) are read, since u/v on other grids are relative to the grid and need rotating",
-            grid_template_name(template)
-        ));
-    }
-    if s3.len() < 72 {
-        return Err("grid definition template 3.0 is cut short".into());
-    }
-    let ni = u32_at(s3, 30) as usize;
-    let nj = u32_at(s3, 34) as usize;
-    let declared = u32_at(s3, 6) as usize;
-    if ni == 0
-        || nj == 0
-        || ni == 0xffff_ffff
-        || nj == 0xffff_ffff
-        || ni.checked_mul(nj) != Some(declared)
-    {
-        return Err(format!(
-            "grid of {ni} × {nj} points does not match its {declared} data points: quasi-regular grids are not supported"
-        ));
-    }
-    let (basic, subdivisions) = (u32_at(s3, 38), u32_at(s3, 42));
-    let unit_deg =
-        if basic == 0 || basic == 0xffff_ffff || subdivisions == 0 || subdivisions == 0xffff_ffff {
+impl LatLonGrid {
+    /// Reads the grid from a grid definition section (section 3).
+    pub(super) fn parse(s3: &[u8]) -> Result<Self, GridError> {
+        let bad = |p: &str| GridError::Bad(p.to_string());
+        if s3.len() < 14 {
+            return Err(bad("grid definition section is cut short"));
+        }
+        let template = u16_at(s3, 12);
+        if template != 0 {
+            return Err(GridError::Unsupported(template));
+        }
+        if s3.len() < 72 {
+            return Err(bad("grid definition template 3.0 is cut short"));
+        }
+        let ni = u32_at(s3, 30) as usize;
+        let nj = u32_at(s3, 34) as usize;
+        let declared = u32_at(s3, 6) as usize;
+        if ni == 0
+            || nj == 0
+            || ni == 0xffff_ffff
+            || nj == 0xffff_ffff
+            || ni.checked_mul(nj) != Some(declared)
+        {
+            return Err(GridError::Bad(format!(
+                "grid of {ni} × {nj} points does not match its {declared} data points: quasi-regular grids are not supported"
+            )));
+        }
+        let (basic, subdivisions) = (u32_at(s3, 38), u32_at(s3, 42));
+        let unit_deg = if basic == 0
+            || basic == 0xffff_ffff
+            || subdivisions == 0
+            || subdivisions == 0xffff_ffff
+        {
             1e-6
         } else {
             f64::from(basic) / f64::from(subdivisions)
         };
-    let angle = |at: usize| signed_i32(u32_at(s3, at)) as f64 * unit_deg;
-    let (la1, lo1, la2, lo2) = (angle(46), angle(50), angle(55), angle(59));
-    let scan = s3[71];
-    let (west, north_up, columns, alternate) = (
-        scan & 0x80 != 0,
-        scan & 0x40 != 0,
-        scan & 0x20 != 0,
-        scan & 0x10 != 0,
-    );
-    let dlat = if nj > 1 {
-        (la2 - la1) / (nj - 1) as f64
-    } else {
-        0.0
-    };
-    if nj > 1 && ((dlat > 0.0) != north_up) {
-        return Err(format!(
-            "first and last latitudes ({la1}, {la2}) disagree with the scanning mode {scan:#04x}"
-        ));
+        let angle = |at: usize| signed_i32(u32_at(s3, at)) as f64 * unit_deg;
+        let (la1, lo1, la2, lo2) = (angle(46), angle(50), angle(55), angle(59));
+        let scan = s3[71];
+        let (west, north_up) = (scan & 0x80 != 0, scan & 0x40 != 0);
+        let dlat = if nj > 1 {
+            (la2 - la1) / (nj - 1) as f64
+        } else {
+            0.0
+        };
+        if nj > 1 && ((dlat > 0.0) != north_up) {
+            return Err(GridError::Bad(format!(
+                "first and last latitudes ({la1}, {la2}) disagree with the scanning mode {scan:#04x}"
+            )));
+        }
+        let span = if west {
+            (lo1 - lo2).rem_euclid(360.0)
+        } else {
+            (lo2 - lo1).rem_euclid(360.0)
+        };
+        let dlon = if ni > 1 {
+            span / (ni - 1) as f64 * if west { -1.0 } else { 1.0 }
+        } else {
+            0.0
+        };
+        Ok(Self {
+            ni,
+            nj,
+            la1_deg: la1,
+            lo1_deg: lo1,
+            dlat_deg: dlat,
+            dlon_deg: dlon,
+            columns_consecutive: scan & 0x20 != 0,
+            alternate: scan & 0x10 != 0,
+        })
     }
-    let span = if west {
-        (lo1 - lo2).rem_euclid(360.0)
-    } else {
-        (lo2 - lo1).rem_euclid(360.0)
-    };
-    let dlon = if ni > 1 {
-        span / (ni - 1) as f64 * if west { -1.0 } else { 1.0 }
-    } else {
-        0.0
-    };
-    let mut out = Vec::with_capacity(declared);
-    for k in 0..declared {
-        let (mut row, mut col) = if columns {
+
+    /// Number of grid points.
+    pub(super) fn len(&self) -> usize {
+        self.ni * self.nj
+    }
+
+    /// Row and column (scan order) of the `k`-th value.
+    pub(super) fn row_col(&self, k: usize) -> (usize, usize) {
+        let (ni, nj) = (self.ni, self.nj);
+        let (mut row, mut col) = if self.columns_consecutive {
             (k % nj, k / nj)
         } else {
             (k / ni, k % ni)
         };
-        if alternate {
-            if columns && col % 2 == 1 {
+        if self.alternate {
+            if self.columns_consecutive && col % 2 == 1 {
                 row = nj - 1 - row;
-            } else if !columns && row % 2 == 1 {
+            } else if !self.columns_consecutive && row % 2 == 1 {
                 col = ni - 1 - col;
             }
         }
-        out.push((la1 + row as f64 * dlat, lo1 + col as f64 * dlon));
+        (row, col)
     }
-    Ok((out, ni, nj))
+
+    /// Position of the value at `row`, `col` (scan order) in the data.
+    pub(super) fn data_index(&self, row: usize, col: usize) -> usize {
+        let (ni, nj) = (self.ni, self.nj);
+        if self.columns_consecutive {
+            let row = if self.alternate && col % 2 == 1 {
+                nj - 1 - row
+            } else {
+                row
+            };
+            col * nj + row
+        } else {
+            let col = if self.alternate && row % 2 == 1 {
+                ni - 1 - col
+            } else {
+                col
+            };
+            row * ni + col
+        }
+    }
+
+    /// Positions of the values (latitude, longitude in degrees) in data order.
+    pub(super) fn positions(&self) -> Vec<(f64, f64)> {
+        (0..self.len())
+            .map(|k| {
+                let (row, col) = self.row_col(k);
+                (
+                    self.la1_deg + row as f64 * self.dlat_deg,
+                    self.lo1_deg + col as f64 * self.dlon_deg,
+                )
+            })
+            .collect()
+    }
+
+    /// Whether the columns go all the way round, so the last neighbours the first.
+    pub(super) fn is_global(&self) -> bool {
+        let step = self.dlon_deg.abs();
+        step > 0.0 && (step * self.ni as f64 - 360.0).abs() < step * 0.5
+    }
+
+    /// Fractional row and column (scan order) of `p`, measured in grid steps from the
+    /// first point. The column is taken modulo 360° and lies in
+    /// `-1.5 .. 360°/step - 1.5`, so a point just before the first column (across the
+    /// seam of a global grid) has a small negative column.
+    pub(super) fn fractional_row_col(&self, p: LatLon) -> (f64, f64) {
+        let row = if self.dlat_deg == 0.0 {
+            0.0
+        } else {
+            (p.lat_deg - self.la1_deg) / self.dlat_deg
+        };
+        let step = self.dlon_deg.abs();
+        if step == 0.0 {
+            return (row, 0.0);
+        }
+        let along = if self.dlon_deg > 0.0 {
+            p.lon_deg - self.lo1_deg
+        } else {
+            self.lo1_deg - p.lon_deg
+        };
+        let turn = 360.0 / step;
+        let mut col = along.rem_euclid(360.0) / step;
+        if col > turn - 1.5 {
+            col -= turn;
+        }
+        (row, col)
+    }
 }
 
 struct Field {
@@ -349,59 +604,75 @@ struct Gathered {
     latest_reference: Option<DateTime<Utc>>,
 }
 
+/// Number of grid values, and bilinear weights for each requested point.
+type GridWeights = (usize, Vec<Option<Weights>>);
+
 /// An error about message `message` (1-based) of the file.
-fn message_error(message: usize, problem: String) -> WindFileError {
+pub(super) fn message_error(message: usize, problem: String) -> WindFileError {
     WindFileError::GribMessage { message, problem }
 }
 
 /// A UTC time as it appears in error messages.
-fn utc_stamp(t: DateTime<Utc>) -> String {
+pub(super) fn utc_stamp(t: DateTime<Utc>) -> String {
     t.to_rfc3339_opts(chrono::SecondsFormat::Secs, true)
 }
 
-/// Reads the whole message that starts at `start`, checking its framing.
-fn read_message<R: Read + Seek>(
-    r: &mut R,
-    start: u64,
-    file_len: u64,
-    message: usize,
-) -> Result<Vec<u8>, WindFileError> {
-    let fail = |problem: String| message_error(message, problem);
-    r.seek(SeekFrom::Start(start))?;
-    let mut head = [0u8; 16];
-    let remaining = file_len - start;
-    if remaining < 16 {
-        return Err(fail(format!(
-            "is cut short: only {remaining} bytes after \"GRIB\" (truncated file?)"
-        )));
+/// Decodes the values of one field, in data order (NaN where its bit map says missing).
+///
+/// Sections 5, 6 and 7 of the field are handed to the `grib` crate's decoder directly,
+/// which decodes only this field; bit-map indicator 254 ("the bit map defined earlier
+/// in this message"), which that crate refuses, is resolved here by passing it the
+/// earlier bit map. The decoder may panic on damaged data: that is one bad message, not
+/// a reason to bring the whole program down, so it runs behind a guard.
+pub(super) fn decode_field(msg: &[u8], h: &FieldHeader) -> Result<Vec<f32>, String> {
+    let bytes = |s: Span| msg[s.0..s.0 + s.1].to_vec();
+    let (Some(s5), Some(s6), Some(s7)) = (h.data_representation, h.bitmap, h.data) else {
+        return Err("lacks its data representation, bit-map or data section".into());
+    };
+    let s6 = if msg[s6.0 + 5] == 254 {
+        h.earlier_bitmap.ok_or(
+            "refers to a bit map defined earlier in the message (bit-map indicator 254), but none comes before it",
+        )?
+    } else {
+        s6
+    };
+    let points = u32_at(msg, h.grid.0 + 6) as usize;
+    let (s5, s6, s7) = (bytes(s5), bytes(s6), bytes(s7));
+    check_counts(&s5, points)?;
+    std::panic::catch_unwind(move || {
+        let decoder =
+            grib::Grib2SubmessageDecoder::new(points, s5, s6, s7).map_err(|e| e.to_string())?;
+        let values: Vec<f32> = decoder.dispatch().map_err(|e| e.to_string())?.collect();
+        Ok(values)
+    })
+    .map_err(|_| "the GRIB2 decoder failed on this field (damaged data?)".to_string())?
+}
+
+/// Checks the counts in a data representation section (section 5) against the grid
+/// before decoding: a damaged count makes the decoder build billions of values (minutes
+/// of work and gigabytes of memory) before anything notices.
+fn check_counts(s5: &[u8], grid_points: usize) -> Result<(), String> {
+    if s5.len() < 11 {
+        return Err("data representation section is cut short".into());
     }
-    r.read_exact(&mut head)?;
-    if head[7] != 2 {
-        return Err(fail(format!(
-            "is GRIB edition {}: only GRIB edition 2 is read (convert the file to GRIB2)",
-            head[7]
-        )));
+    let encoded = u32_at(s5, 5) as usize;
+    if encoded > grid_points {
+        return Err(format!(
+            "{encoded} packed values for a grid of {grid_points} points (damaged data?)"
+        ));
     }
-    let len = u64::from_be_bytes([
-        head[8], head[9], head[10], head[11], head[12], head[13], head[14], head[15],
-    ]);
-    if len > remaining {
-        return Err(fail(format!(
-            "is cut short: it declares {len} bytes but the file ends {remaining} bytes after its start (truncated download?)"
-        )));
+    // Templates 5.2 and 5.3 (complex packing): the number of groups (octets 32-35) and
+    // the true length of the last group (octets 43-46) cannot exceed the packed values.
+    let template = u16_at(s5, 9);
+    if matches!(template, 2 | 3) && s5.len() >= 47 {
+        let (groups, last) = (u32_at(s5, 31) as usize, u32_at(s5, 42) as usize);
+        if groups > encoded.max(1) || last > encoded.max(1) {
+            return Err(format!(
+                "complex packing declares {groups} groups (the last of {last} values) for {encoded} packed values (damaged data?)"
+            ));
+        }
     }
-    if len < 20 {
-        return Err(fail(format!(
-            "declares an impossible length of {len} bytes"
-        )));
-    }
-    let mut msg = vec![0u8; len as usize];
-    r.seek(SeekFrom::Start(start))?;
-    r.read_exact(&mut msg)?;
-    if &msg[msg.len() - 4..] != b"7777" {
-        return Err(fail("does not end with \"7777\": damaged message".into()));
-    }
-    Ok(msg)
+    Ok(())
 }
 
 impl Gathered {
@@ -420,13 +691,7 @@ impl Gathered {
             return Ok(());
         }
         self.latest_reference = Some(self.latest_reference.map_or(ref_time, |t| t.max(ref_time)));
-        // The decoder crate may panic on damaged data; that is one bad message, not a
-        // reason to bring the whole program down.
-        let decoded = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
-            decode_message(msg, &headers, points, &mut self.grids)
-        }))
-        .map_err(|_| fail("the GRIB2 decoder failed on this message (damaged data?)".into()))?
-        .map_err(fail)?;
+        let decoded = decode_message(msg, &headers, points, &mut self.grids).map_err(fail)?;
         for (h, component, values) in decoded {
             let t = valid_time(ref_time, &h).map_err(fail)?;
             self.store(message, t, component, values)?;
@@ -550,29 +815,51 @@ pub fn sample_grib2_with<R: Read + Seek>(
 ) -> Result<Grib2Samples, WindFileError> {
     let file_len = r.seek(SeekFrom::End(0))?;
     if file_len == 0 {
-        return Err(WindFileError::Grib(
-            "the file is empty: expected GRIB2 messages".into(),
-        ));
+        return Err(empty_file_error());
     }
+    r.seek(SeekFrom::Start(0))?;
     let mut gathered = Gathered::default();
-    let mut pos = 0u64;
-    let mut message = 0usize;
-    while let Some(start) = find_magic(&mut r, pos)? {
+    let mut messages = Messages::new(r);
+    while let Some(m) = messages.next_message()? {
         if progress.is_cancelled() {
             return Err(WindFileError::Cancelled);
         }
-        progress.set(start as f32 / file_len as f32);
-        message += 1;
-        let msg = read_message(&mut r, start, file_len, message)?;
-        pos = start + msg.len() as u64;
-        gathered.add_message(message, &msg, points)?;
+        progress.set(m.start as f32 / file_len as f32);
+        gathered.add_message(m.number, &m.bytes, points)?;
     }
-    if message == 0 {
-        return Err(WindFileError::Grib(
-            "no GRIB message found: expected a GRIB2 file".into(),
-        ));
+    if messages.count == 0 {
+        return Err(no_message_error());
     }
     gathered.into_samples(points.len())
+}
+
+/// The error for a file of no bytes at all.
+pub(super) fn empty_file_error() -> WindFileError {
+    WindFileError::Grib("the file is empty: expected GRIB2 messages".into())
+}
+
+/// The error for a file without a single "GRIB".
+pub(super) fn no_message_error() -> WindFileError {
+    WindFileError::Grib("no GRIB message found: expected a GRIB2 file".into())
+}
+
+/// The grid in `s3` as a `RegularGrid` (for bilinear weights) and in scan order. Other
+/// grid templates are refused with "`what` on a … grid … is not supported yet", then
+/// `because`.
+pub(super) fn read_grid(
+    s3: &[u8],
+    what: &str,
+    because: &str,
+) -> Result<(LatLonGrid, RegularGrid), String> {
+    let scan = LatLonGrid::parse(s3).map_err(|e| match e {
+        GridError::Unsupported(template) => format!(
+            "{what} on a {} grid (template 3.{template}) is not supported yet: only regular latitude/longitude grids (template 3.0) are read{because}",
+            grid_template_name(template)
+        ),
+        GridError::Bad(problem) => problem,
+    })?;
+    let grid = RegularGrid::from_points(&scan.positions(), scan.ni, scan.nj)?;
+    Ok((scan, grid))
 }
 
 /// Decodes the wind fields of one message and samples them at the points. Returns, per
@@ -583,32 +870,30 @@ fn decode_message(
     points: &[LatLon],
     grids: &mut HashMap<Vec<u8>, GridWeights>,
 ) -> Result<Vec<(FieldHeader, Component, Vec<f32>)>, String> {
-    let grib2 = grib::from_bytes(msg).map_err(|e| format!("cannot be read: {e}"))?;
     let mut out = Vec::new();
-    for (k, (_, sub)) in grib2.iter().enumerate() {
-        let Some(h) = headers.get(k) else {
-            return Err("has more fields than product definition sections".into());
-        };
+    for h in headers {
         let Some(component) = h.wind_component() else {
             continue;
         };
         let section3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
         let key = section3.to_vec();
         if !grids.contains_key(&key) {
-            let (latlons, ni, nj) = regular_lat_lon_points(section3)?;
-            let grid = RegularGrid::from_points(&latlons, ni, nj)?;
+            let (scan, grid) = read_grid(
+                section3,
+                "10 m wind",
+                ", since u/v on other grids are relative to the grid and need rotating",
+            )?;
             grids.insert(
                 key.clone(),
-                (ni * nj, points.iter().map(|&p| grid.weights(p)).collect()),
+                (
+                    scan.len(),
+                    points.iter().map(|&p| grid.weights(p)).collect(),
+                ),
             );
         }
         let (count, weights) = &grids[&key];
-        let decoder = grib::Grib2SubmessageDecoder::from(sub)
-            .map_err(|e| format!("10 m wind field cannot be decoded: {e}"))?;
-        let values: Vec<f32> = decoder
-            .dispatch()
-            .map_err(|e| format!("10 m wind field cannot be decoded: {e}"))?
-            .collect();
+        let values =
+            decode_field(msg, h).map_err(|e| format!("10 m wind field cannot be decoded: {e}"))?;
         if values.len() != *count {
             return Err(format!(
                 "10 m wind field has {} values for {count} grid points",

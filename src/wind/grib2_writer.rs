@@ -60,6 +60,27 @@ fn micro_deg(x: f64) -> i64 {
 /// Encodes one field as a complete GRIB2 message. Non-finite values are written as 0.
 #[must_use]
 pub fn encode_wind_message(field: &GridField<'_>) -> Vec<u8> {
+    encode_message(field, Parameter::Wind10m)
+}
+
+/// What a message written by [`encode_message`] holds.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Parameter {
+    /// 10 m wind, the component in [`GridField::parameter`] (discipline 0, category 2,
+    /// on the height above ground of 10 m).
+    Wind10m,
+    /// Significant height of combined wind waves and swell, m (discipline 10, category
+    /// 0, number 3, on the water surface: fixed surface type 1).
+    WaveHeight,
+}
+
+/// Encodes one field as a GRIB2 message (regular lat/lon grid, simple packing).
+#[must_use]
+pub fn encode_message(field: &GridField<'_>, what: Parameter) -> Vec<u8> {
+    let (discipline, category, number) = match what {
+        Parameter::Wind10m => (0u8, 2u8, field.parameter),
+        Parameter::WaveHeight => (10, 0, 3),
+    };
     let r = &field.reference;
     let mut s1 = Vec::new();
     s1.extend_from_slice(&255u16.to_be_bytes()); // originating centre: missing (not a real centre)
@@ -101,12 +122,20 @@ pub fn encode_wind_message(field: &GridField<'_>) -> Vec<u8> {
     let mut s4 = Vec::new();
     s4.extend_from_slice(&0u16.to_be_bytes()); // no vertical coordinates
     s4.extend_from_slice(&0u16.to_be_bytes()); // template 4.0
-    s4.extend_from_slice(&[2, field.parameter, 2, 0, 255]); // category 2 (momentum), number, forecast
+    s4.extend_from_slice(&[category, number, 2, 0, 255]); // category, number, forecast
     s4.extend_from_slice(&0u16.to_be_bytes());
     s4.extend_from_slice(&[0, 1]); // cut-off minutes, unit: hour
     s4.extend_from_slice(&field.step_hours.to_be_bytes());
-    s4.extend_from_slice(&[103, 0]); // height above ground, scale 0
-    s4.extend_from_slice(&10u32.to_be_bytes()); // 10 m
+    match what {
+        Parameter::Wind10m => {
+            s4.extend_from_slice(&[103, 0]); // height above ground, scale 0
+            s4.extend_from_slice(&10u32.to_be_bytes()); // 10 m
+        }
+        Parameter::WaveHeight => {
+            s4.extend_from_slice(&[1, 255]); // ground or water surface, scale missing
+            s4.extend_from_slice(&u32::MAX.to_be_bytes()); // value missing
+        }
+    }
     s4.extend_from_slice(&[255, 0, 0, 0, 0, 0]); // no second surface
 
     let scale = 10f64.powi(i32::from(DECIMAL_SCALE));
@@ -160,7 +189,7 @@ pub fn encode_wind_message(field: &GridField<'_>) -> Vec<u8> {
     let total = 16 + body.len() + 4;
     let mut msg = Vec::with_capacity(total);
     msg.extend_from_slice(b"GRIB");
-    msg.extend_from_slice(&[0, 0, 0, 2]); // reserved, discipline 0, edition 2
+    msg.extend_from_slice(&[0, 0, discipline, 2]); // reserved, discipline, edition 2
     msg.extend_from_slice(&(total as u64).to_be_bytes());
     msg.extend_from_slice(&body);
     msg.extend_from_slice(b"7777");

@@ -13,22 +13,28 @@ mod demo;
 mod grib2;
 mod grib2_writer;
 mod grid;
+mod waves;
 
 pub use assign::{
     SegmentWind, WindSource, assign_wind, assign_wind_merged, length_weighted_at, load_sources,
 };
 pub use conditions::{
     Conditions, GroupWind, PointGroup, SourceIdentity, SourceKind, SourceSpan, check_source,
-    groups_fingerprint, sample_conditions, sample_merged,
+    groups_fingerprint, sample_conditions, sample_merged, sample_waves,
 };
 pub use csv::read_csv_series;
 pub use demo::{
     DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_PAST_HOURS,
-    DEMO_STEP_DEG, demo_forecast_grib2, demo_reference_time, demo_wind,
+    DEMO_STEP_DEG, demo_forecast_grib2, demo_reference_time, demo_wave_height_m, demo_waves_grib2,
+    demo_wind,
 };
 pub use grib2::{Grib2Samples, sample_grib2, sample_grib2_with};
-pub use grib2_writer::{GridField, encode_wind_message};
+pub use grib2_writer::{GridField, Parameter, encode_message, encode_wind_message};
 pub use grid::RegularGrid;
+pub use waves::{
+    Grib2Contents, NEAREST_CELLS, Wave, WaveSamples, grib2_contents, sample_waves_grib2,
+    sample_waves_grib2_sized,
+};
 
 use crate::coast::LatLon;
 use crate::physics::Wind;
@@ -85,8 +91,12 @@ pub fn wind_at_time(
 pub struct PointSeries {
     /// Station position, if the file gives one; without it the series applies everywhere.
     pub position: Option<LatLon>,
-    /// The wind over time.
+    /// The wind over time. In a wave-only file (wave columns, no wind columns) `times`
+    /// holds the rows' times and `wind` is empty (see [`PointSeries::has_wind`]).
     pub series: WindSeries,
+    /// The sea state at each of `series.times` when the file has wave columns (`None`
+    /// without them); an entry is `None` where the row's wave height cell is empty.
+    pub waves: Option<Vec<Option<Wave>>>,
 }
 
 /// What is wrong inside one wind file. The path is added once, by [`WindError::File`].

@@ -1,0 +1,617 @@
+//! Wave forecasts: significant wave height and period from GRIB2 wave fields, sampled at
+//! points over time, and the sea state of a CSV point series.
+//!
+//! # Fields read
+//! WMO FM 92 GRIB edition 2, Code Table 4.2, discipline 10 (oceanographic products),
+//! category 0 (waves); the numbers were checked against ecCodes' own tables (short names
+//! in brackets, `grib_ls -p shortName,name` on the fixtures in `tests/fixtures/grib2/`):
+//! - 3 significant height of combined wind waves and swell, m (`swh`);
+//! - 5 significant height of wind waves, m (`shww`);
+//! - 8 significant height of total swell, m (`shts`);
+//! - 11 primary wave mean period, s (`perpw`);
+//! - 6 mean period of wind waves, s (`mpww`).
+//!
+//! The height the planner uses is number 3 where it has a value; else the root-sum-square
+//! `sqrt(H_wind² + H_swell²)` of 5 and 8 where both have one (significant heights add as
+//! energies, since H_s = 4 sqrt(m0) and the variances m0 of independent wave systems
+//! add); else whichever of 5 and 8 has one. The period is number 11, else number 6.
+//! The choice is made per point and time.
+//!
+//! Fields may be in the same file as the 10 m wind or in a file of their own, on any
+//! grid and packing the wind reader takes (regular latitude/longitude, any scan order,
+//! longitudes 0–360 or ±180). Fields on an "ordered sequence" surface (type 241, the
+//! swell partitions some wave models write) other than the first are skipped. Other
+//! messages are skipped before decoding, so a message that cannot be decoded never fails
+//! the file unless it holds one of the fields above.
+//!
+//! # Land and the coast
+//! Wave models mask land with a bit map (section 6), so grid points next to the coast
+//! are often missing. Each requested point is sampled by bilinear interpolation (in
+//! longitude and latitude) where every grid corner that carries weight has a value (is
+//! sea); else it takes the value of the nearest grid point with a value within 1.5 grid
+//! cells (distance counted in grid steps, rows and columns alike: √(Δrow² + Δcol²) ≤
+//! 1.5; the mean of the values when several are equally near); else it has no wave. A
+//! point outside the grid has no wave. Each field (height, period) is sampled this way
+//! on its own.
+
+use super::grib2::{
+    FieldHeader, LatLonGrid, Messages, decode_field, empty_file_error, message_error,
+    no_message_error, read_grid, scan_message, utc_stamp, valid_time,
+};
+use super::grid::Weights;
+use super::{PointSeries, WindFileError};
+use crate::coast::LatLon;
+use crate::progress::Progress;
+use chrono::{DateTime, Utc};
+use std::collections::{BTreeMap, HashMap};
+use std::io::Read;
+
+/// The sea state at one place and time.
+///
+/// # Units
+/// Significant wave height in metres, wave period in seconds.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Wave {
+    /// Significant wave height, m (≥ 0): combined wind waves and swell (see the module
+    /// documentation for how it is taken from a file's fields).
+    pub height_m: f64,
+    /// Wave period, s (> 0): from GRIB2 the primary wave mean period, else the mean
+    /// period of the wind waves; from CSV the file's period column as given (often a
+    /// peak or dominant period); `None` when the source gives none.
+    pub period_s: Option<f64>,
+}
+
+/// Waves sampled at points over time.
+#[derive(Debug, Clone, PartialEq)]
+pub struct WaveSamples {
+    /// Valid times, UTC, increasing: the times at which the file holds a wave height.
+    pub times: Vec<DateTime<Utc>>,
+    /// For each requested point (in the order given), the wave at every time, or `None`
+    /// when the point has no wave at some time (outside the grid, or land or missing
+    /// around it: see the module documentation).
+    pub points: Vec<Option<Vec<Wave>>>,
+}
+
+/// What kinds of fields a GRIB2 file holds (scanned from its headers, no data decoded).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct Grib2Contents {
+    /// The file holds 10 m u and 10 m v (discipline 0, category 2, numbers 2 and 3, first
+    /// fixed surface 103 at 10 m): what the wind reader needs.
+    pub wind: bool,
+    /// The file holds a significant wave height (discipline 10, category 0, number 3, 5
+    /// or 8): what [`sample_waves_grib2`] needs.
+    pub waves: bool,
+}
+
+/// The wave fields this reader takes, by their WMO Code Table 4.2 number in discipline
+/// 10, category 0.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum WaveKind {
+    /// 3: significant height of combined wind waves and swell, m.
+    Combined,
+    /// 5: significant height of wind waves, m.
+    WindSea,
+    /// 8: significant height of total swell, m.
+    Swell,
+    /// 11: primary wave mean period, s.
+    PrimaryPeriod,
+    /// 6: mean period of wind waves, s.
+    WindSeaPeriod,
+}
+
+/// How many kinds there are (the length of per-time slots).
+const KINDS: usize = 5;
+
+impl WaveKind {
+    /// The kind of a field, or `None` for a field this reader does not take.
+    fn of(h: &FieldHeader) -> Option<Self> {
+        if h.discipline != 10 || h.category != 0 || h.template > 15 {
+            return None;
+        }
+        // Surface 241 "ordered sequence of data": swell partitions; the first stands for
+        // the swell, the others would repeat the same valid time.
+        if h.surface_type == 241 && (h.surface_m - 1.0).abs() > 1e-6 {
+            return None;
+        }
+        match h.number {
+            3 => Some(Self::Combined),
+            5 => Some(Self::WindSea),
+            8 => Some(Self::Swell),
+            11 => Some(Self::PrimaryPeriod),
+            6 => Some(Self::WindSeaPeriod),
+            _ => None,
+        }
+    }
+
+    fn is_height(self) -> bool {
+        matches!(self, Self::Combined | Self::WindSea | Self::Swell)
+    }
+
+    /// The field as error messages name it.
+    fn name(self) -> &'static str {
+        match self {
+            Self::Combined => "significant height of combined wind waves and swell (10/0/3)",
+            Self::WindSea => "significant height of wind waves (10/0/5)",
+            Self::Swell => "significant height of swell (10/0/8)",
+            Self::PrimaryPeriod => "primary wave mean period (10/0/11)",
+            Self::WindSeaPeriod => "mean period of wind waves (10/0/6)",
+        }
+    }
+}
+
+/// How one requested point is sampled on one grid.
+#[derive(Debug, Clone, PartialEq)]
+struct PointRule {
+    /// Bilinear weights, `None` outside the grid.
+    bilinear: Option<Weights>,
+    /// Distances (grid steps) and data positions of the grid points within
+    /// [`NEAREST_CELLS`] of the point, nearest first: where the value is taken from when
+    /// a bilinear corner is missing.
+    nearby: Vec<(f64, usize)>,
+}
+
+/// Grid points whose distances differ by less than this (grid steps) are equally near.
+const TIE_CELLS: f64 = 1e-6;
+
+/// How far (in grid steps) a point looks for the nearest sea value when a bilinear
+/// corner is land.
+pub const NEAREST_CELLS: f64 = 1.5;
+
+/// The grid points within [`NEAREST_CELLS`] of `p`, as distances in grid steps and data
+/// positions, nearest first.
+fn nearby_points(scan: &LatLonGrid, p: LatLon) -> Vec<(f64, usize)> {
+    let (row, col) = scan.fractional_row_col(p);
+    // Grid sizes come from 32-bit fields, so they fit.
+    let nj = i64::try_from(scan.nj).unwrap_or(i64::MAX);
+    let ni = i64::try_from(scan.ni).unwrap_or(i64::MAX);
+    let mut found: Vec<(f64, usize)> = Vec::new();
+    let span = |x: f64| (x - NEAREST_CELLS).ceil() as i64..=(x + NEAREST_CELLS).floor() as i64;
+    for j in span(row).filter(|j| (0..nj).contains(j)) {
+        for i in span(col) {
+            let distance = (row - j as f64).hypot(col - i as f64);
+            let column = if scan.is_global() {
+                i.rem_euclid(ni)
+            } else if (0..ni).contains(&i) {
+                i
+            } else {
+                continue;
+            };
+            if distance <= NEAREST_CELLS + 1e-9 {
+                found.push((distance, scan.data_index(j as usize, column as usize)));
+            }
+        }
+    }
+    found.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
+    // A global grid narrower than four columns could list a point twice.
+    let mut seen = std::collections::HashSet::new();
+    found.retain(|f| seen.insert(f.1));
+    found
+}
+
+impl PointRule {
+    /// The value at the point from grid values in data order (NaN = missing): bilinear
+    /// where every weighted corner has a value, else the nearest value nearby (the mean
+    /// of those equally near, so that the answer does not depend on the scan order);
+    /// NaN when there is none.
+    fn sample(&self, values: &[f32]) -> f32 {
+        let Some(weights) = &self.bilinear else {
+            return f32::NAN;
+        };
+        let value = |k: usize| values.get(k).copied().unwrap_or(f32::NAN);
+        if weights
+            .iter()
+            .all(|&(k, w)| w == 0.0 || value(k).is_finite())
+        {
+            return weights
+                .iter()
+                .filter(|&&(_, w)| w != 0.0)
+                .map(|&(k, w)| f64::from(value(k)) * w)
+                .sum::<f64>() as f32;
+        }
+        let mut valued = self
+            .nearby
+            .iter()
+            .map(|&(d, k)| (d, value(k)))
+            .filter(|(_, v)| v.is_finite());
+        let Some((nearest, first)) = valued.next() else {
+            return f32::NAN;
+        };
+        let (mut sum, mut count) = (f64::from(first), 1.0);
+        for (_, v) in valued.take_while(|(d, _)| *d - nearest < TIE_CELLS) {
+            sum += f64::from(v);
+            count += 1.0;
+        }
+        (sum / count) as f32
+    }
+}
+
+/// Number of grid values, and how each requested point is sampled.
+type GridRules = (usize, Vec<PointRule>);
+
+/// One wave field sampled at the requested points.
+struct Sampled {
+    message: usize,
+    /// One value per point, NaN where the point has none.
+    values: Vec<f32>,
+}
+
+/// The wave fields found so far while walking a file.
+#[derive(Default)]
+struct Gathered {
+    /// Per valid time, one slot per [`WaveKind`].
+    fields: BTreeMap<DateTime<Utc>, [Option<Sampled>; KINDS]>,
+    /// Sampling rules per distinct grid definition, so a grid is set up once.
+    grids: HashMap<Vec<u8>, GridRules>,
+}
+
+impl Gathered {
+    /// Takes the wave fields of one message, sampled at `points`.
+    fn add_message(
+        &mut self,
+        message: usize,
+        msg: &[u8],
+        points: &[LatLon],
+    ) -> Result<(), WindFileError> {
+        let fail = |problem: String| message_error(message, problem);
+        let (ref_time, headers) = scan_message(msg).map_err(fail)?;
+        for h in &headers {
+            let Some(kind) = WaveKind::of(h) else {
+                continue;
+            };
+            let values = self.sample_field(msg, h, kind, points).map_err(fail)?;
+            let t = valid_time(ref_time, h).map_err(fail)?;
+            let slot = &mut self.fields.entry(t).or_default()[kind as usize];
+            if let Some(first) = slot {
+                return Err(fail(format!(
+                    "a second {} valid at {} (the first is in message {}): ensemble members or repeated steps are not supported yet",
+                    kind.name(),
+                    utc_stamp(t),
+                    first.message
+                )));
+            }
+            *slot = Some(Sampled { message, values });
+        }
+        Ok(())
+    }
+
+    /// Decodes one wave field and samples it at the points.
+    fn sample_field(
+        &mut self,
+        msg: &[u8],
+        h: &FieldHeader,
+        kind: WaveKind,
+        points: &[LatLon],
+    ) -> Result<Vec<f32>, String> {
+        let section3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
+        if !self.grids.contains_key(section3) {
+            let (scan, grid) = read_grid(section3, kind.name(), "")?;
+            let rules = points
+                .iter()
+                .map(|&p| {
+                    let bilinear = grid.weights(p);
+                    PointRule {
+                        bilinear,
+                        nearby: if bilinear.is_some() {
+                            nearby_points(&scan, p)
+                        } else {
+                            Vec::new()
+                        },
+                    }
+                })
+                .collect();
+            self.grids.insert(section3.to_vec(), (scan.len(), rules));
+        }
+        let (count, rules) = &self.grids[section3];
+        let values =
+            decode_field(msg, h).map_err(|e| format!("{} cannot be decoded: {e}", kind.name()))?;
+        if values.len() != *count {
+            return Err(format!(
+                "{} has {} values for {count} grid points",
+                kind.name(),
+                values.len()
+            ));
+        }
+        Ok(rules.iter().map(|r| r.sample(&values)).collect())
+    }
+
+    /// The waves at every time with a height, per point; `None` without any height.
+    fn into_samples(self, point_count: usize) -> Option<WaveSamples> {
+        let mut times = Vec::with_capacity(self.fields.len());
+        let mut per_point: Vec<Option<Vec<Wave>>> =
+            vec![Some(Vec::with_capacity(self.fields.len())); point_count];
+        for (t, slots) in self.fields {
+            let has_height = slots
+                .iter()
+                .zip(ALL_KINDS)
+                .any(|(s, kind)| s.is_some() && kind.is_height());
+            if !has_height {
+                continue;
+            }
+            times.push(t);
+            for (k, slot) in per_point.iter_mut().enumerate() {
+                let wave = slot.as_ref().and_then(|_| combine(&slots, k));
+                match (slot.as_mut(), wave) {
+                    (Some(series), Some(wave)) => series.push(wave),
+                    _ => *slot = None,
+                }
+            }
+        }
+        (!times.is_empty()).then_some(WaveSamples {
+            times,
+            points: per_point,
+        })
+    }
+}
+
+/// Every kind, in slot order.
+const ALL_KINDS: [WaveKind; KINDS] = [
+    WaveKind::Combined,
+    WaveKind::WindSea,
+    WaveKind::Swell,
+    WaveKind::PrimaryPeriod,
+    WaveKind::WindSeaPeriod,
+];
+
+/// The wave at point `k` from the fields of one time (see the module documentation for
+/// the order in which fields are used).
+fn combine(slots: &[Option<Sampled>; KINDS], k: usize) -> Option<Wave> {
+    let value = |kind: WaveKind| {
+        slots[kind as usize]
+            .as_ref()
+            .and_then(|s| s.values.get(k))
+            .map(|&v| f64::from(v))
+            .filter(|v| v.is_finite())
+    };
+    let height_m = value(WaveKind::Combined).or_else(|| {
+        match (value(WaveKind::WindSea), value(WaveKind::Swell)) {
+            (Some(wind_sea_m), Some(swell_m)) => Some(wind_sea_m.hypot(swell_m)),
+            (one, other) => one.or(other),
+        }
+    })?;
+    let period_s = value(WaveKind::PrimaryPeriod)
+        .or_else(|| value(WaveKind::WindSeaPeriod))
+        .filter(|t| *t > 0.0);
+    Some(Wave {
+        // Packing and interpolation can leave a calm sea a hair below zero.
+        height_m: height_m.max(0.0),
+        period_s,
+    })
+}
+
+/// What kinds of fields a GRIB2 file holds, from its section headers alone (no data is
+/// decoded; every message is still read, to find the next one).
+///
+/// Errors: an empty file, a file without a GRIB message, or a message that is cut short,
+/// of GRIB edition 1 or otherwise badly framed (the error names the message).
+pub fn grib2_contents(reader: impl Read) -> Result<Grib2Contents, WindFileError> {
+    let mut messages = Messages::new(reader);
+    let (mut u, mut v) = (false, false);
+    let mut contents = Grib2Contents::default();
+    let mut any = false;
+    while let Some(m) = messages.next_message()? {
+        any = true;
+        let (_, headers) = scan_message(&m.bytes).map_err(|p| message_error(m.number, p))?;
+        for h in &headers {
+            match h.is_wind_u() {
+                Some(true) => u = true,
+                Some(false) => v = true,
+                None => {}
+            }
+            contents.waves |= WaveKind::of(h).is_some_and(WaveKind::is_height);
+        }
+    }
+    if !any {
+        return Err(if messages.bytes_read() == 0 {
+            empty_file_error()
+        } else {
+            no_message_error()
+        });
+    }
+    contents.wind = u && v;
+    Ok(contents)
+}
+
+/// Waves of a GRIB2 file at points; Ok(None) when the file holds no wave field.
+///
+/// `points` are latitude/longitude in degrees (longitudes in either convention). The
+/// result has one entry per point, in the same order; see the module documentation for
+/// the fields used and how points near land are sampled. A stream has no known length,
+/// so `progress` only reaches 1 at the end (and is checked for cancelling before each
+/// message); [`sample_waves_grib2_sized`] reports the share read.
+///
+/// Errors: as [`grib2_contents`], plus a wave field that cannot be decoded, is not on a
+/// regular latitude/longitude grid, or repeats a valid time (ensemble members); each
+/// names the message. [`WindFileError::Cancelled`] when `progress` is cancelled.
+pub fn sample_waves_grib2(
+    reader: impl Read,
+    points: &[LatLon],
+    progress: &Progress,
+) -> Result<Option<WaveSamples>, WindFileError> {
+    sample_stream(reader, None, points, progress)
+}
+
+/// Like [`sample_waves_grib2`] for a stream of `file_len_bytes` bytes (a file's
+/// length), reporting the share of it read to `progress`.
+pub fn sample_waves_grib2_sized(
+    reader: impl Read,
+    file_len_bytes: u64,
+    points: &[LatLon],
+    progress: &Progress,
+) -> Result<Option<WaveSamples>, WindFileError> {
+    sample_stream(reader, Some(file_len_bytes), points, progress)
+}
+
+fn sample_stream(
+    reader: impl Read,
+    file_len_bytes: Option<u64>,
+    points: &[LatLon],
+    progress: &Progress,
+) -> Result<Option<WaveSamples>, WindFileError> {
+    let mut messages = Messages::new(reader);
+    let mut gathered = Gathered::default();
+    let mut any = false;
+    while let Some(m) = messages.next_message()? {
+        if progress.is_cancelled() {
+            return Err(WindFileError::Cancelled);
+        }
+        if let Some(len) = file_len_bytes.filter(|&l| l > 0) {
+            progress.set(m.start as f32 / len as f32);
+        }
+        any = true;
+        gathered.add_message(m.number, &m.bytes, points)?;
+    }
+    if !any {
+        return Err(if messages.bytes_read() == 0 {
+            empty_file_error()
+        } else {
+            no_message_error()
+        });
+    }
+    progress.set(1.0);
+    Ok(gathered.into_samples(points.len()))
+}
+
+impl PointSeries {
+    /// Whether the series carries wind (a wave-only CSV file gives one without: its
+    /// `series.wind` is empty while `series.times` holds the times of the waves).
+    #[must_use]
+    pub fn has_wind(&self) -> bool {
+        !self.series.wind.is_empty()
+    }
+
+    /// The sea state at time `t` when the series has waves: exact at a step, else
+    /// linear in time between the two nearest steps that both have a wave (height
+    /// interpolated; period interpolated where both have one, else none); `None`
+    /// outside the series, at a step without a wave, or across a gap longer than
+    /// `max_gap_h` hours.
+    #[must_use]
+    pub fn wave_at(&self, t: DateTime<Utc>, max_gap_h: f64) -> Option<Wave> {
+        let waves = self.waves.as_ref()?;
+        let times = &self.series.times;
+        let k = times.partition_point(|x| *x < t);
+        if k < times.len() && times[k] == t {
+            return waves.get(k).copied().flatten();
+        }
+        if k == 0 || k >= times.len() {
+            return None;
+        }
+        let (a, b) = (times[k - 1], times[k]);
+        let span_s = (b - a).num_seconds() as f64;
+        if span_s > max_gap_h * 3600.0 {
+            return None;
+        }
+        let (wa, wb) = (waves.get(k - 1).copied()??, waves.get(k).copied()??);
+        let frac = (t - a).num_seconds() as f64 / span_s;
+        let lerp = |x: f64, y: f64| x + (y - x) * frac;
+        Some(Wave {
+            height_m: lerp(wa.height_m, wb.height_m),
+            period_s: wa.period_s.zip(wb.period_s).map(|(x, y)| lerp(x, y)),
+        })
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A grid definition section, template 3.0, for the scan-order tests.
+    fn section3(ni: u32, nj: u32, la1: i32, lo1: i32, la2: i32, lo2: i32, scan: u8) -> Vec<u8> {
+        let mut s = vec![0u8; 72];
+        s[0..4].copy_from_slice(&72u32.to_be_bytes());
+        s[4] = 3;
+        s[6..10].copy_from_slice(&(ni * nj).to_be_bytes());
+        s[30..34].copy_from_slice(&ni.to_be_bytes());
+        s[34..38].copy_from_slice(&nj.to_be_bytes());
+        let signed = |x: i32| {
+            let m = x.unsigned_abs();
+            if x < 0 { m | 0x8000_0000 } else { m }
+        };
+        s[46..50].copy_from_slice(&signed(la1).to_be_bytes());
+        s[50..54].copy_from_slice(&signed(lo1).to_be_bytes());
+        s[55..59].copy_from_slice(&signed(la2).to_be_bytes());
+        s[59..63].copy_from_slice(&signed(lo2).to_be_bytes());
+        s[71] = scan;
+        s
+    }
+
+    fn grid(s3: &[u8]) -> LatLonGrid {
+        LatLonGrid::parse(s3).expect("a valid grid")
+    }
+
+    /// `data_index` inverts the scan order for every scanning mode.
+    #[test]
+    fn data_index_inverts_every_scan_order() {
+        for scan in [0x00, 0x40, 0x80, 0xc0, 0x20, 0x60, 0x10, 0x50, 0x30] {
+            let (la1, la2) = if scan & 0x40 == 0 {
+                (40_000_000, 38_000_000)
+            } else {
+                (38_000_000, 40_000_000)
+            };
+            let g = grid(&section3(4, 3, la1, 0, la2, 3_000_000, scan));
+            for k in 0..g.len() {
+                let (row, col) = g.row_col(k);
+                assert_eq!(g.data_index(row, col), k, "scan {scan:#04x}");
+            }
+        }
+    }
+
+    /// Nearest first, within 1.5 steps, across the seam of a global grid.
+    #[test]
+    fn nearby_points_wrap_on_a_global_grid() {
+        // 8 columns of 45°: global; 3 rows 10°N, 0°, 10°S (north to south).
+        let g = grid(&section3(8, 3, 10_000_000, 0, -10_000_000, 315_000_000, 0));
+        assert!(g.is_global());
+        let near = nearby_points(&g, LatLon::new(0.0, -10.0));
+        // Nearest: the 0° column on the equator (row 1, col 0), then 315° (col 7).
+        let near: Vec<usize> = near.iter().map(|n| n.1).collect();
+        assert_eq!(near[0], g.data_index(1, 0));
+        assert_eq!(near[1], g.data_index(1, 7));
+        assert!(near.contains(&g.data_index(0, 7)));
+        assert!(!near.contains(&g.data_index(1, 6)));
+    }
+
+    #[test]
+    fn sampling_falls_back_to_the_nearest_sea_value() {
+        // 2 × 2 cell, one corner missing: the nearest valued corner wins.
+        let rule = PointRule {
+            bilinear: Some([(0, 0.25), (1, 0.25), (2, 0.25), (3, 0.25)]),
+            nearby: vec![(0.3, 3), (0.6, 1), (0.6, 2), (0.9, 0)],
+        };
+        assert!((rule.sample(&[1.0, 2.0, 3.0, 4.0]) - 2.5).abs() < 1e-6);
+        // The nearest valued points (1 and 2) are equally near: their mean.
+        assert!((rule.sample(&[1.0, 2.0, 3.0, f32::NAN]) - 2.5).abs() < 1e-6);
+        assert!((rule.sample(&[1.0, f32::NAN, 3.0, f32::NAN]) - 3.0).abs() < 1e-6);
+        assert!(rule.sample(&[f32::NAN; 4]).is_nan());
+        // A missing corner with zero weight does not stop the interpolation.
+        let edge = PointRule {
+            bilinear: Some([(0, 0.5), (1, 0.5), (2, 0.0), (3, 0.0)]),
+            nearby: vec![(0.0, 0), (1.0, 1)],
+        };
+        assert!((edge.sample(&[1.0, 3.0, f32::NAN, f32::NAN]) - 2.0).abs() < 1e-6);
+    }
+
+    /// Wind sea 3 m and swell 4 m make 5 m: significant heights add as energies.
+    #[test]
+    fn heights_combine_as_root_sum_square() {
+        let field = |v: f32| {
+            Some(Sampled {
+                message: 1,
+                values: vec![v],
+            })
+        };
+        let mut slots: [Option<Sampled>; KINDS] = Default::default();
+        slots[WaveKind::WindSea as usize] = field(3.0);
+        slots[WaveKind::Swell as usize] = field(4.0);
+        slots[WaveKind::WindSeaPeriod as usize] = field(6.0);
+        let w = combine(&slots, 0).expect("a wave");
+        assert!((w.height_m - 5.0).abs() < 1e-9);
+        assert_eq!(w.period_s, Some(6.0));
+        slots[WaveKind::Combined as usize] = field(2.0);
+        slots[WaveKind::PrimaryPeriod as usize] = field(9.0);
+        let w = combine(&slots, 0).expect("a wave");
+        assert_eq!((w.height_m, w.period_s), (2.0, Some(9.0)));
+        slots[WaveKind::Combined as usize] = field(f32::NAN);
+        slots[WaveKind::Swell as usize] = field(f32::NAN);
+        assert_eq!(combine(&slots, 0).map(|w| w.height_m), Some(3.0));
+    }
+}
