@@ -7,6 +7,7 @@ mod geodesy;
 mod geojson;
 mod land;
 mod resolve;
+mod route;
 mod segment;
 
 pub use drawn::{Closure, CoastSegment};
@@ -17,4 +18,5 @@ pub use geodesy::{
 pub use geojson::{CoastError, read_coast_geojson, write_coast_geojson};
 pub use land::{Land, LandError, SideFinding, find_sea_side};
 pub use resolve::{SeaSideError, resolve_segments};
+pub use route::{RouteSettings, SeaRoute, sea_routes};
 pub use segment::{Piece, SeaSide, Segment};
