@@ -258,7 +258,8 @@ fn a_bag_limit_closure_is_a_closure() {
     );
 }
 
-/// Issue 19, defect 5. A stretch at 3°N is excluded as too close to the equator (and
+/// Issue 19, defect 5 (in the open Atlantic at 25°W, so the ways by sea are open
+/// water). A stretch at 3°N is excluded as too close to the equator (and
 /// the plan is made: a file covers it); one at 4.9°N likewise; one at 7°N is ranked
 /// with a caution.
 #[test]
@@ -269,8 +270,8 @@ fn near_the_equator_the_plan_says_so() {
     csv_wind(&wind, None, start, 48, |_| (8.0, 0.0));
     let only = scenario(
         "UTC",
-        vec![segment("three", 3.0, 9.5)],
-        LatLon::new(3.05, 9.52),
+        vec![segment("three", 3.0, -25.0)],
+        LatLon::new(3.05, -25.02),
         vec![wind.clone()],
     );
     let p = plan(&only, "2027-05-01", 1);
@@ -285,8 +286,11 @@ fn near_the_equator_the_plan_says_so() {
     );
     let mixed = scenario(
         "UTC",
-        vec![segment("four-nine", 4.85, 9.5), segment("seven", 7.0, 9.5)],
-        LatLon::new(7.05, 9.52),
+        vec![
+            segment("four-nine", 4.85, -25.0),
+            segment("seven", 7.0, -25.0),
+        ],
+        LatLon::new(7.05, -25.02),
         vec![wind],
     );
     let p = plan(&mixed, "2027-05-01", 1);

@@ -298,7 +298,8 @@ fn gpx_is_valid_gpx_1_1_and_reads_back() {
     // One route per day with a ranked stretch: Tuesday's swell keeps the small boat in.
     assert_eq!(gpx.routes.len(), 2, "Monday and Wednesday");
     let first = &gpx.routes[0];
-    assert_eq!(first.points.len(), 2);
+    // The port, the way's turning points, the stretch.
+    assert!(first.points.len() >= 2);
     assert_eq!(first.points[0].name.as_deref(), Some("Tern Harbour"));
     let p = first.points[0].point();
     assert!((p.y() - 38.44).abs() < 1e-6 && (p.x() + 123.14).abs() < 1e-6);
@@ -423,4 +424,53 @@ fn a_swell_keeps_the_small_boat_in_on_a_calm_day() {
     );
     let json = render_plan(&with_waves, PlanFormat::Json);
     assert!(json.contains("\"reason_kind\": \"over_wave_limit\""));
+}
+
+/// The ways by sea (issue: the 14 m boat was sent along a straight line over land):
+/// every stretch's distance is at least the great-circle distance; some ways turn round
+/// the coast, longer than the straight line; no sampled point of a way's legs (but its
+/// harbour legs) is on land; the GPX route follows the turning points.
+#[test]
+fn trips_follow_the_way_by_sea() {
+    use shelfwind::coast::distance_m;
+    let plan = demo_plan("steady-hand", "harrow-cove", Some(day("2027-05-10")), 1);
+    let land = Land::bundled();
+    let mut turning = 0;
+    for s in &plan.stretches {
+        let Some(route) = &s.route else { continue };
+        let straight_nm = distance_m(plan.port.position, s.centre) / 1852.0;
+        assert!(
+            s.distance_nm >= straight_nm * 0.97,
+            "{}: {} < {straight_nm}",
+            s.name,
+            s.distance_nm
+        );
+        if route.points.len() > 2 && s.distance_nm > straight_nm * 1.01 {
+            turning += 1;
+        }
+        let clear = route.clear_points();
+        for leg in clear.windows(2) {
+            let n = (distance_m(leg[0], leg[1]) / 100.0).ceil() as usize;
+            for k in 0..=n {
+                let f = k as f64 / n.max(1) as f64;
+                let p = shelfwind::coast::LatLon::new(
+                    leg[0].lat_deg + f * (leg[1].lat_deg - leg[0].lat_deg),
+                    leg[0].lon_deg + f * (leg[1].lon_deg - leg[0].lon_deg),
+                );
+                assert!(!land.is_land(p), "{}: leg over land at {p:?}", s.name);
+            }
+        }
+    }
+    assert!(turning > 0, "some ways turn round the coast");
+    let gpx = render_plan(&plan, PlanFormat::Gpx);
+    let best = &plan.stretches[plan.days[0].ranked[0].stretch];
+    let turns = best
+        .route
+        .as_ref()
+        .map_or(0, |r| r.points.len().saturating_sub(2));
+    assert_eq!(
+        gpx.matches("<rtept").count(),
+        2 + turns,
+        "port, turning points, stretch"
+    );
 }

@@ -342,6 +342,16 @@ impl CoastLayer<'_> {
                 painter.add(Shape::line(line.clone(), Stroke::new(21.0, SELECTED_RIM)));
                 painter.add(Shape::line(line.clone(), Stroke::new(17.0, SELECTED_FILL)));
                 names.push((k, project(&s.centre), s.offshore_bearing_deg));
+                // The way there by sea from the home port.
+                if let Some(route) = &s.route {
+                    let way: Vec<Pos2> = route.points.iter().map(project).collect();
+                    painter.extend(Shape::dashed_line(
+                        &way,
+                        Stroke::new(2.5, Color32::from_rgb(20, 60, 160)),
+                        8.0,
+                        5.0,
+                    ));
+                }
             }
             let colour = stretch_colour(s, self.colouring, date, statuses[k], self.time)
                 .unwrap_or(Color32::from_gray(160));

@@ -433,24 +433,31 @@ fn gpx_waypoints(o: &mut String, plan: &Plan, chosen: &[usize]) {
     }
 }
 
-/// A route from the home port to a stretch's centre.
+/// A route from the home port to a stretch: the way by sea's turning points (the
+/// great-circle line where there is none).
 fn gpx_route(o: &mut String, plan: &Plan, name: &str, desc: &str, k: usize) {
     let s = &plan.stretches[k];
     let _ = writeln!(o, "  <rte>");
     let _ = writeln!(o, "    <name>{}</name>", xml(name));
     let _ = writeln!(o, "    <desc>{}</desc>", xml(desc));
-    for (lat, lon, name) in [
-        (
-            plan.port.position.lat_deg,
-            plan.port.position.lon_deg,
-            plan.port.name.as_str(),
-        ),
-        (s.centre.lat_deg, s.centre.lon_deg, s.name.as_str()),
-    ] {
+    let inner = s.route.as_ref().map_or(&[][..], |r| {
+        let p = &r.points;
+        if p.len() > 2 { &p[1..p.len() - 1] } else { &[] }
+    });
+    let turns = inner
+        .iter()
+        .enumerate()
+        .map(|(i, p)| (*p, format!("turn {}", i + 1)));
+    let stops = std::iter::once((plan.port.position, plan.port.name.clone()))
+        .chain(turns)
+        .chain(std::iter::once((s.centre, s.name.clone())));
+    for (p, name) in stops {
         let _ = writeln!(
             o,
-            "    <rtept lat=\"{lat:.6}\" lon=\"{lon:.6}\"><name>{}</name></rtept>",
-            xml(name)
+            "    <rtept lat=\"{:.6}\" lon=\"{:.6}\"><name>{}</name></rtept>",
+            p.lat_deg,
+            p.lon_deg,
+            xml(&name)
         );
     }
     let _ = writeln!(o, "  </rte>");

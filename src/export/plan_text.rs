@@ -273,8 +273,8 @@ pub fn excluded_text(plan: &Plan, e: &Excluded, units: Units) -> String {
 #[must_use]
 pub fn note_text(n: &PlanNote, port_name: &str) -> String {
     match n {
-        PlanNote::GreatCircleDistances => format!(
-            "Distances are great-circle from {port_name} to each stretch's centre; where that line crosses land the way by sea is longer (marked)."
+        PlanNote::SeaRoutes { clearance_nm } => format!(
+            "Distances are by sea from {port_name}, keeping {clearance_nm} nm from the land outline (a coarse outline, not a chart: check your chart); a stretch with no way by sea is left out."
         ),
         PlanNote::WaveSources {
             forecast,

@@ -6,7 +6,10 @@
 
 use super::WaveSource;
 use super::seastate::FetchCache;
-use crate::coast::{Land, LatLon, Segment, destination, distance_m, initial_bearing_deg};
+use crate::coast::{
+    Land, LatLon, RouteSettings, SeaRoute, Segment, destination, distance_m, initial_bearing_deg,
+    sea_routes,
+};
 use crate::localtime::local_day;
 use crate::physics::{
     LatitudeCheck, NAUTICAL_MILE_M, ProbeStress, PumpingProbes, Wind, check_latitude,
@@ -32,9 +35,9 @@ const PUMPING_OFFSHORE_M: f64 = 10_000.0;
 const PUMPING_HALF_SPAN_M: f64 = 5_000.0;
 /// Longest gap in a wind series bridged by interpolation in time, hours.
 const MAX_WIND_GAP_H: f64 = 6.0;
-/// The first stretch of the way out is the harbour itself, often inside the land
-/// polygons: land there does not count as crossing land, metres.
-const HARBOUR_M: f64 = 1500.0;
+/// The way to a stretch ends this far off its centre, out to sea, metres: the drawn
+/// coast line itself lies on the coarse land outline.
+const TARGET_OFFSHORE_M: f64 = 500.0;
 
 /// How close a stretch is to the equator, where Ekman theory fails.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -127,10 +130,11 @@ impl StretchForecast {
 pub struct PortRoutes {
     /// The port's position.
     pub port: LatLon,
-    /// Per stretch: great-circle distance, nm.
+    /// Per stretch: the distance by sea, nm (the great-circle distance where there is
+    /// no way by sea).
     pub distance_nm: Vec<f64>,
-    /// Per stretch: whether that line crosses land (the way by sea is longer).
-    pub crosses_land: Vec<bool>,
+    /// Per stretch: the way by sea, `None` where none was found.
+    pub routes: Vec<Option<Arc<SeaRoute>>>,
     /// Per stretch, per hour of [`Forecast::timeline`]: the strongest wind on the way
     /// and at the stretch, knots; `None` where part of the way has no forecast.
     pub max_wind_kt: Vec<Arc<[Option<f64>]>>,
@@ -163,7 +167,9 @@ pub struct ForecastGeometry<'a> {
     pub ports: &'a [LatLon],
     /// Spacing of the points on the way from port, nm.
     pub route_step_nm: f64,
-    /// Land, to tell whether a way out crosses it.
+    /// How ways by sea are found (clearance from land, harbour allowance, longest way).
+    pub route: RouteSettings,
+    /// Land, for the ways by sea and the fetch.
     pub land: &'a Land,
 }
 
@@ -278,15 +284,22 @@ fn cut_stretches(segments: &[Segment], stretch_length_nm: f64) -> Vec<(Segment, 
     out
 }
 
-/// Points on the great circle from `port` to `to`, every `step_nm`, the port first.
-fn route_points(port: LatLon, to: LatLon, step_nm: f64) -> Vec<LatLon> {
-    let total_m = distance_m(port, to);
-    let steps = (total_m / (step_nm * NAUTICAL_MILE_M)).ceil() as usize;
-    let bearing = initial_bearing_deg(port, to);
-    (0..steps)
-        .map(|s| destination(port, bearing, total_m * s as f64 / steps as f64))
-        .collect()
+/// Points along a way, every `step_m` or less on each leg, the start first, the end
+/// last, every turning point included.
+fn along(points: &[LatLon], step_m: f64) -> Vec<LatLon> {
+    let mut out = Vec::new();
+    for w in points.windows(2) {
+        let leg_m = distance_m(w[0], w[1]);
+        let steps = (leg_m / step_m).ceil().max(1.0) as usize;
+        let bearing = initial_bearing_deg(w[0], w[1]);
+        out.extend((0..steps).map(|k| destination(w[0], bearing, leg_m * k as f64 / steps as f64)));
+    }
+    out.extend(points.last().copied());
+    out
 }
+
+/// Per port and stretch: the first route group, how many, and the way by sea.
+type RouteGroups = (usize, usize, Option<Arc<SeaRoute>>);
 
 /// The four pumping probes offshore of a stretch (east, west, north, south), and their
 /// group: grids only, since winds at different stations have no curl between them.
@@ -334,9 +347,9 @@ struct Layout {
     cut: Vec<(Segment, StretchForecast)>,
     groups: Vec<PointGroup>,
     stretch_groups: Vec<StretchGroups>,
-    /// Per port, per stretch: first route group, number of route points, whether the
-    /// way crosses land.
-    route_groups: Vec<(usize, usize, bool)>,
+    /// Per port, per stretch: first route group, number of route points, and the way
+    /// by sea.
+    route_groups: Vec<RouteGroups>,
 }
 
 fn layout(geometry: &ForecastGeometry<'_>) -> Layout {
@@ -357,16 +370,20 @@ fn layout(geometry: &ForecastGeometry<'_>) -> Layout {
         ));
         groups.push(pumping);
     }
-    // Route points: one group each, every port × every stretch.
+    // The ways by sea from each port, to a point just off each stretch; their points
+    // every `route_step_nm` are one group each.
     let mut route_groups = Vec::new();
+    let targets: Vec<LatLon> = cut
+        .iter()
+        .map(|(_, s)| destination(s.centre, s.offshore_bearing_deg, TARGET_OFFSHORE_M))
+        .collect();
     for &port in geometry.ports {
-        for (_, s) in &cut {
-            let pts = route_points(port, s.centre, geometry.route_step_nm);
-            let crosses = pts
-                .iter()
-                .skip(1)
-                .any(|p| distance_m(port, *p) > HARBOUR_M && geometry.land.is_land(*p));
-            route_groups.push((groups.len(), pts.len(), crosses));
+        let ways = sea_routes(geometry.land, port, &targets, &geometry.route);
+        for way in ways {
+            let pts = way.as_ref().map_or_else(Vec::new, |r| {
+                along(&r.points, geometry.route_step_nm * NAUTICAL_MILE_M)
+            });
+            route_groups.push((groups.len(), pts.len(), way.map(Arc::new)));
             groups.extend(pts.into_iter().map(PointGroup::point));
         }
     }
@@ -445,26 +462,31 @@ fn port_routes(
     port: LatLon,
     stretches: &[StretchForecast],
     layout: &[StretchGroups],
-    route_groups: &[(usize, usize, bool)],
+    route_groups: &[RouteGroups],
     (conditions, groups, waves): (&Conditions, &[PointGroup], &[Option<PointSeries>]),
     (timeline, fetch): (&[DateTime<Utc>], &mut FetchCache<'_>),
 ) -> PortRoutes {
     let mut out = PortRoutes {
         port,
         distance_nm: Vec::with_capacity(stretches.len()),
-        crosses_land: Vec::with_capacity(stretches.len()),
+        routes: Vec::with_capacity(stretches.len()),
         max_wind_kt: Vec::with_capacity(stretches.len()),
         max_wave_m: Vec::with_capacity(stretches.len()),
         wave_source: Vec::with_capacity(stretches.len()),
     };
-    for ((s, l), &(first, n, crosses)) in stretches.iter().zip(layout).zip(route_groups) {
-        out.distance_nm
-            .push(distance_m(port, s.centre) / NAUTICAL_MILE_M);
+    for ((s, l), (first, n, route)) in stretches.iter().zip(layout).zip(route_groups) {
+        let (first, n) = (*first, *n);
+        out.distance_nm.push(
+            route
+                .as_ref()
+                .map_or_else(|| distance_m(port, s.centre), |r| r.length_m)
+                / NAUTICAL_MILE_M,
+        );
         let way: Vec<Option<&GroupWind>> = conditions.groups[first..first + n]
             .iter()
             .map(Option::as_ref)
             .collect();
-        out.crosses_land.push(crosses);
+        out.routes.push(route.clone());
         let centre = conditions.groups[l.pieces].as_ref();
         let max: Vec<Option<f64>> = timeline
             .iter()

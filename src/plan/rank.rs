@@ -27,8 +27,8 @@ pub struct StretchInfo {
     pub closure: Option<Closure>,
     /// Great-circle distance from the home port to the centre, nm.
     pub distance_nm: f64,
-    /// Whether that straight line crosses land (the way by sea is longer).
-    pub crosses_land: bool,
+    /// The way by sea from the port, `None` where none was found.
+    pub route: Option<Arc<crate::coast::SeaRoute>>,
     /// Per hour of the forecast timeline, the strongest wind on the way and at the
     /// stretch, knots.
     route_max_wind_kt: Arc<[Option<f64>]>,
@@ -118,8 +118,11 @@ pub struct DayPlan {
 /// Plan-wide notes: how the plan was made and what it did not check.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub enum PlanNote {
-    /// Distances are great-circle from the port; a way over land is marked.
-    GreatCircleDistances,
+    /// Distances are by sea, keeping a clearance from the land outline.
+    SeaRoutes {
+        /// The clearance, nm.
+        clearance_nm: f64,
+    },
     /// Where the waves the plan checked come from: how many stretches were checked
     /// against a wave forecast, against an estimate of the wind sea only, and against
     /// nothing.
@@ -236,7 +239,7 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
                 },
                 closure: drawn.and_then(|c| c.closure.clone()),
                 distance_nm: routes.distance_nm[k],
-                crosses_land: routes.crosses_land[k],
+                route: routes.routes[k].clone(),
                 route_max_wind_kt: routes.max_wind_kt[k].clone(),
                 route_max_wave_m: routes.max_wave_m[k].clone(),
                 wave_source: routes.wave_source[k],
@@ -258,7 +261,9 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
         .filter_map(|k| from.checked_add_days(chrono::Days::new(k as u64)))
         .map(|d| ranker.rank_day(d, &stretches))
         .collect();
-    let mut notes = vec![PlanNote::GreatCircleDistances];
+    let mut notes = vec![PlanNote::SeaRoutes {
+        clearance_nm: req.trip.sea_clearance_nm,
+    }];
     let count = |w: WaveSource| stretches.iter().filter(|s| s.wave_source == w).count();
     notes.push(PlanNote::WaveSources {
         forecast: count(WaveSource::Forecast),
@@ -364,6 +369,9 @@ impl DayRanker<'_> {
                 lat_deg: s.centre.lat_deg,
             });
         }
+        if s.route.is_none() {
+            return Err(Exclusion::NoSeaRoute);
+        }
         if s.distance_nm > vessel.range_nm {
             return Err(Exclusion::BeyondRange {
                 distance_nm: s.distance_nm,
@@ -406,7 +414,7 @@ impl DayRanker<'_> {
             distance_nm: s.distance_nm,
             steam_minutes: steam_h * 60.0,
             fuel_l: 2.0 * steam_h * vessel.fuel_l_per_h,
-            straight_line: s.crosses_land,
+            straight_line: s.route.is_none(),
         };
         Ok(RankedStretch {
             stretch: 0,

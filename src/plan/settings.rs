@@ -21,6 +21,8 @@ pub struct TripSettings {
     pub tie_margin_points: f64,
     /// Spacing of the points along the way from port where the wind is checked, nm.
     pub route_step_nm: f64,
+    /// Least distance from land the way by sea keeps (except in the harbour), nm.
+    pub sea_clearance_nm: f64,
 }
 
 impl Default for TripSettings {
@@ -33,6 +35,7 @@ impl Default for TripSettings {
             distance_weight: 0.5,
             tie_margin_points: 3.0,
             route_step_nm: 3.0,
+            sea_clearance_nm: 0.3,
         }
     }
 }
@@ -61,6 +64,7 @@ impl TripSettings {
             ("distance_weight", self.distance_weight, 0.0, 1.0),
             ("tie_margin_points", self.tie_margin_points, 0.0, 50.0),
             ("route_step_nm", self.route_step_nm, 0.5, 50.0),
+            ("sea_clearance_nm", self.sea_clearance_nm, 0.05, 3.0),
         ] {
             if !(v.is_finite() && (lo..=hi).contains(&v)) {
                 return bad(name, v.to_string(), &format!("{lo} to {hi}"));

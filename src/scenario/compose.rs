@@ -84,6 +84,10 @@ impl Scenario {
             stretch_length_nm: self.settings.stretch_length_nm,
             ports,
             route_step_nm: self.settings.trip.route_step_nm,
+            route: crate::coast::RouteSettings {
+                clearance_m: self.settings.trip.sea_clearance_nm * crate::physics::NAUTICAL_MILE_M,
+                ..crate::coast::RouteSettings::default()
+            },
             land,
         }
     }
