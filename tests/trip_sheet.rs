@@ -363,3 +363,21 @@ fn the_sheet_speaks_the_units_chosen() {
     assert!(html.contains("beyond this boat&#39;s 37 km range from Tern Harbour"));
     assert!(!html.contains(" nm from Tern Harbour"));
 }
+
+/// The sheet draws the way by sea to each of the day's best three stretches, and says so
+/// in the map's key.
+#[test]
+fn the_sheet_draws_the_ways_by_sea() {
+    let plan = demo_plan("little-auk", "tern-harbour", "2027-05-14");
+    let html = trip_sheet_html(&plan, Land::bundled(), 0, Units::default());
+    assert_parses(&html);
+    let ways = plan.days[0]
+        .ranked
+        .iter()
+        .take(3)
+        .filter(|r| plan.stretches[r.stretch].route.is_some())
+        .count();
+    assert!(ways > 0);
+    assert_eq!(html.matches("<polyline class=\"route\"").count(), ways);
+    assert!(html.contains("the way by sea to the best three"));
+}

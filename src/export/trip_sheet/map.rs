@@ -270,6 +270,7 @@ pub(super) fn map_section(o: &mut String, plan: &Plan, land: &Land, day: &DayPla
             "<path class=\"land\" d=\"{land_d}\" fill=\"#d9d9d9\" fill-rule=\"evenodd\" stroke=\"#7a7a7a\" stroke-width=\"0.8\"/>"
         );
     }
+    route_lines(o, plan, day, &frame);
     stretch_lines(o, plan, day, &frame);
     let _ = writeln!(o, "</g>");
     port_marker(o, plan, &frame);
@@ -285,6 +286,28 @@ pub(super) fn map_section(o: &mut String, plan: &Plan, land: &Land, day: &DayPla
     let _ = writeln!(o, "</svg>");
     map_legend(o, plan);
     let _ = writeln!(o, "</div>");
+}
+
+/// The ways by sea from the home port to the day's best three stretches, dashed.
+fn route_lines(o: &mut String, plan: &Plan, day: &DayPlan, frame: &Frame) {
+    for r in day.ranked.iter().take(3) {
+        let Some(route) = &plan.stretches[r.stretch].route else {
+            continue;
+        };
+        let pts: Vec<String> = route
+            .points
+            .iter()
+            .map(|p| {
+                let (x, y) = frame.xy(*p);
+                format!("{x:.1},{y:.1}")
+            })
+            .collect();
+        let _ = writeln!(
+            o,
+            "<polyline class=\"route\" points=\"{}\" fill=\"none\" stroke=\"#1f3c9e\" stroke-width=\"1.5\" stroke-dasharray=\"5 3\"/>",
+            pts.join(" ")
+        );
+    }
 }
 
 fn stretch_lines(o: &mut String, plan: &Plan, day: &DayPlan, frame: &Frame) {
@@ -567,9 +590,13 @@ fn map_legend(o: &mut String, plan: &Plan) {
         hex(SAFE_EXCLUDED)
     ));
     let port = key("<rect x=\"12\" y=\"1\" width=\"10\" height=\"10\" fill=\"#000\"/>".into());
+    let way = key(
+        "<line x1=\"1\" y1=\"6\" x2=\"33\" y2=\"6\" stroke=\"#1f3c9e\" stroke-width=\"1.5\" stroke-dasharray=\"5 3\"/>"
+            .into(),
+    );
     let _ = writeln!(
         o,
-        "<p class=\"legend\">{ranked} ranked stretch, numbered by rank, darker green for a higher score &#160; {excluded} not ranked this day (closed, out of range, wind or window) &#160; {port} home port, {} &#160; land shaded grey. North is up.</p>",
+        "<p class=\"legend\">{ranked} ranked stretch, numbered by rank, darker green for a higher score &#160; {excluded} not ranked this day (closed, out of range, wind, waves or window) &#160; {way} the way by sea to the best three &#160; {port} home port, {} &#160; land shaded grey. North is up.</p>",
         esc(&plan.port.name)
     );
 }
