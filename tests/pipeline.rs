@@ -51,6 +51,7 @@ fn scenario(tz: &str, segments: Vec<CoastSegment>, port: LatLon, wind: Vec<PathB
             fuel_l_per_h: 20.0,
             wind_limit_kt: 20.0,
             wave_limit_m: None,
+            steepness_limit_m_s2: None,
             range_nm: 30.0,
         }],
         wind_files: wind,
@@ -369,4 +370,46 @@ fn plan_and_index_agree_on_the_demo() {
         compared += 1;
     }
     assert!(compared > 1000, "{compared} rows compared");
+}
+
+/// Issue 11, the optional steepness limit. A buoy file with 8 kt wind and a 1.0 m sea at
+/// 4 s: height over period squared is 1.0 / 16 = 0.0625 m/s^2 (by hand). Under the boat's
+/// 1.5 m height limit the stretch is ranked; with a 0.04 m/s^2 steepness limit it drops
+/// out as over the wave limit, and the reason gives the ratio.
+#[test]
+fn a_short_steep_sea_keeps_a_boat_with_a_steepness_limit_in() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let wind = dir.path().join("buoy.csv");
+    let start: DateTime<Utc> = "2027-05-01T00:00:00Z".parse().expect("time");
+    let mut text = String::from("time,speed_kt,direction_from_deg,wave_height_m,wave_period_s\n");
+    for k in 0..24 * 8 {
+        let t = start + Duration::hours(k);
+        let _ = writeln!(
+            text,
+            "{},8,0,1.0,4",
+            t.to_rfc3339_opts(chrono::SecondsFormat::Secs, true)
+        );
+    }
+    std::fs::write(&wind, text).expect("write");
+    let mut sc = scenario(
+        "UTC",
+        vec![segment("reach", 38.0, -123.0)],
+        LatLon::new(38.05, -122.98),
+        vec![wind],
+    );
+    sc.vessels[0].wave_limit_m = Some(1.5);
+    let p = plan(&sc, "2027-05-07", 1);
+    assert_eq!(p.days[0].ranked.len(), 1, "{:?}", p.days[0].excluded);
+    sc.vessels[0].steepness_limit_m_s2 = Some(0.04);
+    let p = plan(&sc, "2027-05-07", 1);
+    assert!(p.days[0].ranked.is_empty());
+    let e = &p.days[0].excluded[0];
+    assert_eq!(e.exclusion.kind(), "over_wave_limit");
+    match e.exclusion {
+        shelfwind::plan::Exclusion::TooSteep { ratio, limit, .. } => {
+            assert!((ratio - 0.0625).abs() < 1e-9, "{ratio}");
+            assert!((limit - 0.04).abs() < 1e-12);
+        }
+        ref other => panic!("expected too steep, got {other:?}"),
+    }
 }

@@ -9,8 +9,8 @@ use super::state::{ShelfwindApp, Tool};
 use crate::coast::LatLon;
 use crate::export::units::Units;
 use crate::plan::{
-    CRUISE_SPEED_RANGE_KT, FUEL_RANGE_L_PER_H, Port, RANGE_RANGE_NM, Vessel, WAVE_LIMIT_RANGE_M,
-    WIND_LIMIT_RANGE_KT,
+    CRUISE_SPEED_RANGE_KT, FUEL_RANGE_L_PER_H, Port, RANGE_RANGE_NM, STEEPNESS_LIMIT_RANGE_M_S2,
+    Vessel, WAVE_LIMIT_RANGE_M, WIND_LIMIT_RANGE_KT,
 };
 use eframe::egui::{self, RichText};
 
@@ -60,6 +60,7 @@ fn new_vessel(vessels: &[Vessel]) -> Vessel {
         wind_limit_kt: 18.0,
         wave_limit_m: None,
         range_nm: 15.0,
+        steepness_limit_m_s2: None,
     }
 }
 
@@ -124,27 +125,46 @@ fn vessel_form(
                 &mut out.range_nm,
                 &RANGE_RANGE_NM,
             );
-            let wave = v
-                .wave_limit_m
-                .map(super::fields::number_text)
-                .unwrap_or_default();
-            if let Some(t) = fields.line(ui, "Wave limit", id("wave"), &wave, 70.0) {
-                let parsed = if t.trim().is_empty() {
-                    Ok(None)
-                } else {
-                    parse_number(&t, &WAVE_LIMIT_RANGE_M, "m").map(Some)
-                };
-                match parsed {
-                    Ok(w) => {
-                        fields.set_error(id("wave"), None);
-                        out.wave_limit_m = w;
-                        changed = true;
-                    }
-                    Err(e) => fields.set_error(id("wave"), Some(e)),
-                }
+            let optional = |fields: &mut Fields,
+                            ui: &mut egui::Ui,
+                            (label, key, unit): (&str, &str, &str),
+                            stored: Option<f64>,
+                            range: &std::ops::RangeInclusive<f64>| {
+                let shown = stored.map(super::fields::number_text).unwrap_or_default();
+                let typed = fields.line(ui, label, id(key), &shown, 70.0);
+                ui.label(format!("{unit} (empty: none)"));
+                let out = typed.and_then(|t| {
+                    let parsed = if t.trim().is_empty() {
+                        Ok(None)
+                    } else {
+                        parse_number(&t, range, unit).map(Some)
+                    };
+                    fields.set_error(id(key), parsed.as_ref().err().cloned());
+                    parsed.ok()
+                });
+                fields.message(ui, id(key));
+                out
+            };
+            if let Some(w) = optional(
+                fields,
+                ui,
+                ("Wave limit", "wave", "m"),
+                v.wave_limit_m,
+                &WAVE_LIMIT_RANGE_M,
+            ) {
+                out.wave_limit_m = w;
+                changed = true;
             }
-            ui.label("m (empty: none)");
-            fields.message(ui, id("wave"));
+            if let Some(x) = optional(
+                fields,
+                ui,
+                ("Steepness limit", "steep", "m/s² (height / period²)"),
+                v.steepness_limit_m_s2,
+                &STEEPNESS_LIMIT_RANGE_M_S2,
+            ) {
+                out.steepness_limit_m_s2 = x;
+                changed = true;
+            }
         });
     changed.then_some(out)
 }

@@ -306,6 +306,7 @@ fn unsafe_runs(plan: &Plan, s: &StretchInfo, t0: chrono::DateTime<chrono::Utc>) 
     let limits = crate::plan::Limits {
         wind_kt: plan.vessel.wind_limit_kt,
         wave_m: plan.vessel.wave_limit_m,
+        steepness_m_s2: plan.vessel.steepness_limit_m_s2,
     };
     let mut runs: Vec<(f64, f64)> = Vec::new();
     for h in &s.hours {
@@ -313,6 +314,7 @@ fn unsafe_runs(plan: &Plan, s: &StretchInfo, t0: chrono::DateTime<chrono::Utc>) 
             time: h.time,
             wind_kt: s.route_wind_kt(h.time),
             wave_m: s.route_wave_m(h.time),
+            steepness_m_s2: s.route_steepness_m_s2(h.time),
         };
         if hour.unsafe_for(&limits).is_some() {
             let x = hours_since(t0, h.time);

@@ -83,6 +83,10 @@ pub fn exclusion_text(e: &Exclusion, tz: Tz, port_name: &str, units: Units) -> S
         ),
         Exclusion::NoForecast => "no forecast for this day's working hours".into(),
         Exclusion::NoRouteForecast => "no forecast for part of the way from port".into(),
+        Exclusion::TooSteep { ratio, at, limit } => format!(
+            "a short, steep sea ({ratio:.3} m/s² height over period squared, {}): over this boat's {limit:.3} limit all day",
+            hhmm(tz, *at)
+        ),
         Exclusion::NoSeaRoute => format!("no way by sea from {port_name} within this boat's range"),
         Exclusion::OverWaveLimit {
             max_wave_m,
@@ -170,6 +174,10 @@ fn stopper_text(stopper: Stopper, at: DateTime<Utc>, tz: Tz, units: Units) -> St
             units.wind_vs(kt, limit_kt),
             hhmm(tz, at),
             units.wind(limit_kt)
+        ),
+        Stopper::Steep { ratio, limit } => format!(
+            "a short, steep sea ({ratio:.3} m/s² height over period squared) at {}: over this boat's {limit:.3} limit",
+            hhmm(tz, at)
         ),
         Stopper::Waves { m, limit_m } => format!(
             "waves {m:.1} m at {}: over this boat's {limit_m:.1} m limit",

@@ -14,6 +14,8 @@ pub const WIND_LIMIT_RANGE_KT: RangeInclusive<f64> = 1.0..=100.0;
 pub const RANGE_RANGE_NM: RangeInclusive<f64> = 0.5..=500.0;
 /// Wave limits accepted, metres of significant height.
 pub const WAVE_LIMIT_RANGE_M: RangeInclusive<f64> = 0.1..=20.0;
+/// Steepness limits accepted, height over period squared, m/s^2.
+pub const STEEPNESS_LIMIT_RANGE_M_S2: RangeInclusive<f64> = 0.005..=0.2;
 
 /// A home port.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -44,4 +46,10 @@ pub struct Vessel {
     pub wave_limit_m: Option<f64>,
     /// Greatest distance from port for a day trip, nautical miles (one way).
     pub range_nm: f64,
+    /// Steepest sea the skipper will work in, as the significant height over the period
+    /// squared, m/s^2 (optional, off by default): a short period for its height is worse
+    /// than the height alone says (common practice). 0.04 is 1.44 m at 6 s or 2.56 m at
+    /// 8 s.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub steepness_limit_m_s2: Option<f64>,
 }

@@ -141,6 +141,9 @@ pub struct PortRoutes {
     /// Per stretch, per hour: the highest significant waves on the way and at the
     /// stretch, m; `None` where nothing tells them.
     pub max_wave_m: Vec<Arc<[Option<f64>]>>,
+    /// Per stretch, per hour: the steepest sea on the way and at the stretch, the
+    /// height over the period squared, m/s^2; `None` where no period is known.
+    pub max_steepness: Vec<Arc<[Option<f64>]>>,
     /// Per stretch: where those wave heights come from.
     pub wave_source: Vec<WaveSource>,
 }
@@ -472,6 +475,7 @@ fn port_routes(
         routes: Vec::with_capacity(stretches.len()),
         max_wind_kt: Vec::with_capacity(stretches.len()),
         max_wave_m: Vec::with_capacity(stretches.len()),
+        max_steepness: Vec::with_capacity(stretches.len()),
         wave_source: Vec::with_capacity(stretches.len()),
     };
     for ((s, l), (first, n, route)) in stretches.iter().zip(layout).zip(route_groups) {
@@ -521,12 +525,16 @@ fn port_routes(
                 .collect(),
         ));
         let mut estimated = false;
-        let seas: Vec<Vec<Option<f64>>> = points
+        let seas: Vec<Vec<Option<super::seastate::SeaAt>>> = points
             .iter()
             .map(|(p, k, winds)| match &waves[*k] {
                 Some(series) => timeline
                     .iter()
-                    .map(|&t| series.wave_at(t, MAX_WIND_GAP_H).map(|w| w.height_m))
+                    .map(|&t| {
+                        series
+                            .wave_at(t, MAX_WIND_GAP_H)
+                            .map(|w| (w.height_m, w.period_s))
+                    })
                     .collect(),
                 None => {
                     estimated = true;
@@ -535,9 +543,21 @@ fn port_routes(
             })
             .collect();
         let highest: Vec<Option<f64>> = (0..timeline.len())
-            .map(|k| seas.iter().filter_map(|h| h[k]).reduce(f64::max))
+            .map(|k| {
+                seas.iter()
+                    .filter_map(|h| h[k].map(|x| x.0))
+                    .reduce(f64::max)
+            })
+            .collect();
+        let steepest: Vec<Option<f64>> = (0..timeline.len())
+            .map(|k| {
+                seas.iter()
+                    .filter_map(|h| h[k].and_then(|(m, t)| t.map(|t| m / (t * t))))
+                    .reduce(f64::max)
+            })
             .collect();
         out.max_wave_m.push(highest.into());
+        out.max_steepness.push(steepest.into());
         out.wave_source.push(if estimated {
             WaveSource::Estimate
         } else {

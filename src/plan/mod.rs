@@ -15,8 +15,8 @@ mod settings;
 mod window;
 
 pub use boat::{
-    CRUISE_SPEED_RANGE_KT, FUEL_RANGE_L_PER_H, Port, RANGE_RANGE_NM, Vessel, WAVE_LIMIT_RANGE_M,
-    WIND_LIMIT_RANGE_KT,
+    CRUISE_SPEED_RANGE_KT, FUEL_RANGE_L_PER_H, Port, RANGE_RANGE_NM, STEEPNESS_LIMIT_RANGE_M_S2,
+    Vessel, WAVE_LIMIT_RANGE_M, WIND_LIMIT_RANGE_KT,
 };
 pub use forecast::{
     Forecast, ForecastError, ForecastGeometry, Latitude, PortRoutes, SampledConditions,

@@ -34,6 +34,8 @@ pub struct StretchInfo {
     route_max_wind_kt: Arc<[Option<f64>]>,
     /// Per hour, the highest waves on the way and at the stretch, m.
     route_max_wave_m: Arc<[Option<f64>]>,
+    /// Per hour, the steepest sea on the way and at the stretch, m/s^2.
+    route_max_steepness: Arc<[Option<f64>]>,
     /// Where those wave heights come from.
     pub wave_source: WaveSource,
     timeline_start: Option<DateTime<Utc>>,
@@ -54,6 +56,14 @@ impl StretchInfo {
     pub fn route_wind_kt(&self, t: DateTime<Utc>) -> Option<f64> {
         let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
         self.route_max_wind_kt.get(k).copied().flatten()
+    }
+
+    /// The steepest sea on the way from port and at the stretch at hour `t`, the height
+    /// over the period squared, m/s^2.
+    #[must_use]
+    pub fn route_steepness_m_s2(&self, t: DateTime<Utc>) -> Option<f64> {
+        let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
+        self.route_max_steepness.get(k).copied().flatten()
     }
 
     /// The highest waves on the way from port and at the stretch at hour `t`, m.
@@ -242,6 +252,7 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
                 route: routes.routes[k].clone(),
                 route_max_wind_kt: routes.max_wind_kt[k].clone(),
                 route_max_wave_m: routes.max_wave_m[k].clone(),
+                route_max_steepness: routes.max_steepness[k].clone(),
                 wave_source: routes.wave_source[k],
                 timeline_start: forecast.timeline.first().copied(),
             }
@@ -354,6 +365,7 @@ impl DayRanker<'_> {
                 time: h.time,
                 wind_kt: s.route_wind_kt(h.time),
                 wave_m: s.route_wave_m(h.time),
+                steepness_m_s2: s.route_steepness_m_s2(h.time),
             })
             .collect()
     }
@@ -390,6 +402,7 @@ impl DayRanker<'_> {
         let limits = Limits {
             wind_kt: vessel.wind_limit_kt,
             wave_m: vessel.wave_limit_m,
+            steepness_m_s2: vessel.steepness_limit_m_s2,
         };
         let Some(run) = longest_safe_run(&working, &limits) else {
             return Err(never_safe(&working, &limits, s.wave_source));
@@ -503,23 +516,34 @@ fn never_safe(working: &[WorkingHour], limits: &Limits, source: WaveSource) -> E
             Some(Unsafe::Wind(_) | Unsafe::NoForecast)
         )
     });
-    match (worst(&|h| h.wind_kt), worst(&|h| h.wave_m), limits.wave_m) {
-        (None, _, _) => Exclusion::NoRouteForecast,
-        (Some((at, max_wind_kt)), _, _) if wind_blocks => Exclusion::OverWindLimit {
+    let waves_over = |w: &Option<(DateTime<Utc>, f64)>| {
+        w.zip(limits.wave_m)
+            .is_some_and(|((_, m), limit)| m > limit)
+    };
+    let waves = worst(&|h| h.wave_m);
+    match (worst(&|h| h.wind_kt), waves) {
+        (None, _) => Exclusion::NoRouteForecast,
+        (Some((at, max_wind_kt)), _) if wind_blocks => Exclusion::OverWindLimit {
             max_wind_kt,
             at,
             limit_kt: limits.wind_kt,
         },
-        (_, Some((at, max_wave_m)), Some(limit_m)) => Exclusion::OverWaveLimit {
+        (_, Some((at, max_wave_m))) if waves_over(&waves) => Exclusion::OverWaveLimit {
             max_wave_m,
             at,
-            limit_m,
+            limit_m: limits.wave_m.unwrap_or(max_wave_m),
             source,
         },
-        (Some((at, max_wind_kt)), _, _) => Exclusion::OverWindLimit {
-            max_wind_kt,
-            at,
-            limit_kt: limits.wind_kt,
+        (Some((at, max_wind_kt)), _) => match (worst(&|h| h.steepness_m_s2), limits.steepness_m_s2)
+        {
+            (Some((at, ratio)), Some(limit)) if ratio > limit => {
+                Exclusion::TooSteep { ratio, at, limit }
+            }
+            _ => Exclusion::OverWindLimit {
+                max_wind_kt,
+                at,
+                limit_kt: limits.wind_kt,
+            },
         },
     }
 }
@@ -541,6 +565,10 @@ fn wind_reason(
             Unsafe::Waves(m) => Stopper::Waves {
                 m,
                 limit_m: limits.wave_m.unwrap_or(m),
+            },
+            Unsafe::Steep(ratio) => Stopper::Steep {
+                ratio,
+                limit: limits.steepness_m_s2.unwrap_or(ratio),
             },
         })
     };

@@ -37,6 +37,16 @@ pub enum Exclusion {
         /// Where the wave heights come from.
         source: WaveSource,
     },
+    /// A sea steeper than the boat's steepness limit in every working hour the wind
+    /// and the wave height allow.
+    TooSteep {
+        /// The steepest sea, height over period squared, m/s^2.
+        ratio: f64,
+        /// When, UTC.
+        at: DateTime<Utc>,
+        /// The boat's limit, m/s^2.
+        limit: f64,
+    },
     /// No way by sea from the home port within the boat's range.
     NoSeaRoute,
     /// Over the boat's wind limit in every working hour.
@@ -71,7 +81,7 @@ impl Exclusion {
             Exclusion::BeyondRange { .. } => "beyond_range",
             Exclusion::NoForecast | Exclusion::NoRouteForecast => "no_forecast",
             Exclusion::OverWindLimit { .. } => "over_wind_limit",
-            Exclusion::OverWaveLimit { .. } => "over_wave_limit",
+            Exclusion::OverWaveLimit { .. } | Exclusion::TooSteep { .. } => "over_wave_limit",
             Exclusion::NoSeaRoute => "no_sea_route",
             Exclusion::WindowTooShort { .. } => "window_too_short",
         }
@@ -91,6 +101,7 @@ impl Exclusion {
             self,
             Exclusion::OverWindLimit { .. }
                 | Exclusion::OverWaveLimit { .. }
+                | Exclusion::TooSteep { .. }
                 | Exclusion::WindowTooShort { .. }
         )
     }
@@ -176,6 +187,13 @@ pub enum Stopper {
         kt: f64,
         /// The limit, knots.
         limit_kt: f64,
+    },
+    /// A sea steeper than the limit (height over period squared, m/s^2).
+    Steep {
+        /// The steepness, m/s^2.
+        ratio: f64,
+        /// The limit, m/s^2.
+        limit: f64,
     },
     /// Waves, m, over the limit.
     Waves {

@@ -19,6 +19,9 @@ const SAME_WIND_DEG: f64 = 45.0;
 
 /// Fetches by cell and direction, each measured on first use (a cell sees few wind
 /// directions in a forecast).
+/// Wave height (m) and, where known, period (s) at one hour.
+pub(super) type SeaAt = (f64, Option<f64>);
+
 pub(super) struct FetchCache<'a> {
     land: &'a Land,
     tables: HashMap<(i64, i64), [Option<f64>; FETCH_DIRECTIONS]>,
@@ -49,10 +52,10 @@ impl<'a> FetchCache<'a> {
         })
     }
 
-    /// The estimated wind-sea height at a point for each hour of an hourly wind series
-    /// (`None` where the wind is missing), m. The duration is how long the wind has
-    /// blown from within 45° of its present direction, up to 72 hours.
-    pub(super) fn wind_sea_m(&mut self, p: LatLon, winds: &[Option<Wind>]) -> Vec<Option<f64>> {
+    /// The estimated wind sea at a point for each hour of an hourly wind series (`None`
+    /// where the wind is missing): height, m, and peak period, s. The duration is how
+    /// long the wind has blown from within 45° of its present direction, up to 72 hours.
+    pub(super) fn wind_sea_m(&mut self, p: LatLon, winds: &[Option<Wind>]) -> Vec<Option<SeaAt>> {
         let mut out = Vec::with_capacity(winds.len());
         let mut run = 0usize;
         let mut last_dir: Option<f64> = None;
@@ -79,10 +82,10 @@ impl<'a> FetchCache<'a> {
             if turned {
                 last_dir = dir;
             }
-            let height = dir.map_or(0.0, |d| {
-                wind_sea(w.speed_m_s(), self.fetch_m(p, d), run as f64 * 3600.0).height_m
-            });
-            out.push(Some(height));
+            let sea = dir.map(|d| wind_sea(w.speed_m_s(), self.fetch_m(p, d), run as f64 * 3600.0));
+            out.push(Some(sea.map_or((0.0, None), |s| {
+                (s.height_m, (s.period_s > 0.0).then_some(s.period_s))
+            })));
         }
         out
     }
@@ -103,12 +106,12 @@ mod tests {
         let at = LatLon::new(38.4, -123.2);
         let west = vec![Some(Wind::from_speed_direction(10.0, 270.0)); 80];
         let sea = cache.wind_sea_m(at, &west);
-        let first = sea[0].expect("wind");
-        let last = sea[79].expect("wind");
+        let first = sea[0].expect("wind").0;
+        let last = sea[79].expect("wind").0;
         assert!(first < 1.0, "{first}");
         assert!((last - 2.75).abs() < 0.02, "{last}");
         let east = vec![Some(Wind::from_speed_direction(10.0, 90.0)); 80];
-        let small = cache.wind_sea_m(at, &east)[79].expect("wind");
+        let small = cache.wind_sea_m(at, &east)[79].expect("wind").0;
         assert!(small < 0.8, "{small}");
     }
 }

@@ -13,6 +13,8 @@ pub struct WorkingHour {
     pub wind_kt: Option<f64>,
     /// Highest significant wave height, m (`None` where nothing tells it).
     pub wave_m: Option<f64>,
+    /// Steepest sea, height over period squared, m/s^2 (`None` without a period).
+    pub steepness_m_s2: Option<f64>,
 }
 
 /// The limits a boat keeps to.
@@ -22,6 +24,8 @@ pub struct Limits {
     pub wind_kt: f64,
     /// Significant wave height, m, if the skipper set one.
     pub wave_m: Option<f64>,
+    /// Steepness (height over period squared), m/s^2, if the skipper set one.
+    pub steepness_m_s2: Option<f64>,
 }
 
 /// What makes an hour unsafe, if anything.
@@ -33,6 +37,8 @@ pub enum Unsafe {
     Wind(f64),
     /// The waves are over the limit (metres).
     Waves(f64),
+    /// The sea is steeper than the limit (height over period squared, m/s^2).
+    Steep(f64),
 }
 
 impl WorkingHour {
@@ -46,7 +52,11 @@ impl WorkingHour {
             _ => {}
         }
         match (self.wave_m, limits.wave_m) {
-            (Some(h), Some(limit)) if h > limit => Some(Unsafe::Waves(h)),
+            (Some(h), Some(limit)) if h > limit => return Some(Unsafe::Waves(h)),
+            _ => {}
+        }
+        match (self.steepness_m_s2, limits.steepness_m_s2) {
+            (Some(x), Some(limit)) if x > limit => Some(Unsafe::Steep(x)),
             _ => None,
         }
     }
@@ -95,26 +105,39 @@ mod tests {
                 time: t0 + Duration::hours(i64::try_from(k).expect("small")),
                 wind_kt: Some(*w),
                 wave_m: Some(if k == 6 { 2.0 } else { 0.5 }),
+                // 0.5 m at 3 s in hour 5: 0.056 m/s^2, steep for a 0.04 limit.
+                steepness_m_s2: Some(if k == 5 { 0.5 / 9.0 } else { 0.01 }),
             })
             .collect();
         let wind_only = Limits {
             wind_kt: 20.0,
             wave_m: None,
+            steepness_m_s2: None,
         };
         assert_eq!(longest_safe_run(&hours, &wind_only), Some((2, 3)));
         assert_eq!(run_span(&hours, (2, 3)).1, t0 + Duration::hours(4));
         let calm = Limits {
             wind_kt: 5.0,
             wave_m: None,
+            steepness_m_s2: None,
         };
         assert_eq!(longest_safe_run(&hours, &calm), None);
         // With a 1.2 m wave limit the last hour (2 m) is out: the runs are 2–3 and 5.
         let both = Limits {
             wind_kt: 20.0,
             wave_m: Some(1.2),
+            steepness_m_s2: None,
         };
         assert_eq!(longest_safe_run(&hours, &both), Some((2, 3)));
         assert_eq!(hours[6].unsafe_for(&both), Some(Unsafe::Waves(2.0)));
         assert_eq!(hours[5].unsafe_for(&both), None);
+        let steep = Limits {
+            steepness_m_s2: Some(0.04),
+            ..both
+        };
+        assert!(matches!(
+            hours[5].unsafe_for(&steep),
+            Some(Unsafe::Steep(_))
+        ));
     }
 }

@@ -169,6 +169,14 @@ fn check_vessel(what: &str, v: &Vessel) -> Result<(), String> {
     if let Some(w) = v.wave_limit_m {
         check("wave_limit_m", w, &WAVE_LIMIT_RANGE_M, "m")?;
     }
+    if let Some(x) = v.steepness_limit_m_s2 {
+        check(
+            "steepness_limit_m_s2",
+            x,
+            &crate::plan::STEEPNESS_LIMIT_RANGE_M_S2,
+            "m/s^2",
+        )?;
+    }
     Ok(())
 }
 
