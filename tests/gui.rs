@@ -493,9 +493,72 @@ fn typing_in_the_segment_editor_keeps_the_text() {
     );
 }
 
-/// A skipper sets up their own boat: added, named and given limits by typing; a bad
-/// number is refused beside its field; the plan is made for the new boat at once, and
-/// its higher wind limit works Thursday's blow that keeps the small boat in.
+/// Types the boat's optional wave and steepness limits, checks they are kept, then
+/// empties both and checks they are gone.
+fn optional_limits_are_kept_and_cleared(harness: &mut Harness<'static, ShelfwindApp>) {
+    use egui::accesskit::Role;
+    // The optional limits: a number is kept, an empty field means none.
+    retype(harness, "Wave limit", "1.8");
+    retype(harness, "Steepness limit", "0.05");
+    {
+        let boat = harness
+            .state()
+            .doc
+            .scenario
+            .vessels
+            .last()
+            .cloned()
+            .expect("boat");
+        assert_eq!(
+            (boat.wave_limit_m, boat.steepness_limit_m_s2),
+            (Some(1.8), Some(0.05))
+        );
+    }
+    assert_eq!(
+        field_value(harness, Role::TextInput, "Steepness limit"),
+        "0.05"
+    );
+    // Emptied: select all, delete, Enter.
+    for label in ["Steepness limit", "Wave limit"] {
+        harness
+            .get_by_role_and_label(Role::TextInput, label)
+            .focus();
+        harness.run_steps(2);
+        harness.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
+        harness.run_steps(1);
+        harness.key_press(egui::Key::Backspace);
+        harness.run_steps(2);
+        harness.key_press(egui::Key::Enter);
+        harness.run_steps(2);
+    }
+    assert_eq!(
+        harness
+            .state()
+            .doc
+            .scenario
+            .vessels
+            .last()
+            .expect("boat")
+            .steepness_limit_m_s2,
+        None
+    );
+    assert_eq!(
+        harness
+            .state()
+            .doc
+            .scenario
+            .vessels
+            .last()
+            .expect("boat")
+            .wave_limit_m,
+        None
+    );
+}
+
+/// A skipper sets up their own boat: added, named and given limits (wind, range, speed,
+/// and the optional wave and steepness limits) by typing; a bad number is refused beside
+/// its field; the plan is made for the new boat at once, and its higher wind limit works
+/// Thursday's blow that keeps the small boat in.
 #[test]
 fn a_skipper_adds_their_own_boat_and_the_ranking_follows() {
     use egui::accesskit::Role;
@@ -516,6 +579,7 @@ fn a_skipper_adds_their_own_boat_and_the_ranking_follows() {
     retype(&mut harness, "Range (one way)", "40");
     retype(&mut harness, "Cruising speed", "fast");
     harness.get_by_label("\"fast\" is not a number: expected a number from 1 to 60 kt");
+    optional_limits_are_kept_and_cleared(&mut harness);
     assert_eq!(
         field_value(&harness, Role::TextInput, "Cruising speed"),
         "fast"
