@@ -294,9 +294,33 @@ pub fn note_text(n: &PlanNote, port_name: &str) -> String {
                 || "This boat has no wave limit set: waves are shown, not checked".to_string(),
                 |l| format!("Wave limit {l:.1} m"),
             );
-            format!(
-                "{limit}. Waves from a wave forecast at {forecast} stretch(es); only an estimate of the local wind sea (no swell) at {estimate}; nothing at {none}. Check the sea state yourself."
-            )
+            let count = |n: usize| {
+                if n == 1 {
+                    "1 stretch".to_string()
+                } else {
+                    format!("{n} stretches")
+                }
+            };
+            let parts: Vec<String> = [
+                (*forecast, "from a wave forecast"),
+                (
+                    *estimate,
+                    "only an estimate of the local wind sea (no swell)",
+                ),
+                (*none, "nothing tells the waves"),
+            ]
+            .iter()
+            .filter(|(k, _)| *k > 0)
+            .map(|(k, what)| format!("{}: {what}", count(*k)))
+            .collect();
+            if parts.is_empty() {
+                format!("{limit}. Check the sea state yourself.")
+            } else {
+                format!(
+                    "{limit}. Waves at {}. Check the sea state yourself.",
+                    parts.join("; ")
+                )
+            }
         }
         PlanNote::NearEquator => "Some stretches lie between 5° and 10° from the equator, where the upwelling index is large and unreliable.".into(),
     }
@@ -314,6 +338,30 @@ pub fn notes(plan: &Plan) -> Vec<String> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The wave note names only the sources that were used.
+    #[test]
+    fn the_wave_note_leaves_out_empty_counts() {
+        let note = |forecast, estimate, none| {
+            note_text(
+                &PlanNote::WaveSources {
+                    forecast,
+                    estimate,
+                    none,
+                    limit_m: Some(1.2),
+                },
+                "Home",
+            )
+        };
+        assert_eq!(
+            note(28, 0, 0),
+            "Wave limit 1.2 m. Waves at 28 stretches: from a wave forecast. Check the sea state yourself."
+        );
+        assert_eq!(
+            note(0, 1, 2),
+            "Wave limit 1.2 m. Waves at 1 stretch: only an estimate of the local wind sea (no swell); 2 stretches: nothing tells the waves. Check the sea state yourself."
+        );
+    }
 
     #[test]
     fn durations_read_like_a_skipper_says_them() {
