@@ -3,54 +3,16 @@
 
 #![cfg(feature = "gui")]
 
+mod common;
+
+use common::{app_harness, wait_for_plan, wait_until_within};
 use eframe::egui;
 use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable;
-use shelfwind::app::{AppOptions, ShelfwindApp};
+use shelfwind::app::ShelfwindApp;
 use std::fmt::Write as _;
 use std::path::PathBuf;
 use std::time::{Duration, Instant};
-
-fn app_harness(dir: &std::path::Path) -> Harness<'static, ShelfwindApp> {
-    let options = AppOptions {
-        storage_dir: Some(dir.to_path_buf()),
-        native_dialogs: false,
-        autosave_s: 3600.0,
-    };
-    let mut harness = Harness::builder()
-        .with_size([1500.0, 1000.0])
-        .build_eframe(move |cc| {
-            ShelfwindApp::with_memory(
-                &cc.egui_ctx,
-                None,
-                options,
-                shelfwind::app::Remembered::default(),
-            )
-        });
-    // The cautions show at first start; accept them.
-    harness.run_steps(2);
-    harness.get_by_label("I understand").click();
-    harness.run_steps(2);
-    wait_for_plan(&mut harness);
-    harness
-}
-
-/// Steps the app until its background job has finished (the plan is read in a thread).
-fn wait_for_plan(harness: &mut Harness<'static, ShelfwindApp>) {
-    let start = Instant::now();
-    loop {
-        harness.step();
-        if !harness.state().is_busy() && harness.state().plan.is_some() {
-            break;
-        }
-        assert!(
-            start.elapsed() < Duration::from_mins(2),
-            "the plan never came"
-        );
-        std::thread::sleep(Duration::from_millis(20));
-    }
-    harness.run_steps(3);
-}
 
 /// Steps the app until `done` holds (background work ends between frames).
 fn wait_until(
@@ -58,13 +20,7 @@ fn wait_until(
     what: &str,
     done: impl Fn(&ShelfwindApp) -> bool,
 ) {
-    let start = Instant::now();
-    while !done(harness.state()) {
-        harness.step();
-        assert!(start.elapsed() < Duration::from_mins(2), "never: {what}");
-        std::thread::sleep(Duration::from_millis(20));
-    }
-    harness.run_steps(2);
+    wait_until_within(harness, what, Duration::from_mins(2), done);
 }
 
 /// Types into the path field of the file dialog (focus first, then the text).

@@ -5,34 +5,17 @@
 
 #![cfg(feature = "gui")]
 
+mod common;
+
 use eframe::egui;
 use egui::accesskit::Role;
 use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable;
-use shelfwind::app::{AppOptions, Command, ShelfwindApp};
-use std::time::{Duration, Instant};
+use shelfwind::app::{Command, ShelfwindApp};
 
+/// The demo app with the first plan made and the map settled.
 fn app_harness(dir: &std::path::Path) -> Harness<'static, ShelfwindApp> {
-    let options = AppOptions {
-        storage_dir: Some(dir.to_path_buf()),
-        native_dialogs: false,
-        autosave_s: 3600.0,
-    };
-    let mut harness = Harness::builder()
-        .with_size([1500.0, 1000.0])
-        .build_eframe(move |cc| {
-            ShelfwindApp::with_memory(
-                &cc.egui_ctx,
-                None,
-                options,
-                shelfwind::app::Remembered::default(),
-            )
-        });
-    // The cautions show at first start; accept them.
-    harness.run_steps(2);
-    harness.get_by_label("I understand").click();
-    harness.run_steps(2);
-    wait_for_plan(&mut harness);
+    let mut harness = common::app_harness(dir);
     settle(&mut harness);
     harness
 }
@@ -52,23 +35,6 @@ fn settle(harness: &mut Harness<'static, ShelfwindApp>) {
         }
     }
     panic!("the map never settled");
-}
-
-/// Steps the app until its background job has finished (the plan is read in a thread).
-fn wait_for_plan(harness: &mut Harness<'static, ShelfwindApp>) {
-    let start = Instant::now();
-    loop {
-        harness.step();
-        if !harness.state().is_busy() && harness.state().plan.is_some() {
-            break;
-        }
-        assert!(
-            start.elapsed() < Duration::from_mins(2),
-            "the plan never came"
-        );
-        std::thread::sleep(Duration::from_millis(20));
-    }
-    harness.run_steps(3);
 }
 
 /// The text of the one label whose text starts with `prefix`, without the prefix.

@@ -5,13 +5,16 @@
 
 #![cfg(feature = "gui")]
 
+mod common;
+
+use common::{app_harness, wait_until_within};
 use eframe::egui;
 use egui::accesskit::Role;
 use egui_kittest::Harness;
 use egui_kittest::kittest::{NodeT, Queryable};
-use shelfwind::app::{AppOptions, ShelfwindApp};
+use shelfwind::app::ShelfwindApp;
 use std::path::Path;
-use std::time::{Duration, Instant};
+use std::time::Duration;
 
 const RECORD_FIELD: &str = "Wind record files (GRIB2 or CSV), one path per line";
 /// The Seasons window's title, which also names the window's node.
@@ -19,45 +22,13 @@ const WINDOW: &str = "Seasons: compare segments over years of wind";
 /// Height of a window's title bar, points (at most).
 const TITLE_BAR_PT: f32 = 30.0;
 
-fn app_harness(dir: &Path) -> Harness<'static, ShelfwindApp> {
-    let options = AppOptions {
-        storage_dir: Some(dir.to_path_buf()),
-        native_dialogs: false,
-        autosave_s: 3600.0,
-    };
-    let mut harness = Harness::builder()
-        .with_size([1500.0, 1000.0])
-        .build_eframe(move |cc| {
-            ShelfwindApp::with_memory(
-                &cc.egui_ctx,
-                None,
-                options,
-                shelfwind::app::Remembered::default(),
-            )
-        });
-    // The cautions show at first start; accept them.
-    harness.run_steps(2);
-    harness.get_by_label("I understand").click();
-    harness.run_steps(2);
-    wait_until(&mut harness, "the plan", |a| {
-        !a.is_busy() && a.plan.is_some()
-    });
-    harness
-}
-
 /// Steps the app until `done` holds (background work ends between frames).
 fn wait_until(
     harness: &mut Harness<'static, ShelfwindApp>,
     what: &str,
     done: impl Fn(&ShelfwindApp) -> bool,
 ) {
-    let start = Instant::now();
-    while !done(harness.state()) {
-        harness.step();
-        assert!(start.elapsed() < Duration::from_mins(3), "never: {what}");
-        std::thread::sleep(Duration::from_millis(20));
-    }
-    harness.run_steps(2);
+    wait_until_within(harness, what, Duration::from_mins(3), done);
 }
 
 /// Focuses a labelled field, selects what it holds, types `text`, and steps two frames
