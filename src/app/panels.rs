@@ -114,72 +114,47 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
     });
 }
 
-/// The File menu: every file action.
+/// The File menu: every file action, in groups split by separators.
 fn file_menu(ui: &mut egui::Ui, commands: &mut Vec<Command>) {
-    let mut item = |ui: &mut egui::Ui, label: &str, c: Command| {
-        if ui.button(label).clicked() {
-            commands.push(c);
-            ui.close();
+    use FileAction as F;
+    let ask = Command::AskFile;
+    let groups: [&[(&str, Command)]; 4] = [
+        &[
+            ("Open scenario…", ask(F::OpenScenario)),
+            ("Open the demo", Command::OpenDemo),
+            ("Save", Command::Save),
+            ("Save as…", ask(F::SaveScenarioAs)),
+        ],
+        &[
+            ("Add a wind file…", ask(F::ImportWind)),
+            ("Wind files…", Command::ShowWindFiles),
+            ("Import coast (GeoJSON)…", ask(F::ImportCoast)),
+            ("Export coast (GeoJSON)…", ask(F::ExportCoast)),
+        ],
+        &[
+            ("Export plan (CSV)…", ask(F::ExportPlanCsv)),
+            ("Export plan (JSON)…", ask(F::ExportPlanJson)),
+            ("Export stretches (GeoJSON)…", ask(F::ExportPlanGeoJson)),
+            ("Export GPX: each day's best three…", ask(F::ExportGpx)),
+            (
+                "Export GPX: the selected stretches…",
+                ask(F::ExportGpxSelected),
+            ),
+            ("Export trip sheet (HTML)…", ask(F::ExportTripSheet)),
+        ],
+        &[("Quit", Command::Quit)],
+    ];
+    for (k, group) in groups.iter().enumerate() {
+        if k > 0 {
+            ui.separator();
         }
-    };
-    item(
-        ui,
-        "Open scenario…",
-        Command::AskFile(FileAction::OpenScenario),
-    );
-    item(ui, "Open the demo", Command::OpenDemo);
-    item(ui, "Save", Command::Save);
-    item(ui, "Save as…", Command::AskFile(FileAction::SaveScenarioAs));
-    ui.separator();
-    item(
-        ui,
-        "Add a wind file…",
-        Command::AskFile(FileAction::ImportWind),
-    );
-    item(ui, "Wind files…", Command::ShowWindFiles);
-    item(
-        ui,
-        "Import coast (GeoJSON)…",
-        Command::AskFile(FileAction::ImportCoast),
-    );
-    item(
-        ui,
-        "Export coast (GeoJSON)…",
-        Command::AskFile(FileAction::ExportCoast),
-    );
-    ui.separator();
-    item(
-        ui,
-        "Export plan (CSV)…",
-        Command::AskFile(FileAction::ExportPlanCsv),
-    );
-    item(
-        ui,
-        "Export plan (JSON)…",
-        Command::AskFile(FileAction::ExportPlanJson),
-    );
-    item(
-        ui,
-        "Export stretches (GeoJSON)…",
-        Command::AskFile(FileAction::ExportPlanGeoJson),
-    );
-    item(
-        ui,
-        "Export GPX: each day's best three…",
-        Command::AskFile(FileAction::ExportGpx),
-    );
-    item(
-        ui,
-        "Export GPX: the selected stretches…",
-        Command::AskFile(FileAction::ExportGpxSelected),
-    );
-    item(
-        ui,
-        "Export trip sheet (HTML)…",
-        Command::AskFile(FileAction::ExportTripSheet),
-    );
-    ui.separator();
-    item(ui, "Quit", Command::Quit);
+        for (label, command) in *group {
+            if ui.button(*label).clicked() {
+                commands.push(command.clone());
+                ui.close();
+            }
+        }
+    }
 }
 
 /// The Edit menu: undo, redo, drawing and the model settings.
