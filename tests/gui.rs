@@ -734,18 +734,24 @@ fn a_station_file_is_added_beside_the_grid() {
 
 /// Ctrl-click and Shift-click on the ranked list add to the selection; the side-by-side
 /// table then shows the stretches' numbers beside their plots.
+/// The names of the first `n` ranked stretches on the day shown.
+fn ranked_names(harness: &Harness<'static, ShelfwindApp>, n: usize) -> Vec<String> {
+    let plan = harness.state().plan.as_ref().expect("plan");
+    plan.days[harness.state().view.day]
+        .ranked
+        .iter()
+        .take(n)
+        .map(|r| plan.stretches[r.stretch].name.clone())
+        .collect()
+}
+
 #[test]
 fn ctrl_and_shift_click_compare_stretches_side_by_side() {
     let dir = tempfile::tempdir().expect("temp dir");
     let mut harness = app_harness(dir.path());
+    let names = ranked_names(&harness, 3);
     let plan = harness.state().plan.clone().expect("plan");
     let day = harness.state().view.day;
-    let names: Vec<String> = plan.days[day]
-        .ranked
-        .iter()
-        .take(3)
-        .map(|r| plan.stretches[r.stretch].name.clone())
-        .collect();
     harness
         .get_by_label(&format!("Stretch {}", names[0]))
         .click();
@@ -819,14 +825,7 @@ fn the_guide_explains_the_colours_and_the_shortcuts() {
 fn the_selected_stretches_go_to_the_plotter_as_gpx() {
     let dir = tempfile::tempdir().expect("temp dir");
     let mut harness = app_harness(dir.path());
-    let plan = harness.state().plan.clone().expect("plan");
-    let day = harness.state().view.day;
-    let names: Vec<String> = plan.days[day]
-        .ranked
-        .iter()
-        .take(2)
-        .map(|r| plan.stretches[r.stretch].name.clone())
-        .collect();
+    let names = ranked_names(&harness, 2);
     harness
         .get_by_label(&format!("Stretch {}", names[0]))
         .click();
