@@ -96,24 +96,21 @@ fn demo_index_has_upwelling_and_downwelling() {
     }
 }
 
-/// ecCodes (Debian `libeccodes-tools`, `grib_get_data`) reads the generator's GRIB2 and
-/// finds the generator's winds. CI installs it; elsewhere the test says it was skipped.
-#[test]
-fn eccodes_reads_the_demo_forecast() {
-    let dir = tempfile::tempdir().expect("temp dir");
-    let path = dir.path().join("f.grib2");
-    std::fs::write(&path, demo_forecast_grib2()).expect("write");
-    let out = Command::new("grib_get_data")
-        .args(["-w", "step=84,shortName=10v"])
-        .arg(&path)
-        .output();
-    let Ok(out) = out else {
+/// The rows (latitude, longitude east, value) that ecCodes' `grib_get_data` prints for
+/// the messages matching `filter`; `None` (the test skipped) where it is not installed,
+/// which CI does not allow.
+fn grib_get_data(path: &std::path::Path, filter: &str) -> Option<Vec<Vec<f64>>> {
+    let Ok(out) = Command::new("grib_get_data")
+        .args(["-w", filter])
+        .arg(path)
+        .output()
+    else {
         assert!(
             std::env::var_os("CI").is_none(),
             "grib_get_data is missing in CI: .ci/run installs libeccodes-tools"
         );
         eprintln!("skipped: grib_get_data (ecCodes) is not installed");
-        return;
+        return None;
     };
     assert!(
         out.status.success(),
@@ -121,12 +118,30 @@ fn eccodes_reads_the_demo_forecast() {
         String::from_utf8_lossy(&out.stderr)
     );
     let text = String::from_utf8(out.stdout).expect("utf-8");
+    Some(
+        text.lines()
+            .skip(1)
+            .map(|line| {
+                line.split_whitespace()
+                    .map(|x| x.parse().expect("number"))
+                    .collect()
+            })
+            .collect(),
+    )
+}
+
+/// ecCodes (Debian `libeccodes-tools`, `grib_get_data`) reads the generator's GRIB2 and
+/// finds the generator's winds. CI installs it; elsewhere the test says it was skipped.
+#[test]
+fn eccodes_reads_the_demo_forecast() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("f.grib2");
+    std::fs::write(&path, demo_forecast_grib2()).expect("write");
+    let Some(rows) = grib_get_data(&path, "step=84,shortName=10v") else {
+        return;
+    };
     let mut checked = 0;
-    for line in text.lines().skip(1) {
-        let cols: Vec<f64> = line
-            .split_whitespace()
-            .map(|x| x.parse().expect("number"))
-            .collect();
+    for cols in rows {
         let (lat, lon_e, v) = (cols[0], cols[1], cols[2]);
         let expected = demo_wind(lat, lon_e - 360.0, 84.0).v_m_s;
         assert!(
@@ -303,34 +318,15 @@ fn eccodes_reads_the_demo_waves() {
     let dir = tempfile::tempdir().expect("temp dir");
     let path = dir.path().join("w.grib2");
     std::fs::write(&path, &committed).expect("write");
-    let Ok(out) = Command::new("grib_get_data")
-        .args(["-w", "step=36,shortName=swh"])
-        .arg(&path)
-        .output()
-    else {
-        assert!(
-            std::env::var_os("CI").is_none(),
-            "grib_get_data is missing in CI: .ci/run installs libeccodes-tools"
-        );
-        eprintln!("skipped: grib_get_data (ecCodes) is not installed");
+    let Some(rows) = grib_get_data(&path, "step=36,shortName=swh") else {
         return;
     };
-    assert!(
-        out.status.success(),
-        "{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let text = String::from_utf8(out.stdout).expect("utf-8");
     let mut checked = 0;
-    for line in text.lines().skip(1) {
-        let cols: Vec<f64> = line
-            .split_whitespace()
-            .map(|x| x.parse().expect("number"))
-            .collect();
+    for cols in rows {
         let expected = demo_wave_height_m(cols[0], cols[1] - 360.0, 36.0);
         assert!(
             (cols[2] - expected).abs() < 0.006,
-            "{line}: generator {expected}"
+            "{cols:?}: generator {expected}"
         );
         checked += 1;
     }
