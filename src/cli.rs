@@ -47,6 +47,21 @@ pub enum Command {
     Season(SeasonArgs),
     /// Write the invented demo scenario and its synthetic forecast into a folder.
     Demo(DemoArgs),
+    /// What a wind or wave file holds (GRIB2, NetCDF or CSV) and what the tool will use.
+    Inspect {
+        /// The file.
+        file: PathBuf,
+    },
+}
+
+/// `shelfwind inspect FILE`: the file's fields, grid, area, times, issue time and centre,
+/// and what the tool will and will not use, on standard output.
+pub fn run_inspect(file: &Path) -> Result<(), CliError> {
+    let summary = crate::wind::inspect_file(file)?;
+    let mut out = std::io::stdout().lock();
+    let _ = writeln!(out, "{}", file.display());
+    let _ = write!(out, "{}", summary.to_text());
+    Ok(())
 }
 
 /// Output format of `season`.

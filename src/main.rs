@@ -2,7 +2,7 @@
 //! subcommands run the headless command line.
 
 use clap::Parser;
-use shelfwind::cli::{Cli, Command, run_demo, run_index, run_plan, run_season};
+use shelfwind::cli::{Cli, Command, run_demo, run_index, run_inspect, run_plan, run_season};
 use std::process::ExitCode;
 
 /// The desktop app, or a message when this build has none.
@@ -30,6 +30,7 @@ fn main() -> ExitCode {
         Some(Command::Plan(args)) => run_plan(args),
         Some(Command::Season(args)) => run_season(args),
         Some(Command::Demo(args)) => run_demo(args),
+        Some(Command::Inspect { file }) => run_inspect(file),
         None => run_app(None),
     };
     match result {

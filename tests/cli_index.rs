@@ -302,10 +302,10 @@ fn bad_files_exit_2_with_the_file_and_place_and_write_nothing() {
             vec!["no 10 m wind in the file", "no_10m_wind.grib2"],
         ),
         (
-            fixture("grib2/lambert_grid_relative.grib2"),
+            fixture("grib2/space_view.grib2"),
             vec![
-                "message 1: 10 m wind on a Lambert conformal grid",
-                "not supported yet",
+                "message 1: 10 m wind on a space view grid (template 3.90)",
+                "is not supported",
             ],
         ),
         (
@@ -473,4 +473,69 @@ fn help_lists_the_commands_and_unknown_options_exit_2() {
         "{}",
         stderr(&o)
     );
+}
+
+/// A NetCDF file holding the same analytic wind as a GRIB2 file (both README.md files:
+/// the same formula on the same 1° grid at 0, 6 and 12 h; the NetCDF written by PyPI
+/// netCDF4, the GRIB2 by ecCodes) gives the same index; a NetCDF file without wind says
+/// which variables it has.
+#[test]
+fn netcdf_and_grib2_of_the_same_field_give_the_same_index() {
+    let coast = fixture("coast/three_segments.geojson");
+    let run = |wind: &str| {
+        let o = shelfwind(&["index", "--coast", &coast, "--wind", &fixture(wind)]);
+        assert!(o.status.success(), "{wind}: {}", stderr(&o));
+        stdout(&o)
+    };
+    let from_grib = run("grib2/simple_hours.grib2");
+    let from_netcdf = run("netcdf/wind_classic.nc");
+    let from_netcdf4 = run("netcdf/wind_nc4_packed.nc");
+    assert_eq!(from_grib.lines().count(), 10);
+    for other in [&from_netcdf, &from_netcdf4] {
+        assert_eq!(other.lines().count(), from_grib.lines().count());
+        for (a, b) in from_grib.lines().zip(other.lines()).skip(1) {
+            let (a, b): (Vec<&str>, Vec<&str>) = (a.split(',').collect(), b.split(',').collect());
+            assert_eq!(a[..4], b[..4], "same segment, time and place");
+            // GRIB2 packs to 16 bits and the NetCDF-4 file to int16 with a scale factor:
+            // a few mm/s apart at most.
+            let (ia, ib): (f64, f64) = (a[6].parse().expect("index"), b[6].parse().expect("index"));
+            assert!((ia - ib).abs() < 0.5, "{a:?} vs {b:?}");
+        }
+    }
+    let o = shelfwind(&[
+        "index",
+        "--coast",
+        &coast,
+        "--wind",
+        &fixture("netcdf/no_wind.nc"),
+    ]);
+    assert_one_line_error(
+        &o,
+        &[
+            "bad wind file: no 10 m wind found",
+            "the file has: sst (time, lat, lon; sea_surface_temperature; degC)",
+            "no_wind.nc",
+        ],
+    );
+}
+
+/// `shelfwind inspect` on NetCDF: format, grid, area, times and the variables used.
+#[test]
+fn inspect_describes_a_netcdf_file() {
+    let o = shelfwind(&["inspect", &fixture("netcdf/wind_nc4_packed.nc")]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    for line in [
+        "Format: NetCDF-4 (HDF5)",
+        "Grid: latitude/longitude grid, 9 latitudes × 11 longitudes (lat and lon)",
+        "Area: 31.000° to 39.000° latitude, -125.000° to -115.000° longitude",
+        "Times: 2026-06-15 12:00 UTC to 2026-06-16 00:00 UTC (3 times, every 6 h)",
+        "Uses: 10 m wind: u = eastward_wind_10m, v = northward_wind_10m (units \"m/s\", converted to m/s)",
+    ] {
+        assert!(text.lines().any(|l| l == line), "{line:?} in\n{text}");
+    }
+    let o = shelfwind(&["inspect", &fixture("netcdf/wind_uwnd_noleap.nc")]);
+    assert!(stdout(&o).contains("Does not use: no usable 10 m wind: the time variable time has units \"days since 2026-01-01 00:00:00\": calendar \"noleap\" has no real dates"));
+    let o = shelfwind(&["inspect", &fixture("grib2/garbage.grib2")]);
+    assert_one_line_error(&o, &["bad wind file", "garbage.grib2"]);
 }

@@ -2,68 +2,19 @@
 //! values ecCodes' own `grib_get_data` (Debian ecCodes 2.28) prints for them.
 //! Fixtures, their dumps and the script that made them: `tests/fixtures/grib2/`.
 
-use chrono::{DateTime, NaiveDate, Utc};
+use chrono::DateTime;
 use shelfwind::coast::LatLon;
 use shelfwind::wind::{Grib2Samples, sample_grib2};
-use std::collections::BTreeMap;
 use std::path::PathBuf;
+
+#[path = "common/grib_dump.rs"]
+mod grib_dump;
+use grib_dump::{DumpField, parse_dump};
 
 fn fixture(name: &str) -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
         .join("tests/fixtures/grib2")
         .join(name)
-}
-
-/// One field of a reference dump.
-struct DumpField {
-    short_name: String,
-    valid: DateTime<Utc>,
-    points: Vec<(f64, f64, Option<f64>)>,
-}
-
-/// Parses the dump format documented in `tests/fixtures/grib2/README.md`.
-fn parse_dump(name: &str) -> Vec<DumpField> {
-    let text = std::fs::read_to_string(fixture(&format!("{name}.dump.txt"))).expect("dump exists");
-    let mut fields = Vec::new();
-    let mut meta: BTreeMap<String, String> = BTreeMap::new();
-    let mut points = Vec::new();
-    for line in text.lines().filter(|l| !l.starts_with('#')) {
-        if let Some(rest) = line.strip_prefix("META ") {
-            meta = rest
-                .split(' ')
-                .filter_map(|kv| kv.split_once('='))
-                .map(|(k, v)| (k.to_string(), v.to_string()))
-                .collect();
-        } else if line == "END" {
-            let date = &meta["validityDate"];
-            let time: u32 = meta["validityTime"].parse().expect("integer time");
-            let d = NaiveDate::parse_from_str(date, "%Y%m%d").expect("date");
-            let valid = d
-                .and_hms_opt(time / 100, time % 100, 0)
-                .expect("time")
-                .and_utc();
-            fields.push(DumpField {
-                short_name: meta["shortName"].clone(),
-                valid,
-                points: std::mem::take(&mut points),
-            });
-        } else if line.starts_with("FIELD") || line.starts_with("RAW") || line.starts_with("POINTS")
-        {
-        } else {
-            let cols: Vec<&str> = line.split(' ').collect();
-            let value = if cols[2] == "missing" {
-                None
-            } else {
-                Some(cols[2].parse().expect("value"))
-            };
-            points.push((
-                cols[0].parse().expect("lat"),
-                cols[1].parse().expect("lon"),
-                value,
-            ));
-        }
-    }
-    fields
 }
 
 fn sample(name: &str, points: &[LatLon]) -> Result<Grib2Samples, String> {
@@ -196,8 +147,8 @@ fn damaged_and_unsupported_files_give_clear_errors() {
             "no 10 m wind in the file: expected 10 m u and v (discipline 0, category 2, numbers 2 and 3, surface 103 at 10 m); found 0/0/0 at surface 103, 0/2/2 at surface 100, 0/2/3 at surface 100 (discipline/category/number)",
         ),
         (
-            "lambert_grid_relative.grib2",
-            "message 1: 10 m wind on a Lambert conformal grid (template 3.30) is not supported yet: only regular latitude/longitude grids (template 3.0) are read, since u/v on other grids are relative to the grid and need rotating",
+            "space_view.grib2",
+            "message 1: 10 m wind on a space view grid (template 3.90) is not supported: the tool reads regular latitude/longitude (template 3.0), rotated latitude/longitude (3.1), Mercator (3.10), polar stereographic (3.20), Lambert conformal (3.30) and regular Gaussian (3.40) grids",
         ),
         (
             "truncated.grib2",

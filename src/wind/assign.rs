@@ -25,6 +25,11 @@ pub enum WindSource {
         /// The file.
         path: PathBuf,
     },
+    /// A NetCDF file (classic or NetCDF-4) of 10 m wind; read like a GRIB2 file.
+    Netcdf {
+        /// The file.
+        path: PathBuf,
+    },
 }
 
 impl WindSource {
@@ -32,7 +37,9 @@ impl WindSource {
     #[must_use]
     pub fn path(&self) -> &Path {
         match self {
-            WindSource::Series { path, .. } | WindSource::Grib2 { path } => path,
+            WindSource::Series { path, .. }
+            | WindSource::Grib2 { path }
+            | WindSource::Netcdf { path } => path,
         }
     }
 }
@@ -50,6 +57,8 @@ pub struct SegmentWind {
     pub midpoint: Vec<Wind>,
 }
 
+/// A GRIB2 file by its content; the extension only decides that a file named as GRIB
+/// but holding something else gets the GRIB reader's message ("no GRIB message found").
 fn looks_like_grib(path: &Path, head: &[u8]) -> bool {
     let ext = path
         .extension()
@@ -77,10 +86,14 @@ pub fn load_sources(paths: &[PathBuf]) -> Result<Vec<WindSource>, WindError> {
 }
 
 fn load_source(path: &Path) -> Result<WindSource, WindFileError> {
-    let mut head = [0u8; 4];
-    let mut file = std::fs::File::open(path)?;
-    let n = file.read(&mut head)?;
-    if looks_like_grib(path, &head[..n]) {
+    let mut head = Vec::with_capacity(8);
+    std::fs::File::open(path)?.take(8).read_to_end(&mut head)?;
+    if super::netcdf::is_netcdf(&head) {
+        return Ok(WindSource::Netcdf {
+            path: path.to_path_buf(),
+        });
+    }
+    if looks_like_grib(path, &head) {
         return Ok(WindSource::Grib2 {
             path: path.to_path_buf(),
         });

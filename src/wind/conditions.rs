@@ -115,7 +115,7 @@ impl SourceSpan {
     fn of(source: &WindSource, read: &SourceSamples) -> Self {
         Self {
             kind: match source {
-                WindSource::Grib2 { .. } => SourceKind::Grid,
+                WindSource::Grib2 { .. } | WindSource::Netcdf { .. } => SourceKind::Grid,
                 WindSource::Series { series, .. } => SourceKind::Station(series.position),
             },
             times: read.times.first().copied().zip(read.times.last().copied()),
@@ -199,6 +199,29 @@ fn read_source(
             points: vec![Some(series.series.wind.clone()); points.len()],
             latest_reference: None,
         }),
+        WindSource::Netcdf { path } => {
+            if progress.is_cancelled() {
+                return Err(WindError::File {
+                    path: path.clone(),
+                    source: WindFileError::Cancelled,
+                });
+            }
+            let wanted: Vec<(f64, f64)> = points.iter().map(|p| (p.lat_deg, p.lon_deg)).collect();
+            let s = super::netcdf::sample_netcdf(path, &wanted).map_err(|e| WindError::File {
+                path: path.clone(),
+                source: WindFileError::Netcdf(e),
+            })?;
+            progress.set(1.0);
+            Ok(SourceSamples {
+                times: s.times,
+                points: s
+                    .points
+                    .into_iter()
+                    .map(|p| p.map(|uv| uv.into_iter().map(|(u, v)| Wind::new(u, v)).collect()))
+                    .collect(),
+                latest_reference: None,
+            })
+        }
         WindSource::Grib2 { path } => {
             let bad = |source: WindFileError| WindError::File {
                 path: path.clone(),
@@ -264,7 +287,7 @@ pub fn sample_waves(
                     }
                 }
             }
-            WindSource::Series { .. } => {}
+            WindSource::Series { .. } | WindSource::Netcdf { .. } => {}
             WindSource::Grib2 { path } => {
                 let bad = |source: WindFileError| WindError::File {
                     path: path.clone(),
@@ -322,7 +345,7 @@ fn nearest_station_of(sources: &[WindSource]) -> impl Fn(LatLon) -> Option<usize
         .enumerate()
         .filter_map(|(k, s)| match s {
             WindSource::Series { series, .. } => series.position.map(|p| (k, p)),
-            WindSource::Grib2 { .. } => None,
+            WindSource::Grib2 { .. } | WindSource::Netcdf { .. } => None,
         })
         .collect();
     move |p: LatLon| {
@@ -363,7 +386,7 @@ fn cover(
         WindSource::Series { series, .. } => {
             !g.grids_only && (series.position.is_none() || nearest_station(g.anchor) == Some(k))
         }
-        WindSource::Grib2 { .. } => true,
+        WindSource::Grib2 { .. } | WindSource::Netcdf { .. } => true,
     };
     if !allowed {
         return None;

@@ -11,13 +11,15 @@
 //! latitude).
 
 use super::WindFileError;
-use super::grid::{RegularGrid, Weights, interpolate};
+use super::grib2_grid::{GribGrid, GridError, PointRule, TEMPLATES_READ, grid_template_name};
+use super::projection::grid_to_earth;
 use crate::coast::LatLon;
 use crate::physics::Wind;
 use crate::progress::Progress;
 use chrono::{DateTime, TimeZone, Utc};
 use std::collections::{BTreeMap, HashMap};
 use std::io::{BufRead, BufReader, Read, Seek, SeekFrom};
+use std::sync::Arc;
 
 /// Wind sampled from a GRIB2 file at a list of points.
 #[derive(Debug, Clone, PartialEq)]
@@ -97,11 +99,11 @@ impl FieldHeader {
     }
 }
 
-fn u16_at(b: &[u8], at: usize) -> u16 {
+pub(super) fn u16_at(b: &[u8], at: usize) -> u16 {
     u16::from_be_bytes([b[at], b[at + 1]])
 }
 
-fn u32_at(b: &[u8], at: usize) -> u32 {
+pub(super) fn u32_at(b: &[u8], at: usize) -> u32 {
     u32::from_be_bytes([b[at], b[at + 1], b[at + 2], b[at + 3]])
 }
 
@@ -111,7 +113,7 @@ fn signed_i8(x: u8) -> i32 {
     if x & 0x80 == 0 { m } else { -m }
 }
 
-fn signed_i32(x: u32) -> i64 {
+pub(super) fn signed_i32(x: u32) -> i64 {
     let m = i64::from(x & 0x7fff_ffff);
     if x & 0x8000_0000 == 0 { m } else { -m }
 }
@@ -237,20 +239,6 @@ pub(super) fn valid_time(
                 h.forecast_time
             )
         })
-}
-
-/// The name of a grid definition template (Code Table 3.1) in error messages.
-pub(super) fn grid_template_name(t: u16) -> &'static str {
-    match t {
-        1 => "rotated latitude/longitude",
-        10 => "Mercator",
-        20 => "polar stereographic",
-        30 => "Lambert conformal",
-        40 => "Gaussian latitude/longitude",
-        90 => "space view",
-        101 => "unstructured",
-        _ => "other",
-    }
 }
 
 /// One GRIB message as read from a file.
@@ -380,205 +368,13 @@ impl<R: Read> Messages<R> {
     }
 }
 
-/// Why a grid definition section cannot be used.
-#[derive(Debug)]
-pub(super) enum GridError {
-    /// A grid template other than 3.0 (the number is given).
-    Unsupported(u16),
-    /// A regular latitude/longitude grid that is damaged or not regular.
-    Bad(String),
-}
-
-/// A regular latitude/longitude grid (template 3.0) as the file scans it.
-///
-/// Read here rather than by the decoder crate because real files (and ecCodes) store
-/// western longitudes with the sign bit set, which a reader of the unsigned field
-/// misplaces by thousands of degrees. Flag table 3.4 gives the scan order: bit 1 (0x80)
-/// points scan westward, bit 2 (0x40) rows run south to north, bit 3 (0x20) columns are
-/// consecutive, bit 4 (0x10) every other row runs backward. Rows and columns here count
-/// in scan order: row 0 is at `la1`, column 0 at `lo1`.
-#[derive(Debug, Clone, PartialEq)]
-pub(super) struct LatLonGrid {
-    /// Number of columns (points along a parallel).
-    pub(super) ni: usize,
-    /// Number of rows (points along a meridian).
-    pub(super) nj: usize,
-    la1_deg: f64,
-    lo1_deg: f64,
-    /// Step from one row to the next in scan order, degrees (negative north to south).
-    dlat_deg: f64,
-    /// Step from one column to the next in scan order, degrees (negative westward).
-    dlon_deg: f64,
-    columns_consecutive: bool,
-    alternate: bool,
-}
-
-impl LatLonGrid {
-    /// Reads the grid from a grid definition section (section 3).
-    pub(super) fn parse(s3: &[u8]) -> Result<Self, GridError> {
-        let bad = |p: &str| GridError::Bad(p.to_string());
-        if s3.len() < 14 {
-            return Err(bad("grid definition section is cut short"));
-        }
-        let template = u16_at(s3, 12);
-        if template != 0 {
-            return Err(GridError::Unsupported(template));
-        }
-        if s3.len() < 72 {
-            return Err(bad("grid definition template 3.0 is cut short"));
-        }
-        let ni = u32_at(s3, 30) as usize;
-        let nj = u32_at(s3, 34) as usize;
-        let declared = u32_at(s3, 6) as usize;
-        if ni == 0
-            || nj == 0
-            || ni == 0xffff_ffff
-            || nj == 0xffff_ffff
-            || ni.checked_mul(nj) != Some(declared)
-        {
-            return Err(GridError::Bad(format!(
-                "grid of {ni} × {nj} points does not match its {declared} data points: quasi-regular grids are not supported"
-            )));
-        }
-        let (basic, subdivisions) = (u32_at(s3, 38), u32_at(s3, 42));
-        let unit_deg = if basic == 0
-            || basic == 0xffff_ffff
-            || subdivisions == 0
-            || subdivisions == 0xffff_ffff
-        {
-            1e-6
-        } else {
-            f64::from(basic) / f64::from(subdivisions)
-        };
-        let angle = |at: usize| signed_i32(u32_at(s3, at)) as f64 * unit_deg;
-        let (la1, lo1, la2, lo2) = (angle(46), angle(50), angle(55), angle(59));
-        let scan = s3[71];
-        let (west, north_up) = (scan & 0x80 != 0, scan & 0x40 != 0);
-        let dlat = if nj > 1 {
-            (la2 - la1) / (nj - 1) as f64
-        } else {
-            0.0
-        };
-        if nj > 1 && ((dlat > 0.0) != north_up) {
-            return Err(GridError::Bad(format!(
-                "first and last latitudes ({la1}, {la2}) disagree with the scanning mode {scan:#04x}"
-            )));
-        }
-        let span = if west {
-            (lo1 - lo2).rem_euclid(360.0)
-        } else {
-            (lo2 - lo1).rem_euclid(360.0)
-        };
-        let dlon = if ni > 1 {
-            span / (ni - 1) as f64 * if west { -1.0 } else { 1.0 }
-        } else {
-            0.0
-        };
-        Ok(Self {
-            ni,
-            nj,
-            la1_deg: la1,
-            lo1_deg: lo1,
-            dlat_deg: dlat,
-            dlon_deg: dlon,
-            columns_consecutive: scan & 0x20 != 0,
-            alternate: scan & 0x10 != 0,
-        })
-    }
-
-    /// Number of grid points.
-    pub(super) fn len(&self) -> usize {
-        self.ni * self.nj
-    }
-
-    /// Row and column (scan order) of the `k`-th value.
-    pub(super) fn row_col(&self, k: usize) -> (usize, usize) {
-        let (ni, nj) = (self.ni, self.nj);
-        let (mut row, mut col) = if self.columns_consecutive {
-            (k % nj, k / nj)
-        } else {
-            (k / ni, k % ni)
-        };
-        if self.alternate {
-            if self.columns_consecutive && col % 2 == 1 {
-                row = nj - 1 - row;
-            } else if !self.columns_consecutive && row % 2 == 1 {
-                col = ni - 1 - col;
-            }
-        }
-        (row, col)
-    }
-
-    /// Position of the value at `row`, `col` (scan order) in the data.
-    pub(super) fn data_index(&self, row: usize, col: usize) -> usize {
-        let (ni, nj) = (self.ni, self.nj);
-        if self.columns_consecutive {
-            let row = if self.alternate && col % 2 == 1 {
-                nj - 1 - row
-            } else {
-                row
-            };
-            col * nj + row
-        } else {
-            let col = if self.alternate && row % 2 == 1 {
-                ni - 1 - col
-            } else {
-                col
-            };
-            row * ni + col
-        }
-    }
-
-    /// Positions of the values (latitude, longitude in degrees) in data order.
-    pub(super) fn positions(&self) -> Vec<(f64, f64)> {
-        (0..self.len())
-            .map(|k| {
-                let (row, col) = self.row_col(k);
-                (
-                    self.la1_deg + row as f64 * self.dlat_deg,
-                    self.lo1_deg + col as f64 * self.dlon_deg,
-                )
-            })
-            .collect()
-    }
-
-    /// Whether the columns go all the way round, so the last neighbours the first.
-    pub(super) fn is_global(&self) -> bool {
-        let step = self.dlon_deg.abs();
-        step > 0.0 && (step * self.ni as f64 - 360.0).abs() < step * 0.5
-    }
-
-    /// Fractional row and column (scan order) of `p`, measured in grid steps from the
-    /// first point. The column is taken modulo 360° and lies in
-    /// `-1.5 .. 360°/step - 1.5`, so a point just before the first column (across the
-    /// seam of a global grid) has a small negative column.
-    pub(super) fn fractional_row_col(&self, p: LatLon) -> (f64, f64) {
-        let row = if self.dlat_deg == 0.0 {
-            0.0
-        } else {
-            (p.lat_deg - self.la1_deg) / self.dlat_deg
-        };
-        let step = self.dlon_deg.abs();
-        if step == 0.0 {
-            return (row, 0.0);
-        }
-        let along = if self.dlon_deg > 0.0 {
-            p.lon_deg - self.lo1_deg
-        } else {
-            self.lo1_deg - p.lon_deg
-        };
-        let turn = 360.0 / step;
-        let mut col = along.rem_euclid(360.0) / step;
-        if col > turn - 1.5 {
-            col -= turn;
-        }
-        (row, col)
-    }
-}
-
 struct Field {
     message: usize,
+    /// One value per requested point (NaN where it has none).
     values: Vec<f32>,
+    /// Per point, the angle that turns the grid's axes to east and north; `None` when
+    /// the field is already along east and north.
+    north_angles: Option<Arc<Vec<f64>>>,
 }
 
 impl Component {
@@ -596,16 +392,24 @@ impl Component {
 struct Gathered {
     /// Per valid time, the u and v fields.
     fields: BTreeMap<DateTime<Utc>, [Option<Field>; 2]>,
-    /// Bilinear weights per distinct grid definition, so a grid is set up once.
-    grids: HashMap<Vec<u8>, GridWeights>,
+    /// How each point is sampled, per distinct grid definition, so a grid is set up once.
+    grids: HashMap<Vec<u8>, GridRules>,
     /// Descriptions of the fields that are not 10 m wind, for the error when none is.
     other_params: Vec<String>,
     /// The newest reference time among the messages with wind.
     latest_reference: Option<DateTime<Utc>>,
 }
 
-/// Number of grid values, and bilinear weights for each requested point.
-type GridWeights = (usize, Vec<Option<Weights>>);
+/// How the requested points are sampled on one grid.
+struct GridRules {
+    /// Number of grid values.
+    count: usize,
+    /// One rule per requested point.
+    rules: Vec<PointRule>,
+    /// Per point, the angle from the grid's y axis to true north, when the grid gives u
+    /// and v along its own axes.
+    north_angles: Option<Arc<Vec<f64>>>,
+}
 
 /// An error about message `message` (1-based) of the file.
 pub(super) fn message_error(message: usize, problem: String) -> WindFileError {
@@ -692,9 +496,9 @@ impl Gathered {
         }
         self.latest_reference = Some(self.latest_reference.map_or(ref_time, |t| t.max(ref_time)));
         let decoded = decode_message(msg, &headers, points, &mut self.grids).map_err(fail)?;
-        for (h, component, values) in decoded {
-            let t = valid_time(ref_time, &h).map_err(fail)?;
-            self.store(message, t, component, values)?;
+        for field in decoded {
+            let t = valid_time(ref_time, &field.header).map_err(fail)?;
+            self.store(message, t, field)?;
         }
         Ok(())
     }
@@ -704,9 +508,9 @@ impl Gathered {
         &mut self,
         message: usize,
         t: DateTime<Utc>,
-        component: Component,
-        values: Vec<f32>,
+        field: SampledField,
     ) -> Result<(), WindFileError> {
+        let component = field.component;
         let slot = &mut self.fields.entry(t).or_default()[component as usize];
         if let Some(first) = slot {
             return Err(message_error(
@@ -719,7 +523,11 @@ impl Gathered {
                 ),
             ));
         }
-        *slot = Some(Field { message, values });
+        *slot = Some(Field {
+            message,
+            values: field.values,
+            north_angles: field.north_angles,
+        });
         Ok(())
     }
 
@@ -736,8 +544,18 @@ impl Gathered {
             let Some((u, v)) = matched_pair(t, pair)? else {
                 continue;
             };
+            if u.north_angles != v.north_angles {
+                return Err(message_error(
+                    v.message,
+                    format!(
+                        "10 m v valid at {} is on another grid than its u (message {}): u and v must share one grid",
+                        utc_stamp(t),
+                        u.message
+                    ),
+                ));
+            }
             times.push(t);
-            push_winds(&mut per_point, &u.values, &v.values);
+            push_winds(&mut per_point, &u, &v);
         }
         Ok(Grib2Samples {
             times,
@@ -783,14 +601,19 @@ fn matched_pair(
     }
 }
 
-/// Appends one time step to each point's series; a point missing at any time ends up
-/// with no series (see [`Grib2Samples::points`]).
-fn push_winds(per_point: &mut [Option<Vec<Wind>>], u_m_s: &[f32], v_m_s: &[f32]) {
+/// Appends one time step to each point's series, turning winds given along a grid's
+/// axes to east and north; a point missing at any time ends up with no series (see
+/// [`Grib2Samples::points`]).
+fn push_winds(per_point: &mut [Option<Vec<Wind>>], u: &Field, v: &Field) {
     for (k, slot) in per_point.iter_mut().enumerate() {
         if let Some(series) = slot {
-            let (uu, vv) = (f64::from(u_m_s[k]), f64::from(v_m_s[k]));
+            let (uu, vv) = (f64::from(u.values[k]), f64::from(v.values[k]));
             if uu.is_finite() && vv.is_finite() {
-                series.push(Wind::new(uu, vv));
+                let (east, north) = match &u.north_angles {
+                    Some(angles) => grid_to_earth(uu, vv, angles[k]),
+                    None => (uu, vv),
+                };
+                series.push(Wind::new(east, north));
             } else {
                 *slot = None;
             }
@@ -843,71 +666,74 @@ pub(super) fn no_message_error() -> WindFileError {
     WindFileError::Grib("no GRIB message found: expected a GRIB2 file".into())
 }
 
-/// The grid in `s3` as a `RegularGrid` (for bilinear weights) and in scan order. Other
-/// grid templates are refused with "`what` on a … grid … is not supported yet", then
-/// `because`.
-pub(super) fn read_grid(
-    s3: &[u8],
-    what: &str,
-    because: &str,
-) -> Result<(LatLonGrid, RegularGrid), String> {
-    let scan = LatLonGrid::parse(s3).map_err(|e| match e {
+/// The grid in `s3`. Other grid templates are refused with "`what` on a … grid … is not
+/// supported", naming the template and the ones read.
+pub(super) fn read_grid(s3: &[u8], what: &str) -> Result<GribGrid, String> {
+    GribGrid::parse(s3).map_err(|e| match e {
         GridError::Unsupported(template) => format!(
-            "{what} on a {} grid (template 3.{template}) is not supported yet: only regular latitude/longitude grids (template 3.0) are read{because}",
+            "{what} on a {} grid (template 3.{template}) is not supported: the tool reads {TEMPLATES_READ} grids",
             grid_template_name(template)
         ),
         GridError::Bad(problem) => problem,
-    })?;
-    let grid = RegularGrid::from_points(&scan.positions(), scan.ni, scan.nj)?;
-    Ok((scan, grid))
+    })
 }
 
-/// Decodes the wind fields of one message and samples them at the points. Returns, per
-/// wind field: its header, its component and one value per point (NaN outside).
+impl GridRules {
+    /// Sets up the sampling of `points` on the grid of `s3`.
+    fn new(s3: &[u8], points: &[LatLon]) -> Result<Self, String> {
+        let grid = read_grid(s3, "10 m wind")?;
+        let north_angles = grid
+            .uv_relative_to_grid
+            .then(|| Arc::new(points.iter().map(|&p| grid.north_angle_rad(p)).collect()));
+        Ok(Self {
+            count: grid.len(),
+            rules: points.iter().map(|&p| PointRule::new(&grid, p)).collect(),
+            north_angles,
+        })
+    }
+}
+
+/// One decoded wind field sampled at the points.
+struct SampledField {
+    header: FieldHeader,
+    component: Component,
+    values: Vec<f32>,
+    north_angles: Option<Arc<Vec<f64>>>,
+}
+
+/// Decodes the wind fields of one message and samples them at the points (NaN outside
+/// the grid or where the field has no value nearby).
 fn decode_message(
     msg: &[u8],
     headers: &[FieldHeader],
     points: &[LatLon],
-    grids: &mut HashMap<Vec<u8>, GridWeights>,
-) -> Result<Vec<(FieldHeader, Component, Vec<f32>)>, String> {
+    grids: &mut HashMap<Vec<u8>, GridRules>,
+) -> Result<Vec<SampledField>, String> {
     let mut out = Vec::new();
     for h in headers {
         let Some(component) = h.wind_component() else {
             continue;
         };
         let section3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
-        let key = section3.to_vec();
-        if !grids.contains_key(&key) {
-            let (scan, grid) = read_grid(
-                section3,
-                "10 m wind",
-                ", since u/v on other grids are relative to the grid and need rotating",
-            )?;
-            grids.insert(
-                key.clone(),
-                (
-                    scan.len(),
-                    points.iter().map(|&p| grid.weights(p)).collect(),
-                ),
-            );
+        if !grids.contains_key(section3) {
+            grids.insert(section3.to_vec(), GridRules::new(section3, points)?);
         }
-        let (count, weights) = &grids[&key];
+        let grid = &grids[section3];
         let values =
             decode_field(msg, h).map_err(|e| format!("10 m wind field cannot be decoded: {e}"))?;
-        if values.len() != *count {
+        if values.len() != grid.count {
             return Err(format!(
-                "10 m wind field has {} values for {count} grid points",
-                values.len()
+                "10 m wind field has {} values for {} grid points",
+                values.len(),
+                grid.count
             ));
         }
-        let sampled = weights
-            .iter()
-            .map(|w| {
-                w.as_ref()
-                    .map_or(f32::NAN, |w| interpolate(w, &values) as f32)
-            })
-            .collect();
-        out.push((*h, component, sampled));
+        out.push(SampledField {
+            header: *h,
+            component,
+            values: grid.rules.iter().map(|r| r.sample(&values)).collect(),
+            north_angles: grid.north_angles.clone(),
+        });
     }
     Ok(out)
 }

@@ -11,8 +11,11 @@ mod conditions;
 mod csv;
 mod demo;
 mod grib2;
+mod grib2_grid;
 mod grib2_writer;
-mod grid;
+mod inspect;
+mod netcdf;
+mod projection;
 mod waves;
 
 pub use assign::{
@@ -29,11 +32,12 @@ pub use demo::{
     demo_wind,
 };
 pub use grib2::{Grib2Samples, sample_grib2, sample_grib2_with};
+pub use grib2_grid::{GribGrid, NEAREST_CELLS, Weights};
 pub use grib2_writer::{GridField, Parameter, encode_message, encode_wind_message};
-pub use grid::RegularGrid;
+pub use inspect::{FileSummary, TimeSpan, grib2_wind_grids, inspect_file, inspect_grib2};
+pub use projection::{Earth, Projection, RotatedPole, gaussian_latitudes, grid_to_earth};
 pub use waves::{
-    Grib2Contents, NEAREST_CELLS, Wave, WaveSamples, grib2_contents, sample_waves_grib2,
-    sample_waves_grib2_sized,
+    Grib2Contents, Wave, WaveSamples, grib2_contents, sample_waves_grib2, sample_waves_grib2_sized,
 };
 
 use crate::coast::LatLon;
@@ -105,9 +109,9 @@ pub enum WindFileError {
     /// The file could not be read at all.
     #[error("cannot read the file: {0}")]
     Io(#[from] std::io::Error),
-    /// Neither GRIB2 nor CSV.
+    /// Neither GRIB2, NetCDF nor CSV.
     #[error(
-        "not a wind file this tool reads: expected GRIB2 (starting with \"GRIB\") or CSV text with a header line"
+        "not a wind file this tool reads: expected GRIB2 (starting with \"GRIB\"), NetCDF (classic or NetCDF-4) or CSV text with a header line"
     )]
     UnknownFormat,
     /// A problem at a line of a CSV file.
@@ -129,6 +133,9 @@ pub enum WindFileError {
     /// A problem with a GRIB2 file as a whole.
     #[error("{0}")]
     Grib(String),
+    /// A problem in a NetCDF file.
+    #[error("{0}")]
+    Netcdf(String),
     /// The user stopped the reading.
     #[error("stopped before the end of the file")]
     Cancelled,

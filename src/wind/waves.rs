@@ -35,10 +35,10 @@
 //! on its own.
 
 use super::grib2::{
-    FieldHeader, LatLonGrid, Messages, decode_field, empty_file_error, message_error,
-    no_message_error, read_grid, scan_message, utc_stamp, valid_time,
+    FieldHeader, Messages, decode_field, empty_file_error, message_error, no_message_error,
+    read_grid, scan_message, utc_stamp, valid_time,
 };
-use super::grid::Weights;
+use super::grib2_grid::PointRule;
 use super::{PointSeries, WindFileError};
 use crate::coast::LatLon;
 use crate::progress::Progress;
@@ -139,92 +139,6 @@ impl WaveKind {
     }
 }
 
-/// How one requested point is sampled on one grid.
-#[derive(Debug, Clone, PartialEq)]
-struct PointRule {
-    /// Bilinear weights, `None` outside the grid.
-    bilinear: Option<Weights>,
-    /// Distances (grid steps) and data positions of the grid points within
-    /// [`NEAREST_CELLS`] of the point, nearest first: where the value is taken from when
-    /// a bilinear corner is missing.
-    nearby: Vec<(f64, usize)>,
-}
-
-/// Grid points whose distances differ by less than this (grid steps) are equally near.
-const TIE_CELLS: f64 = 1e-6;
-
-/// How far (in grid steps) a point looks for the nearest sea value when a bilinear
-/// corner is land.
-pub const NEAREST_CELLS: f64 = 1.5;
-
-/// The grid points within [`NEAREST_CELLS`] of `p`, as distances in grid steps and data
-/// positions, nearest first.
-fn nearby_points(scan: &LatLonGrid, p: LatLon) -> Vec<(f64, usize)> {
-    let (row, col) = scan.fractional_row_col(p);
-    // Grid sizes come from 32-bit fields, so they fit.
-    let nj = i64::try_from(scan.nj).unwrap_or(i64::MAX);
-    let ni = i64::try_from(scan.ni).unwrap_or(i64::MAX);
-    let mut found: Vec<(f64, usize)> = Vec::new();
-    let span = |x: f64| (x - NEAREST_CELLS).ceil() as i64..=(x + NEAREST_CELLS).floor() as i64;
-    for j in span(row).filter(|j| (0..nj).contains(j)) {
-        for i in span(col) {
-            let distance = (row - j as f64).hypot(col - i as f64);
-            let column = if scan.is_global() {
-                i.rem_euclid(ni)
-            } else if (0..ni).contains(&i) {
-                i
-            } else {
-                continue;
-            };
-            if distance <= NEAREST_CELLS + 1e-9 {
-                found.push((distance, scan.data_index(j as usize, column as usize)));
-            }
-        }
-    }
-    found.sort_by(|a, b| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1)));
-    // A global grid narrower than four columns could list a point twice.
-    let mut seen = std::collections::HashSet::new();
-    found.retain(|f| seen.insert(f.1));
-    found
-}
-
-impl PointRule {
-    /// The value at the point from grid values in data order (NaN = missing): bilinear
-    /// where every weighted corner has a value, else the nearest value nearby (the mean
-    /// of those equally near, so that the answer does not depend on the scan order);
-    /// NaN when there is none.
-    fn sample(&self, values: &[f32]) -> f32 {
-        let Some(weights) = &self.bilinear else {
-            return f32::NAN;
-        };
-        let value = |k: usize| values.get(k).copied().unwrap_or(f32::NAN);
-        if weights
-            .iter()
-            .all(|&(k, w)| w == 0.0 || value(k).is_finite())
-        {
-            return weights
-                .iter()
-                .filter(|&&(_, w)| w != 0.0)
-                .map(|&(k, w)| f64::from(value(k)) * w)
-                .sum::<f64>() as f32;
-        }
-        let mut valued = self
-            .nearby
-            .iter()
-            .map(|&(d, k)| (d, value(k)))
-            .filter(|(_, v)| v.is_finite());
-        let Some((nearest, first)) = valued.next() else {
-            return f32::NAN;
-        };
-        let (mut sum, mut count) = (f64::from(first), 1.0);
-        for (_, v) in valued.take_while(|(d, _)| *d - nearest < TIE_CELLS) {
-            sum += f64::from(v);
-            count += 1.0;
-        }
-        (sum / count) as f32
-    }
-}
-
 /// Number of grid values, and how each requested point is sampled.
 type GridRules = (usize, Vec<PointRule>);
 
@@ -284,22 +198,9 @@ impl Gathered {
     ) -> Result<Vec<f32>, String> {
         let section3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
         if !self.grids.contains_key(section3) {
-            let (scan, grid) = read_grid(section3, kind.name(), "")?;
-            let rules = points
-                .iter()
-                .map(|&p| {
-                    let bilinear = grid.weights(p);
-                    PointRule {
-                        bilinear,
-                        nearby: if bilinear.is_some() {
-                            nearby_points(&scan, p)
-                        } else {
-                            Vec::new()
-                        },
-                    }
-                })
-                .collect();
-            self.grids.insert(section3.to_vec(), (scan.len(), rules));
+            let grid = read_grid(section3, kind.name())?;
+            let rules = points.iter().map(|&p| PointRule::new(&grid, p)).collect();
+            self.grids.insert(section3.to_vec(), (grid.len(), rules));
         }
         let (count, rules) = &self.grids[section3];
         let values =
@@ -513,82 +414,6 @@ impl PointSeries {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    /// A grid definition section, template 3.0, for the scan-order tests.
-    fn section3(ni: u32, nj: u32, la1: i32, lo1: i32, la2: i32, lo2: i32, scan: u8) -> Vec<u8> {
-        let mut s = vec![0u8; 72];
-        s[0..4].copy_from_slice(&72u32.to_be_bytes());
-        s[4] = 3;
-        s[6..10].copy_from_slice(&(ni * nj).to_be_bytes());
-        s[30..34].copy_from_slice(&ni.to_be_bytes());
-        s[34..38].copy_from_slice(&nj.to_be_bytes());
-        let signed = |x: i32| {
-            let m = x.unsigned_abs();
-            if x < 0 { m | 0x8000_0000 } else { m }
-        };
-        s[46..50].copy_from_slice(&signed(la1).to_be_bytes());
-        s[50..54].copy_from_slice(&signed(lo1).to_be_bytes());
-        s[55..59].copy_from_slice(&signed(la2).to_be_bytes());
-        s[59..63].copy_from_slice(&signed(lo2).to_be_bytes());
-        s[71] = scan;
-        s
-    }
-
-    fn grid(s3: &[u8]) -> LatLonGrid {
-        LatLonGrid::parse(s3).expect("a valid grid")
-    }
-
-    /// `data_index` inverts the scan order for every scanning mode.
-    #[test]
-    fn data_index_inverts_every_scan_order() {
-        for scan in [0x00, 0x40, 0x80, 0xc0, 0x20, 0x60, 0x10, 0x50, 0x30] {
-            let (la1, la2) = if scan & 0x40 == 0 {
-                (40_000_000, 38_000_000)
-            } else {
-                (38_000_000, 40_000_000)
-            };
-            let g = grid(&section3(4, 3, la1, 0, la2, 3_000_000, scan));
-            for k in 0..g.len() {
-                let (row, col) = g.row_col(k);
-                assert_eq!(g.data_index(row, col), k, "scan {scan:#04x}");
-            }
-        }
-    }
-
-    /// Nearest first, within 1.5 steps, across the seam of a global grid.
-    #[test]
-    fn nearby_points_wrap_on_a_global_grid() {
-        // 8 columns of 45°: global; 3 rows 10°N, 0°, 10°S (north to south).
-        let g = grid(&section3(8, 3, 10_000_000, 0, -10_000_000, 315_000_000, 0));
-        assert!(g.is_global());
-        let near = nearby_points(&g, LatLon::new(0.0, -10.0));
-        // Nearest: the 0° column on the equator (row 1, col 0), then 315° (col 7).
-        let near: Vec<usize> = near.iter().map(|n| n.1).collect();
-        assert_eq!(near[0], g.data_index(1, 0));
-        assert_eq!(near[1], g.data_index(1, 7));
-        assert!(near.contains(&g.data_index(0, 7)));
-        assert!(!near.contains(&g.data_index(1, 6)));
-    }
-
-    #[test]
-    fn sampling_falls_back_to_the_nearest_sea_value() {
-        // 2 × 2 cell, one corner missing: the nearest valued corner wins.
-        let rule = PointRule {
-            bilinear: Some([(0, 0.25), (1, 0.25), (2, 0.25), (3, 0.25)]),
-            nearby: vec![(0.3, 3), (0.6, 1), (0.6, 2), (0.9, 0)],
-        };
-        assert!((rule.sample(&[1.0, 2.0, 3.0, 4.0]) - 2.5).abs() < 1e-6);
-        // The nearest valued points (1 and 2) are equally near: their mean.
-        assert!((rule.sample(&[1.0, 2.0, 3.0, f32::NAN]) - 2.5).abs() < 1e-6);
-        assert!((rule.sample(&[1.0, f32::NAN, 3.0, f32::NAN]) - 3.0).abs() < 1e-6);
-        assert!(rule.sample(&[f32::NAN; 4]).is_nan());
-        // A missing corner with zero weight does not stop the interpolation.
-        let edge = PointRule {
-            bilinear: Some([(0, 0.5), (1, 0.5), (2, 0.0), (3, 0.0)]),
-            nearby: vec![(0.0, 0), (1.0, 1)],
-        };
-        assert!((edge.sample(&[1.0, 3.0, f32::NAN, f32::NAN]) - 2.0).abs() < 1e-6);
-    }
 
     /// Wind sea 3 m and swell 4 m make 5 m: significant heights add as energies.
     #[test]
