@@ -178,7 +178,7 @@ pub enum PlanFormatArg {
 pub struct PlanArgs {
     /// The scenario file.
     pub scenario: PathBuf,
-    /// Wind file, GRIB2 or CSV; repeat for several. Default: the scenario's wind files.
+    /// Wind file, GRIB2, NetCDF or CSV; repeat for several. Default: the scenario's wind files.
     #[arg(long, value_name = "WIND")]
     pub wind: Vec<PathBuf>,
     /// First day to plan, local to the scenario (2027-05-11, or a full ISO 8601 time).
@@ -299,7 +299,7 @@ pub struct IndexArgs {
     /// properties `id` and `sea` (without `sea`, the side comes from the bundled land).
     #[arg(long, value_name = "COAST")]
     pub coast: PathBuf,
-    /// Wind file, GRIB2 or CSV; repeat for several (each segment takes the first that
+    /// Wind file, GRIB2, NetCDF or CSV; repeat for several (each segment takes the first that
     /// covers it). Default: the scenario's wind files.
     #[arg(long, value_name = "WIND")]
     pub wind: Vec<PathBuf>,

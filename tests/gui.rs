@@ -274,14 +274,14 @@ fn season_view_analyses_a_record_and_exports_the_table() {
     harness.run_steps(3);
     let field = harness.get_by_role_and_label(
         egui::accesskit::Role::MultilineTextInput,
-        "Wind record files (GRIB2 or CSV), one path per line",
+        "Wind record files (GRIB2, NetCDF or CSV), one path per line",
     );
     field.focus();
     harness.run_steps(2);
     harness
         .get_by_role_and_label(
             egui::accesskit::Role::MultilineTextInput,
-            "Wind record files (GRIB2 or CSV), one path per line",
+            "Wind record files (GRIB2, NetCDF or CSV), one path per line",
         )
         .type_text(csv.to_str().expect("utf-8"));
     harness.run_steps(2);
@@ -860,4 +860,60 @@ fn the_selected_stretches_go_to_the_plotter_as_gpx() {
         gpx.routes[0].points[0].name.as_deref(),
         Some("Tern Harbour")
     );
+}
+
+/// Adding a NetCDF wind file: the file is kept, and the wind files window opens on what
+/// the file holds (the same text as `shelfwind inspect`), on screen.
+#[test]
+fn an_added_netcdf_file_is_described_in_the_wind_files_window() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let path = PathBuf::from(fixture("netcdf/wind_nc4_packed.nc"));
+    harness.state_mut().send(shelfwind::app::Command::File(
+        shelfwind::app::FileAction::ImportWind,
+        path.clone(),
+    ));
+    harness.run_steps(2);
+    wait_for_plan(&mut harness);
+    harness.run_steps(3);
+    assert_eq!(
+        harness.state().doc.scenario.wind_files.last(),
+        Some(&path),
+        "the file is kept"
+    );
+    harness.get_by_label_contains("Wind file added:");
+    // Every file of the list is described; the one just added is open.
+    let files = harness.state().doc.scenario.wind_files.len();
+    assert_eq!(
+        harness.get_all_by_label("What the file holds").count(),
+        files
+    );
+    harness.get_by_label("Format: NetCDF-4 (HDF5)");
+    harness.get_by_label(
+        "Uses: 10 m wind: u = eastward_wind_10m, v = northward_wind_10m (units \"m/s\", converted to m/s)",
+    );
+    let expected = shelfwind::wind::inspect_file(&path)
+        .expect("readable")
+        .to_text();
+    assert_eq!(harness.state().file_summaries.get(&path), Some(&expected));
+}
+
+/// A NetCDF file without wind is refused; the message says what the file holds.
+#[test]
+fn a_netcdf_file_without_wind_is_refused_with_its_contents() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let before = harness.state().doc.scenario.wind_files.clone();
+    harness.state_mut().send(shelfwind::app::Command::File(
+        shelfwind::app::FileAction::ImportWind,
+        PathBuf::from(fixture("netcdf/no_wind.nc")),
+    ));
+    harness.run_steps(2);
+    wait_for_plan(&mut harness);
+    harness.run_steps(2);
+    harness.get_by_label_contains("The wind file was not added; the forecast is as it was.");
+    harness
+        .get_by_label_contains("the file has: sst (time, lat, lon; sea_surface_temperature; degC)");
+    harness.get_by_label_contains("What the file holds:\nFormat: NetCDF");
+    assert_eq!(harness.state().doc.scenario.wind_files, before);
 }

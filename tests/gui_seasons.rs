@@ -16,7 +16,7 @@ use shelfwind::app::ShelfwindApp;
 use std::path::Path;
 use std::time::Duration;
 
-const RECORD_FIELD: &str = "Wind record files (GRIB2 or CSV), one path per line";
+const RECORD_FIELD: &str = "Wind record files (GRIB2, NetCDF or CSV), one path per line";
 /// The Seasons window's title, which also names the window's node.
 const WINDOW: &str = "Seasons: compare segments over years of wind";
 /// Height of a window's title bar, points (at most).

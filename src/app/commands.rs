@@ -14,7 +14,7 @@ pub enum FileAction {
     OpenScenario,
     /// Save the scenario under a new name.
     SaveScenarioAs,
-    /// Import a wind file (GRIB2 or CSV) as the scenario's forecast.
+    /// Import a wind file (GRIB2, NetCDF or CSV) as the scenario's forecast.
     ImportWind,
     /// Add coast segments from GeoJSON.
     ImportCoast,
@@ -41,7 +41,7 @@ impl FileAction {
         match self {
             FileAction::OpenScenario => "Open scenario",
             FileAction::SaveScenarioAs => "Save scenario as",
-            FileAction::ImportWind => "Add a wind file (GRIB2 or CSV)",
+            FileAction::ImportWind => "Add a wind file (GRIB2, NetCDF or CSV)",
             FileAction::ImportCoast => "Import coast (GeoJSON)",
             FileAction::ExportCoast => "Export coast (GeoJSON)",
             FileAction::ExportPlanCsv => "Export plan (CSV)",
@@ -69,7 +69,7 @@ impl FileAction {
             FileAction::OpenScenario | FileAction::SaveScenarioAs | FileAction::ExportPlanJson => {
                 &["json"]
             }
-            FileAction::ImportWind => &["grib2", "grb2", "grib", "grb", "csv"],
+            FileAction::ImportWind => &["grib2", "grb2", "grib", "grb", "nc", "nc4", "csv"],
             FileAction::ImportCoast | FileAction::ExportCoast | FileAction::ExportPlanGeoJson => {
                 &["geojson", "json"]
             }

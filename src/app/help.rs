@@ -36,7 +36,7 @@ const GUIDE: &[(&str, &str)] = &[
     ),
     (
         "Wind files",
-        "File > Add a wind file… adds a GRIB2 forecast or a CSV station record; File > Wind files… lists them, what each holds and which segments take their wind from it, and sets their order: each segment takes the first file that covers it.",
+        "File > Add a wind file… adds a GRIB2 forecast (any usual grid), a NetCDF record or a CSV station record; File > Wind files… lists them, what each holds (format, grid, area, times, what is used) and which segments take their wind from it, and sets their order: each segment takes the first file that covers it.",
     ),
     (
         "Editing the coast",

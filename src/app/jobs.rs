@@ -41,6 +41,21 @@ impl StageCache {
 /// What a job gives back.
 type JobResult = Result<(Plan, StageCache), String>;
 
+/// What wind files hold (`inspect`'s text), by path.
+type Summaries = Vec<(PathBuf, String)>;
+
+/// The summaries of the files not yet described.
+fn summaries(paths: &[PathBuf]) -> Summaries {
+    paths
+        .iter()
+        .filter_map(|p| {
+            crate::wind::inspect_file(p)
+                .ok()
+                .map(|s| (p.clone(), s.to_text()))
+        })
+        .collect()
+}
+
 /// A running plan job.
 pub struct PlanJob {
     /// Progress and cancel.
@@ -49,7 +64,7 @@ pub struct PlanJob {
     pub label: String,
     /// The new wind files, when the job imports a forecast.
     pub new_wind_files: Option<Vec<PathBuf>>,
-    rx: Receiver<JobResult>,
+    rx: Receiver<(JobResult, Summaries)>,
 }
 
 /// Everything the job needs, copied from the app so the thread owns it.
@@ -61,6 +76,8 @@ struct JobInput {
     cache: Option<StageCache>,
     /// A file being added, checked whole before the plan is made.
     new_file: Option<PathBuf>,
+    /// Wind files whose contents are to be described.
+    describe: Vec<PathBuf>,
 }
 
 /// The conditions: from the cache when the files and the geometry are unchanged,
@@ -172,7 +189,15 @@ impl ShelfwindApp {
             scenario,
             cache: self.stage_cache.clone(),
             new_file: new_wind.as_ref().and_then(|f| f.last().cloned()),
+            describe: Vec::new(),
         };
+        let mut input = input;
+        input.describe = input
+            .winds
+            .iter()
+            .filter(|p| !self.file_summaries.contains_key(*p))
+            .cloned()
+            .collect();
         if input.scenario.segments.is_empty() {
             self.plan = None;
             self.plan_error =
@@ -197,7 +222,7 @@ impl ShelfwindApp {
             .name("shelfwind-plan".into())
             .spawn(move || {
                 let result = run_job(&input, &worker_progress);
-                let _ = tx.send(result);
+                let _ = tx.send((result, summaries(&input.describe)));
                 repaint.request_repaint();
             });
         match spawned {
@@ -219,9 +244,10 @@ impl ShelfwindApp {
     /// Takes the job's result when it is ready.
     pub(super) fn poll_job(&mut self, _ctx: &egui::Context) {
         let Some(job) = &self.job else { return };
-        let Ok(result) = job.rx.try_recv() else {
+        let Ok((result, described)) = job.rx.try_recv() else {
             return;
         };
+        self.file_summaries.extend(described);
         let Some(job) = self.job.take() else { return };
         let cancelled = job.progress.is_cancelled();
         match (result, job.new_wind_files) {
@@ -233,18 +259,35 @@ impl ShelfwindApp {
                         .last()
                         .map(|f| f.display().to_string())
                         .unwrap_or_default();
+                    self.added_wind_file = files.last().cloned();
                     self.edit(Edit::SetWindFiles(files));
                     // The edit marks the plan stale; this plan already uses the new files.
                     self.plan_stale = false;
-                    self.info(Subject::Forecast, format!("Wind file added: {added}"));
+                    self.info(
+                        Subject::Forecast,
+                        format!(
+                            "Wind file added: {added}. The wind files window tells what it holds."
+                        ),
+                    );
+                    self.dialogs.show_wind_files = true;
                 }
                 self.install_plan(plan);
             }
             (Err(_), _) if cancelled => {}
-            (Err(e), Some(_)) => {
+            (Err(e), Some(files)) => {
+                let holds = files
+                    .last()
+                    .and_then(|f| {
+                        self.file_summaries
+                            .get(&self.wind_paths(std::slice::from_ref(f))[0])
+                    })
+                    .map(|s| format!("\n\nWhat the file holds:\n{s}"))
+                    .unwrap_or_default();
                 self.error(
                     Subject::Forecast,
-                    format!("The wind file was not added; the forecast is as it was.\n\n{e}"),
+                    format!(
+                        "The wind file was not added; the forecast is as it was.\n\n{e}{holds}"
+                    ),
                 );
             }
             (Err(e), None) => {

@@ -560,7 +560,7 @@ pub(super) fn season_window(app: &mut ShelfwindApp, ctx: &egui::Context) {
 
 /// The record's files, and the button that analyses them; true when clicked.
 fn record_ui(v: &mut SeasonView, ui: &mut egui::Ui) -> bool {
-    let label = ui.label("Wind record files (GRIB2 or CSV), one path per line");
+    let label = ui.label("Wind record files (GRIB2, NetCDF or CSV), one path per line");
     ui.add(
         egui::TextEdit::multiline(&mut v.files_text)
             .desired_rows(3)

@@ -217,6 +217,10 @@ pub struct ShelfwindApp {
     pub plan: Option<Arc<Plan>>,
     /// Why the latest plan could not be made.
     pub plan_error: Option<String>,
+    /// What each wind file holds (`shelfwind inspect`'s text), by the path read.
+    pub file_summaries: std::collections::BTreeMap<PathBuf, String>,
+    /// The wind file added last, whose summary the wind files window opens on.
+    pub(super) added_wind_file: Option<PathBuf>,
     pub(super) job: Option<PlanJob>,
     /// The stages' results, for ranking again without reading files.
     pub(super) stage_cache: Option<super::jobs::StageCache>,
@@ -295,6 +299,8 @@ impl ShelfwindApp {
             drag_start: None,
             plan: None,
             plan_error: None,
+            file_summaries: std::collections::BTreeMap::new(),
+            added_wind_file: None,
             job: None,
             stage_cache: None,
             plan_stale: true,

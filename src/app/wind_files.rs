@@ -114,6 +114,18 @@ pub(super) fn wind_files_window(
             ui.separator();
             for (k, f) in files.iter().enumerate() {
                 ui.label(RichText::new(format!("{}. {}", k + 1, f.display())).strong());
+                let read_path = app.wind_paths(std::slice::from_ref(f)).remove(0);
+                if let Some(summary) = app.file_summaries.get(&read_path) {
+                    let just_added = app.added_wind_file.as_ref() == Some(f);
+                    egui::CollapsingHeader::new("What the file holds")
+                        .id_salt(("wind file summary", k))
+                        .default_open(just_added)
+                        .show(ui, |ui| {
+                            for line in summary.lines() {
+                                ui.label(line);
+                            }
+                        });
+                }
                 if let Some(fc) = &forecast {
                     ui.label(span_text(fc.sources.get(k).and_then(Option::as_ref), fc.time_zone));
                     let segs = segments_from(fc, &names, k);
