@@ -270,6 +270,7 @@ impl ShelfwindApp {
                         ),
                     );
                     self.dialogs.show_wind_files = true;
+                    self.scroll_to_added = true;
                 }
                 self.install_plan(plan);
             }

@@ -221,6 +221,8 @@ pub struct ShelfwindApp {
     pub file_summaries: std::collections::BTreeMap<PathBuf, String>,
     /// The wind file added last, whose summary the wind files window opens on.
     pub(super) added_wind_file: Option<PathBuf>,
+    /// The wind files window is yet to scroll to the file just added.
+    pub(super) scroll_to_added: bool,
     pub(super) job: Option<PlanJob>,
     /// The stages' results, for ranking again without reading files.
     pub(super) stage_cache: Option<super::jobs::StageCache>,
@@ -301,6 +303,7 @@ impl ShelfwindApp {
             plan_error: None,
             file_summaries: std::collections::BTreeMap::new(),
             added_wind_file: None,
+            scroll_to_added: false,
             job: None,
             stage_cache: None,
             plan_stale: true,

@@ -93,6 +93,7 @@ pub(super) fn wind_files_window(
     commands: &mut Vec<Command>,
 ) {
     let mut open = true;
+    let mut scrolled = false;
     let files = app.doc.scenario.wind_files.clone();
     let forecast = app
         .stage_cache
@@ -109,6 +110,7 @@ pub(super) fn wind_files_window(
     egui::Window::new("Wind files")
         .open(&mut open)
         .default_width(620.0)
+        .vscroll(true)
         .show(ctx, |ui| {
             ui.label("Each segment takes its wind from the first file below that covers it; a station file covers the segments it is the nearest station to.");
             ui.separator();
@@ -117,7 +119,7 @@ pub(super) fn wind_files_window(
                 let read_path = app.wind_paths(std::slice::from_ref(f)).remove(0);
                 if let Some(summary) = app.file_summaries.get(&read_path) {
                     let just_added = app.added_wind_file.as_ref() == Some(f);
-                    egui::CollapsingHeader::new("What the file holds")
+                    let shown = egui::CollapsingHeader::new("What the file holds")
                         .id_salt(("wind file summary", k))
                         .default_open(just_added)
                         .show(ui, |ui| {
@@ -125,6 +127,10 @@ pub(super) fn wind_files_window(
                                 ui.label(line);
                             }
                         });
+                    if just_added && app.scroll_to_added {
+                        shown.header_response.scroll_to_me(Some(egui::Align::Min));
+                        scrolled = true;
+                    }
                 }
                 if let Some(fc) = &forecast {
                     ui.label(span_text(fc.sources.get(k).and_then(Option::as_ref), fc.time_zone));
@@ -167,6 +173,9 @@ pub(super) fn wind_files_window(
                 commands.push(Command::AskFile(super::commands::FileAction::ImportWind));
             }
         });
+    if scrolled {
+        app.scroll_to_added = false;
+    }
     if !open {
         app.dialogs.show_wind_files = false;
     }
