@@ -7,7 +7,7 @@ use std::time::Instant;
 
 fn main() {
     let bytes =
-        std::fs::read(concat!(env!("CARGO_MANIFEST_DIR"), "/assets/land-50m.bin")).expect("asset");
+        std::fs::read(concat!(env!("CARGO_MANIFEST_DIR"), "/assets/land-10m.bin")).expect("asset");
     let load_s = (0..5)
         .map(|_| {
             let t = Instant::now();

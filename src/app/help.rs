@@ -79,7 +79,7 @@ fn guide_ui(ui: &mut egui::Ui) {
 
 fn sources_ui(ui: &mut egui::Ui) {
     ui.label(RichText::new("Land outline").strong());
-    ui.label("Natural Earth 4.1.0, land at 1:50m, public domain; taken from the npm package world-atlas 2.0.2 (ISC licence). Bundled in the program.");
+    ui.label("Natural Earth 4.1.0, land at 1:10m, public domain; taken from the npm package world-atlas 2.0.2 (ISC licence). Bundled in the program.");
     ui.add_space(6.0);
     ui.label(RichText::new("Street map (optional, online)").strong());
     ui.label("Map tiles © OpenStreetMap contributors, under the Open Database License; fetched only when the street map is switched on, and kept on disk.");

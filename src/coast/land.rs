@@ -1,6 +1,6 @@
 //! Land and sea from the bundled land polygons, and the sea side of a drawn coast line.
 //!
-//! The bundled file is Natural Earth 4.1.0 land at 1:50m (public domain), converted to a
+//! The bundled file is Natural Earth 4.1.0 land at 1:10m (public domain), converted to a
 //! compact ring format described in `assets/README.md`. Rings live in the plane of
 //! longitude and latitude (degrees, longitudes in −180..180, none crossing the
 //! antimeridian); a point is on land when a ray from it toward +longitude crosses an odd
@@ -21,8 +21,8 @@ const MAGIC: &[u8; 8] = b"SWLAND01";
 /// Coordinates in a land file are integers in units of 1e-5 degree.
 const UNITS_PER_DEGREE: f64 = 100_000.0;
 
-/// The bundled land file (Natural Earth 4.1.0 land, 1:50m; see `assets/README.md`).
-const BUNDLED_LAND_FILE: &[u8] = include_bytes!("../../assets/land-50m.bin");
+/// The bundled land file (Natural Earth 4.1.0 land, 1:10m; see `assets/README.md`).
+const BUNDLED_LAND_FILE: &[u8] = include_bytes!("../../assets/land-10m.bin");
 
 /// Land polygons with a spatial index of their edges, for land-or-sea tests.
 pub struct Land {
@@ -114,7 +114,7 @@ impl fmt::Debug for Land {
 }
 
 impl Land {
-    /// The bundled Natural Earth 4.1.0 land at 1:50m, parsed on first use and kept for
+    /// The bundled Natural Earth 4.1.0 land at 1:10m, parsed on first use and kept for
     /// the life of the program.
     ///
     /// # Panics
@@ -301,9 +301,8 @@ pub enum SideFinding {
 
 /// How far either side of a piece's midpoint the land is probed, metres.
 ///
-/// The 1:50m land is accurate only to a kilometre or two (its vertices are a few tens of
-/// kilometres apart along smooth coasts and quantized to a few hundred metres), and
-/// users draw roughly, often a little offshore or inland. Probes closer than about
+/// The 1:10m land is accurate to a few hundred metres (its vertices are about 1.6 km
+/// apart and quantized to a few hundred metres), and users draw roughly, often a little offshore or inland. Probes closer than about
 /// 500 m would mostly measure drawing error; probes beyond about 10 km would cross
 /// headlands, bays and narrow seas. Doubling from 0.5 to 8 km lets a line drawn up to a
 /// few kilometres off the data's coast still find land on one side and sea on the other.
@@ -418,8 +417,8 @@ mod tests {
     #[test]
     fn the_bundled_file_parses_whole() {
         let land = Land::from_bytes(BUNDLED_LAND_FILE).expect("bundled land file");
-        assert_eq!(land.rings().len(), 1421);
-        assert_eq!(land.rings().iter().map(Vec::len).sum::<usize>(), 58_956);
+        assert_eq!(land.rings().len(), 4042);
+        assert_eq!(land.rings().iter().map(Vec::len).sum::<usize>(), 404_829);
         assert!(
             land.rings()
                 .iter()
