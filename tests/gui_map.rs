@@ -285,3 +285,34 @@ fn a_segment_being_drawn_shows_its_length() {
         "{with_two} / {further}"
     );
 }
+
+/// The graticule: its spacing is a round number of minutes or degrees, finer after
+/// zooming in and back to the same after zooming out.
+#[test]
+fn the_graticule_follows_the_zoom() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let minutes = |text: &str| -> f64 {
+        if let Some(m) = text.strip_suffix('\'') {
+            m.parse().expect("minutes")
+        } else {
+            60.0 * text
+                .strip_suffix('°')
+                .and_then(|d| d.parse::<f64>().ok())
+                .unwrap_or_else(|| panic!("graticule reads {text:?}"))
+        }
+    };
+    let before_text = label_after(&harness, "Graticule every ");
+    let before = minutes(&before_text);
+    assert!(
+        [1.0, 2.0, 5.0, 10.0, 15.0, 20.0, 30.0, 60.0, 120.0, 300.0].contains(&before),
+        "{before_text}"
+    );
+    click_zoom(&mut harness, "Zoom in");
+    click_zoom(&mut harness, "Zoom in");
+    let after = minutes(&label_after(&harness, "Graticule every "));
+    assert!(after < before, "{after}' after zooming in from {before}'");
+    click_zoom(&mut harness, "Zoom out");
+    click_zoom(&mut harness, "Zoom out");
+    assert_eq!(label_after(&harness, "Graticule every "), before_text);
+}

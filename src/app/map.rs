@@ -1039,6 +1039,7 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
             mesh: app.land.as_deref(),
             paint_sea: !online,
         })
+        .with_plugin(super::graticule::Graticule)
         .with_plugin(CoastLayer {
             plan: plan.as_deref(),
             segments: &app.doc.scenario.segments,

@@ -12,6 +12,7 @@ mod edit;
 mod editor;
 mod fields;
 mod files;
+mod graticule;
 mod help;
 mod jobs;
 mod land_layer;
