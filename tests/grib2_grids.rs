@@ -512,3 +512,66 @@ fn damaged_grid_sections_never_panic() {
         }
     }
 }
+
+/// A real regional forecast with winds along its grid's axes: NCEP's NAM on AWIPS grid
+/// 211 (Lambert conformal; `tests/fixtures/grib2/real/README.md`). At every 7th grid
+/// point the reader's east and north wind equals ecCodes' decoded grid-relative wind
+/// turned by pyproj's meridian convergence (`nam_awips211_10m_wind.reference.txt`).
+#[test]
+fn a_real_lambert_forecast_gives_earth_relative_winds() {
+    let text = std::fs::read_to_string(fixture("real/nam_awips211_10m_wind.reference.txt"))
+        .expect("reference");
+    let rows: Vec<Vec<f64>> = text
+        .lines()
+        .filter(|l| !l.starts_with('#'))
+        .map(|l| l.split(' ').map(|x| x.parse().expect("number")).collect())
+        .collect();
+    assert_eq!(rows.len(), 93 * 65 / 7 + 1);
+    let points: Vec<LatLon> = rows.iter().map(|r| LatLon::new(r[0], r[1])).collect();
+    let file = std::fs::File::open(fixture("real/nam_awips211_10m_wind.grib2")).expect("fixture");
+    let got = sample_grib2(std::io::BufReader::new(file), &points).expect("readable");
+    assert_eq!(got.times.len(), 1);
+    let mut turned = 0;
+    for (row, series) in rows.iter().zip(&got.points) {
+        let w = series.as_ref().expect("a grid point is covered")[0];
+        assert!(
+            (w.u_m_s - row[5]).abs() < 1e-3 && (w.v_m_s - row[6]).abs() < 1e-3,
+            "at {},{}: ours ({}, {}), reference ({}, {})",
+            row[0],
+            row[1],
+            w.u_m_s,
+            w.v_m_s,
+            row[5],
+            row[6]
+        );
+        turned += usize::from(row[4].abs() > 5.0);
+    }
+    // Far from 95° W the grid's axes are well off true north: the turning matters.
+    assert!(turned > 300, "{turned}");
+}
+
+/// Real files from other centres: one ensemble member is told apart, and a Mercator grid
+/// across 180° has the area ecCodes gives for its corners (`grib_get_data`: first point
+/// 30.419° S 129.906° E, last 79.992° N 10.689° E).
+#[test]
+fn inspect_tells_real_files_apart() {
+    let run = |name: &str| {
+        let file = std::fs::File::open(fixture(name)).expect("fixture");
+        shelfwind::wind::inspect_grib2(std::io::BufReader::new(file))
+            .expect("readable")
+            .to_text()
+    };
+    let member = run("real/ncep_ensemble_member_msl.grib2");
+    assert!(
+        member.contains("Field: one ensemble member: read as a single forecast"),
+        "{member}"
+    );
+    let waves = run("real/nws_mercator_wind_waves.grib2");
+    assert!(
+        waves.contains(
+            "Area: -30.419° to 79.992° latitude, 129.906° to 10.689° longitude (eastward across 180°)"
+        ),
+        "{waves}"
+    );
+    assert!(waves.contains("Uses: wave height and period (sea state)"));
+}

@@ -49,6 +49,10 @@ pub(super) struct FieldHeader {
     pub(super) forecast_time: u32,
     pub(super) surface_type: u8,
     pub(super) surface_m: f64,
+    /// For an ensemble member (product templates 4.1 and 4.11): the type of ensemble
+    /// forecast (Code Table 4.6: 0 and 1 control, 2 negative, 3 positive perturbation, 4
+    /// multi-model), the perturbation number and the number of forecasts in the ensemble.
+    pub(super) ensemble: Option<(u8, u8, u8)>,
     /// The grid definition section (section 3) that applies to this field.
     pub(super) grid: Span,
     /// Its data representation section (section 5).
@@ -155,6 +159,7 @@ fn field_header(discipline: u8, s: &[u8], grid: Span, earlier_bitmap: Option<Spa
         } else {
             f64::NAN
         },
+        ensemble: (matches!(template, 1 | 11) && s.len() >= 37).then(|| (s[34], s[35], s[36])),
         grid,
         data_representation: None,
         bitmap: None,

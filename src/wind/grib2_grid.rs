@@ -407,40 +407,33 @@ impl GribGrid {
 
     /// The area the grid covers: the smallest and largest latitude and longitude (±180°,
     /// west to east; a west edge east of the east edge means the area spans 180°) of
-    /// points along its edges.
+    /// points along its edges, walked once round so that longitudes unwrap.
     #[must_use]
     pub fn area(&self) -> Option<(LatLon, LatLon)> {
         let (ni, nj) = ((self.ni - 1) as f64, (self.nj - 1) as f64);
-        let steps = 64;
-        let mut edge = Vec::with_capacity(4 * steps);
-        for k in 0..=steps {
-            let f = k as f64 / steps as f64;
-            edge.extend([
-                self.position(0.0, f * ni),
-                self.position(nj, f * ni),
-                self.position(f * nj, 0.0),
-                self.position(f * nj, ni),
-            ]);
-        }
-        let edge: Vec<LatLon> = edge.into_iter().flatten().collect();
-        let first = edge.first()?;
-        let (mut south, mut north) = (first.lat_deg, first.lat_deg);
-        for p in &edge {
-            south = south.min(p.lat_deg);
-            north = north.max(p.lat_deg);
-        }
-        // Longitudes relative to the first point's, so a grid across 180° stays whole.
-        let rel: Vec<f64> = edge
-            .iter()
-            .map(|p| (p.lon_deg - first.lon_deg + 180.0).rem_euclid(360.0) - 180.0)
+        let steps = 256;
+        let f = |k: usize| k as f64 / steps as f64;
+        let ring: Vec<LatLon> = (0..steps)
+            .map(|k| (0.0, f(k) * ni))
+            .chain((0..steps).map(|k| (f(k) * nj, ni)))
+            .chain((0..steps).map(|k| (nj, (1.0 - f(k)) * ni)))
+            .chain((0..steps).map(|k| ((1.0 - f(k)) * nj, 0.0)))
+            .filter_map(|(row, col)| self.position(row, col))
             .collect();
-        let (west, east) = rel
-            .iter()
-            .fold((f64::MAX, f64::MIN), |(a, b), &x| (a.min(x), b.max(x)));
-        let wrap = |x: f64| (x + first.lon_deg + 180.0).rem_euclid(360.0) - 180.0;
-        if self.is_global() {
+        let first = ring.first()?;
+        let (mut south, mut north) = (first.lat_deg, first.lat_deg);
+        let (mut lon, mut west, mut east) = (first.lon_deg, first.lon_deg, first.lon_deg);
+        for w in ring.windows(2) {
+            south = south.min(w[1].lat_deg);
+            north = north.max(w[1].lat_deg);
+            lon += (w[1].lon_deg - w[0].lon_deg + 180.0).rem_euclid(360.0) - 180.0;
+            west = west.min(lon);
+            east = east.max(lon);
+        }
+        if self.is_global() || east - west >= 359.0 {
             return Some((LatLon::new(south, -180.0), LatLon::new(north, 180.0)));
         }
+        let wrap = |x: f64| (x + 180.0).rem_euclid(360.0) - 180.0;
         Some((
             LatLon::new(south, wrap(west)),
             LatLon::new(north, wrap(east)),

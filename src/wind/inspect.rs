@@ -93,8 +93,16 @@ impl FileSummary {
         if let Some((sw, ne)) = self.area {
             let _ = writeln!(
                 s,
-                "Area: {:.3}° to {:.3}° latitude, {:.3}° to {:.3}° longitude",
-                sw.lat_deg, ne.lat_deg, sw.lon_deg, ne.lon_deg
+                "Area: {:.3}° to {:.3}° latitude, {:.3}° to {:.3}° longitude{}",
+                sw.lat_deg,
+                ne.lat_deg,
+                sw.lon_deg,
+                ne.lon_deg,
+                if sw.lon_deg > ne.lon_deg {
+                    " (eastward across 180°)"
+                } else {
+                    ""
+                }
             );
         }
         if let Some(t) = &self.times {
@@ -322,6 +330,10 @@ struct Inventory {
     issued: Option<DateTime<Utc>>,
     centre: Option<u16>,
     ensemble: bool,
+    /// Ensemble members seen: (type of ensemble forecast, perturbation number).
+    members: std::collections::BTreeSet<(u8, u8)>,
+    /// The number of forecasts in the ensemble, as the file declares it.
+    ensemble_size: Option<u8>,
     /// Some wind field is on a grid the tool cannot read.
     wind_grid_unread: bool,
 }
@@ -337,6 +349,10 @@ impl Inventory {
         for h in &headers {
             *self.fields.entry(field_name(h)).or_default() += 1;
             self.ensemble |= matches!(h.template, 1 | 11);
+            if let Some((kind, number, size)) = h.ensemble {
+                self.members.insert((kind, number));
+                self.ensemble_size = Some(size);
+            }
             let t = valid_time(ref_time, h).ok();
             self.all_times.extend(t);
             let s3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
@@ -367,6 +383,35 @@ impl Inventory {
     }
 }
 
+/// "N other fields (name, name, … and K more kinds): not needed": the kinds of the
+/// fields the tool does not use, without their levels.
+fn others_text(others: &[(&String, &usize)]) -> String {
+    const SHOWN: usize = 8;
+    let count: usize = others.iter().map(|(_, n)| **n).sum();
+    let mut kinds: Vec<&str> = Vec::new();
+    for (name, _) in others {
+        let kind = [" at ", " on surface type "]
+            .iter()
+            .filter_map(|sep| name.find(sep))
+            .min()
+            .map_or(name.as_str(), |i| &name[..i]);
+        if !kinds.contains(&kind) {
+            kinds.push(kind);
+        }
+    }
+    let more = kinds.len().saturating_sub(SHOWN);
+    let listed = kinds[..kinds.len().min(SHOWN)].join(", ");
+    let tail = if more > 0 {
+        format!(" and {more} more kinds")
+    } else {
+        String::new()
+    };
+    format!(
+        "{count} other field{} ({listed}{tail}): not needed",
+        if count == 1 { "" } else { "s" }
+    )
+}
+
 /// What a GRIB2 stream holds.
 pub fn inspect_grib2(reader: impl Read) -> Result<FileSummary, WindFileError> {
     let mut messages = Messages::new(reader);
@@ -395,6 +440,7 @@ pub fn inspect_grib2(reader: impl Read) -> Result<FileSummary, WindFileError> {
         .collect();
     let mut uses = Vec::new();
     let mut ignores = Vec::new();
+    let mut fields_extra = Vec::new();
     if wind {
         let relative = readable.iter().any(|g| g.uv_relative_to_grid);
         uses.push(format!(
@@ -409,7 +455,20 @@ pub fn inspect_grib2(reader: impl Read) -> Result<FileSummary, WindFileError> {
     if waves {
         uses.push("wave height and period (sea state)".into());
     }
-    if inv.ensemble {
+    if inv.members.len() == 1 {
+        fields_extra.push("one ensemble member: read as a single forecast".to_string());
+    }
+    if inv.members.len() > 1 {
+        let controls = inv.members.iter().filter(|m| m.0 <= 1).count();
+        fields_extra.push(format!(
+            "ensemble members: {} in the file ({} control, {} perturbed or other){}",
+            inv.members.len(),
+            controls,
+            inv.members.len() - controls,
+            inv.ensemble_size
+                .map(|n| format!(", of {n} in the ensemble"))
+                .unwrap_or_default()
+        ));
         ignores.push("ensemble members: a file with several members at one time is refused; give one member or a deterministic forecast".into());
     }
     for (_, g) in &inv.grids {
@@ -419,24 +478,17 @@ pub fn inspect_grib2(reader: impl Read) -> Result<FileSummary, WindFileError> {
             ));
         }
     }
-    let others: Vec<&String> = inv
+    let others: Vec<(&String, &usize)> = inv
         .fields
-        .keys()
-        .filter(|f| {
+        .iter()
+        .filter(|(f, _)| {
             !(f.contains("at 10 m above ground (0/2/")
                 || f.starts_with("significant height")
                 || f.contains("period"))
         })
         .collect();
     if !others.is_empty() {
-        ignores.push(format!(
-            "{} (not needed)",
-            others
-                .iter()
-                .map(|s| s.as_str())
-                .collect::<Vec<_>>()
-                .join("; ")
-        ));
+        ignores.push(others_text(&others));
     }
     if !wind && !waves {
         ignores.push(
@@ -450,6 +502,7 @@ pub fn inspect_grib2(reader: impl Read) -> Result<FileSummary, WindFileError> {
             .fields
             .iter()
             .map(|(name, n)| format!("{name}: {n} field{}", if *n == 1 { "" } else { "s" }))
+            .chain(fields_extra)
             .collect(),
         grids: inv
             .grids
