@@ -52,7 +52,7 @@ impl FileAction {
             FileAction::ExportGpx => "Export each day's best three stretches (GPX)",
             FileAction::ExportGpxSelected => "Export the selected stretches (GPX)",
             FileAction::ExportTripSheet => "Export trip sheet (HTML)",
-            FileAction::AddMapPack => "Add a map pack (MBTiles, PMTiles or a tile folder)",
+            FileAction::AddMapPack => "Add a map pack (file or folder)",
         }
     }
 
