@@ -11,6 +11,8 @@
 //! - [`upwelling`]: the index per segment over time;
 //! - [`export`]: tables for other tools;
 //! - [`cli`]: the command line;
+//! - `tilepack` (feature `gui`): offline map packs (tile folder, MBTiles, PMTiles) read
+//!   tile by tile;
 //! - `app` (feature `gui`): the desktop app.
 //!
 //! Not a navigation aid and no substitute for official marine forecasts and warnings.
@@ -26,5 +28,7 @@ pub mod physics;
 pub mod plan;
 pub mod progress;
 pub mod scenario;
+#[cfg(feature = "gui")]
+pub mod tilepack;
 pub mod upwelling;
 pub mod wind;

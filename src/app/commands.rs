@@ -32,6 +32,8 @@ pub enum FileAction {
     ExportGpxSelected,
     /// Write a printable trip sheet (HTML) for the chosen day.
     ExportTripSheet,
+    /// Add an offline map pack (MBTiles, PMTiles or a tile folder) as a base map.
+    AddMapPack,
 }
 
 impl FileAction {
@@ -50,6 +52,7 @@ impl FileAction {
             FileAction::ExportGpx => "Export each day's best three stretches (GPX)",
             FileAction::ExportGpxSelected => "Export the selected stretches (GPX)",
             FileAction::ExportTripSheet => "Export trip sheet (HTML)",
+            FileAction::AddMapPack => "Add a map pack (file or folder)",
         }
     }
 
@@ -58,7 +61,10 @@ impl FileAction {
     pub fn writes(self) -> bool {
         !matches!(
             self,
-            FileAction::OpenScenario | FileAction::ImportWind | FileAction::ImportCoast
+            FileAction::OpenScenario
+                | FileAction::ImportWind
+                | FileAction::ImportCoast
+                | FileAction::AddMapPack
         )
     }
 
@@ -76,6 +82,7 @@ impl FileAction {
             FileAction::ExportPlanCsv => &["csv"],
             FileAction::ExportGpx | FileAction::ExportGpxSelected => &["gpx"],
             FileAction::ExportTripSheet => &["html"],
+            FileAction::AddMapPack => &["mbtiles", "pmtiles"],
         }
     }
 }
@@ -199,12 +206,7 @@ impl ShelfwindApp {
                 self.view.last_play_step_s = ctx.input(|i| i.time);
             }
             Command::SetColouring(c) => self.view.colouring = c,
-            Command::SetBaseLayer(b) => {
-                self.view.base_layer = b;
-                if b == BaseLayer::OnlineTiles && self.tiles.is_none() {
-                    self.tiles = Some(super::map::online_tiles(ctx, &self.options));
-                }
-            }
+            Command::SetBaseLayer(b) => self.set_base_layer(b, ctx),
             Command::SetVessel(id) => {
                 self.view.vessel_id = Some(id);
                 self.plan_stale = true;
@@ -368,6 +370,7 @@ impl ShelfwindApp {
             let action = match ext.as_str() {
                 "geojson" => FileAction::ImportCoast,
                 "json" => FileAction::OpenScenario,
+                "mbtiles" | "pmtiles" => FileAction::AddMapPack,
                 _ => FileAction::ImportWind,
             };
             self.send(Command::File(action, path));

@@ -328,6 +328,7 @@ impl ShelfwindApp {
             }
             FileAction::SaveScenarioAs => self.save_as(path, ctx),
             FileAction::ImportWind => self.add_wind_file(path, ctx),
+            FileAction::AddMapPack => self.open_pack(path, ctx),
             FileAction::ImportCoast => {
                 self.start_file_task(Subject::Coast, ctx, move || read_coast_file(&path));
             }

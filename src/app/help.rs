@@ -84,6 +84,9 @@ fn sources_ui(ui: &mut egui::Ui) {
     ui.label(RichText::new("Street map (optional, online)").strong());
     ui.label("Map tiles © OpenStreetMap contributors, under the Open Database License; fetched only when the street map is switched on, and kept on disk.");
     ui.add_space(6.0);
+    ui.label(RichText::new("Map packs (optional, offline)").strong());
+    ui.label("Map packs you add are yours: their terms are theirs, and their credit is shown on the map while one is the base map.");
+    ui.add_space(6.0);
     ui.label(RichText::new("Demo").strong());
     ui.label("The demo co-op, its ports, boats, coast names and forecast are invented.");
     ui.add_space(6.0);

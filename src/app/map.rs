@@ -1,11 +1,13 @@
-//! The map: base layer (bundled land, or cached online tiles), the coast coloured by the
-//! chosen measure, transport and wind arrows, ports, the editor's handles, and clicks;
-//! over it, zoom buttons, a scale bar in nautical miles, the pointer's position, the name
-//! of the stretch under the pointer and the length of a segment being drawn.
+//! The map: base layer (bundled land, cached online tiles, or an offline map pack over
+//! the land), the coast coloured by the chosen measure, transport and wind arrows,
+//! ports, the editor's handles, and clicks; over it, zoom buttons, a scale bar in
+//! nautical miles, the pointer's position, the name of the stretch under the pointer,
+//! the length of a segment being drawn and the credit of the tiles shown.
 
 use super::commands::Command;
 use super::edit::Edit;
 use super::land_layer::LandLayer;
+use super::pack_layer::PackLayer;
 use super::state::{AppOptions, BaseLayer, Colouring, ShelfwindApp, Tool};
 use crate::coast::{
     CoastSegment, LatLon, SeaSide, destination, distance_m, initial_bearing_deg, midpoint,
@@ -166,7 +168,7 @@ const SELECTED_FILL: Color32 = Color32::from_rgb(255, 222, 0);
 
 /// Paints `text` on a light box whose `align` corner is at `anchor`, wrapped at
 /// `wrap_px`; returns the box.
-fn text_box(
+pub(super) fn text_box(
     painter: &egui::Painter,
     anchor: Pos2,
     align: Align2,
@@ -191,7 +193,7 @@ fn text_box(
 
 /// Names something painted on the map for screen readers (and tests): a widget over
 /// `rect` that only senses hovering, so clicks and drags still reach the map.
-fn name_painted(ui: &egui::Ui, rect: Rect, salt: impl egui::AsIdSalt, name: &str) {
+pub(super) fn name_painted(ui: &egui::Ui, rect: Rect, salt: impl egui::AsIdSalt, name: &str) {
     ui.interact(rect, ui.scope_id().with(salt), egui::Sense::hover())
         .widget_info(|| egui::WidgetInfo::labeled(egui::Role::Label, true, name));
 }
@@ -989,18 +991,11 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     keep_view_steady(ui.ctx(), &mut app.map_memory, my_position, rect);
     place_view(app, rect.size());
     let time = app.view.timeline.get(app.view.hour).copied();
-    let editing = app
-        .view
-        .editing
-        .as_ref()
-        .and_then(|id| app.doc.scenario.segments.iter().find(|s| &s.id == id))
-        .map(|seg| {
-            (
-                seg,
-                seg.sea
-                    .or(app.view.segment_draft.sea_from_land(&seg.points)),
-            )
-        });
+    let editing = editing_segment(
+        &app.doc.scenario.segments,
+        app.view.editing.as_ref(),
+        &mut app.view.segment_draft,
+    );
     // Start a vertex drag before the map pans: a press on a handle drawn last frame.
     let pressed_on_handle = ui.input(|i| {
         i.pointer.primary_pressed()
@@ -1020,6 +1015,15 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     } else {
         None
     };
+    let pack = match &app.view.base_layer {
+        BaseLayer::Pack(path) => app.pack.as_mut().filter(|p| &p.path == path),
+        _ => None,
+    };
+    let credit = if online {
+        Some("© OpenStreetMap contributors".to_string())
+    } else {
+        pack.as_ref().map(|p| p.info.attribution.clone())
+    };
     let mut handles = Vec::new();
     let mut zoom_step = None;
     let plan = app.plan.clone();
@@ -1038,7 +1042,11 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
         .with_plugin(LandLayer {
             mesh: app.land.as_deref(),
             paint_sea: !online,
-        })
+        });
+    if let Some(pack) = pack {
+        map = map.with_plugin(PackLayer { pack });
+    }
+    map = map
         .with_plugin(super::graticule::Graticule)
         .with_plugin(CoastLayer {
             plan: plan.as_deref(),
@@ -1055,13 +1063,15 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
             ports: &ports,
         })
         .with_plugin(ScaleBar {
-            credit: online,
+            credit: credit.is_some(),
             unit: match app.view.units.distance {
                 crate::export::units::DistanceUnit::NauticalMiles => (NAUTICAL_MILE_M, "nm"),
                 crate::export::units::DistanceUnit::Kilometres => (1000.0, "km"),
             },
         })
-        .with_plugin(PointerPosition { credit: online })
+        .with_plugin(PointerPosition {
+            credit: credit.is_some(),
+        })
         .with_plugin(ZoomButtons {
             step: &mut zoom_step,
         });
@@ -1086,41 +1096,53 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     if app.view.show_legend {
         legend_ui(ui, response.rect, app.view.colouring);
     }
-    if online {
-        credit_ui(ui, response.rect);
+    if let Some(text) = credit {
+        credit_ui(ui, response.rect, &text);
     }
     if let Tool::PlacePort(k) = app.view.tool {
-        let name = app
-            .doc
-            .scenario
-            .ports
-            .get(k)
-            .map_or("the port", |p| p.name.as_str());
-        ui.painter_at(response.rect).text(
-            response.rect.center_top() + Vec2::new(0.0, 14.0),
-            Align2::CENTER_TOP,
-            format!("Placing {name}: click on the map where the harbour mouth is; Esc to stop."),
-            FontId::proportional(15.0),
-            Color32::from_rgb(160, 60, 0),
-        );
+        place_port_hint(app, ui, response.rect, k);
     }
 }
 
-/// The tile credit, bottom right.
-fn credit_ui(ui: &egui::Ui, rect: Rect) {
+/// The segment open in the editor, with its sea side (set, or found from the land).
+fn editing_segment<'a>(
+    segments: &'a [CoastSegment],
+    editing: Option<&String>,
+    draft: &mut super::editor::SegmentDraft,
+) -> Option<(&'a CoastSegment, Option<SeaSide>)> {
+    let seg = segments.iter().find(|s| Some(&s.id) == editing)?;
+    Some((seg, seg.sea.or(draft.sea_from_land(&seg.points))))
+}
+
+/// What to do while placing port `k`, at the top of the map.
+fn place_port_hint(app: &ShelfwindApp, ui: &egui::Ui, rect: Rect, k: usize) {
+    let name = app
+        .doc
+        .scenario
+        .ports
+        .get(k)
+        .map_or("the port", |p| p.name.as_str());
+    ui.painter_at(rect).text(
+        rect.center_top() + Vec2::new(0.0, 14.0),
+        Align2::CENTER_TOP,
+        format!("Placing {name}: click on the map where the harbour mouth is; Esc to stop."),
+        FontId::proportional(15.0),
+        Color32::from_rgb(160, 60, 0),
+    );
+}
+
+/// The credit of the tiles shown (online tiles or a map pack), bottom right.
+fn credit_ui(ui: &egui::Ui, rect: Rect, text: &str) {
     let painter = ui.painter_at(rect);
-    let text = "© OpenStreetMap contributors";
     let pos = rect.right_bottom() - Vec2::new(6.0, 6.0);
     let galley = painter.layout_no_wrap(text.into(), FontId::proportional(12.0), Color32::BLACK);
-    painter.rect_filled(
-        Rect::from_min_size(
-            pos - galley.size() - Vec2::splat(3.0),
-            galley.size() + Vec2::splat(6.0),
-        ),
-        3.0,
-        Color32::from_white_alpha(220),
+    let credit = Rect::from_min_size(
+        pos - galley.size() - Vec2::splat(3.0),
+        galley.size() + Vec2::splat(6.0),
     );
+    painter.rect_filled(credit, 3.0, Color32::from_white_alpha(220));
     painter.galley(pos - galley.size(), galley, Color32::BLACK);
+    name_painted(ui, credit, "map credit", &format!("Map credit: {text}"));
 }
 
 /// The centre and Web Mercator zoom that frame the points in a view of `size` pixels,

@@ -18,6 +18,8 @@ pub enum Subject {
     Export,
     /// Boats and ports.
     Boats,
+    /// Map packs and the base map.
+    MapPack,
     /// Anything else (a background task that could not start).
     App,
 }

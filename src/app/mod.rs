@@ -4,6 +4,7 @@
 //! It computes nothing of its own: the plan comes from [`crate::plan::build_plan`],
 //! run in a background job.
 
+mod base_map;
 mod boats;
 mod commands;
 mod compare;
@@ -18,6 +19,7 @@ mod jobs;
 mod land_layer;
 mod map;
 mod messages;
+mod pack_layer;
 mod panels;
 mod plots;
 mod season_view;
@@ -28,7 +30,7 @@ mod wind_files;
 
 pub use commands::{Command, FileAction};
 pub use messages::{Message, Subject};
-pub use state::{AppOptions, Colouring, Remembered, ShelfwindApp, Tool};
+pub use state::{AppOptions, BaseLayer, Colouring, Remembered, SavedPack, ShelfwindApp, Tool};
 
 use std::path::PathBuf;
 

@@ -130,6 +130,7 @@ fn file_menu(ui: &mut egui::Ui, commands: &mut Vec<Command>) {
             ("Wind files…", Command::ShowWindFiles),
             ("Import coast (GeoJSON)…", ask(F::ImportCoast)),
             ("Export coast (GeoJSON)…", ask(F::ExportCoast)),
+            ("Add a map pack…", ask(F::AddMapPack)),
         ],
         &[
             ("Export plan (CSV)…", ask(F::ExportPlanCsv)),
@@ -306,32 +307,76 @@ fn boat_and_port_ui(app: &ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Co
 fn map_toolbar_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
     ui.horizontal_wrapped(|ui| {
         ui.label("Colour by:");
-        for (c, label) in [(Colouring::DayScore, "Score (chosen day)"), (Colouring::IndexNow, "Index now"), (Colouring::Productivity, "Expected productivity"), (Colouring::SafeForBoat, "Safe for this boat")] {
-            if ui.selectable_label(app.view.colouring == c, label).clicked() {
+        for (c, label) in [
+            (Colouring::DayScore, "Score (chosen day)"),
+            (Colouring::IndexNow, "Index now"),
+            (Colouring::Productivity, "Expected productivity"),
+            (Colouring::SafeForBoat, "Safe for this boat"),
+        ] {
+            if ui
+                .selectable_label(app.view.colouring == c, label)
+                .clicked()
+            {
                 commands.push(Command::SetColouring(c));
             }
         }
         ui.separator();
-        egui::ComboBox::from_label("Base map")
-            .selected_text(match app.view.base_layer {
-                BaseLayer::BundledLand => "Land outline (offline)",
-                BaseLayer::OnlineTiles => "Street map (online)",
-            })
-            .show_ui(ui, |ui| {
-                if ui.selectable_label(app.view.base_layer == BaseLayer::BundledLand, "Land outline (offline)").clicked() {
-                    commands.push(Command::SetBaseLayer(BaseLayer::BundledLand));
-                }
-                if ui
-                    .selectable_label(app.view.base_layer == BaseLayer::OnlineTiles, "Street map (online)")
-                    .on_hover_text("OpenStreetMap tiles, fetched as you look and cached on disk; needs a network the first time.")
-                    .clicked()
-                {
-                    commands.push(Command::SetBaseLayer(BaseLayer::OnlineTiles));
-                }
-            });
+        base_map_ui(app, ui, commands);
         ui.checkbox(&mut app.view.show_plots, "Plots");
         ui.checkbox(&mut app.view.show_legend, "Legend");
     });
+}
+
+/// The Base map list: the land outline, each map pack added, the online street map,
+/// and adding a pack.
+fn base_map_ui(app: &ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {
+    const LAND: &str = "Land outline (offline)";
+    const STREETS: &str = "Street map (online)";
+    let packs = app.map_packs();
+    let current = app.base_layer();
+    let shown = match current {
+        BaseLayer::BundledLand => LAND.to_string(),
+        BaseLayer::OnlineTiles => STREETS.to_string(),
+        BaseLayer::Pack(path) => packs
+            .iter()
+            .find(|p| &p.path == path)
+            .map_or_else(|| path.display().to_string(), |p| p.name.clone()),
+    };
+    egui::ComboBox::from_label("Base map")
+        .selected_text(shown)
+        .show_ui(ui, |ui| {
+            if ui
+                .selectable_label(*current == BaseLayer::BundledLand, LAND)
+                .clicked()
+            {
+                commands.push(Command::SetBaseLayer(BaseLayer::BundledLand));
+            }
+            for pack in packs {
+                let layer = BaseLayer::Pack(pack.path.clone());
+                if ui
+                    .selectable_label(*current == layer, &pack.name)
+                    .on_hover_text(format!("Offline map pack: {}", pack.path.display()))
+                    .clicked()
+                {
+                    commands.push(Command::SetBaseLayer(layer));
+                }
+            }
+            if ui
+                .selectable_label(*current == BaseLayer::OnlineTiles, STREETS)
+                .on_hover_text("OpenStreetMap tiles, fetched as you look and cached on disk; needs a network the first time.")
+                .clicked()
+            {
+                commands.push(Command::SetBaseLayer(BaseLayer::OnlineTiles));
+            }
+            ui.separator();
+            if ui.button("Add a map pack…").clicked() {
+                commands.push(Command::AskFile(FileAction::AddMapPack));
+            }
+        });
+    if app.pack_task.is_some() {
+        ui.spinner();
+        ui.label("opening the map pack…");
+    }
 }
 
 fn status_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command>) {

@@ -29,13 +29,24 @@ pub enum Colouring {
 }
 
 /// The map's base layer.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Default)]
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize, Default)]
 pub enum BaseLayer {
     /// The bundled land polygons: offline, at every zoom.
     #[default]
     BundledLand,
     /// OpenStreetMap tiles, downloaded when shown and cached on disk.
     OnlineTiles,
+    /// An offline map pack (tile folder, MBTiles or PMTiles) over the bundled land.
+    Pack(PathBuf),
+}
+
+/// A map pack the user added: where it is and what it is called.
+#[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
+pub struct SavedPack {
+    /// Its file or folder.
+    pub path: PathBuf,
+    /// Its name, as the Base map list shows it.
+    pub name: String,
 }
 
 /// What the app remembers between runs (eframe storage).
@@ -60,6 +71,9 @@ pub struct Remembered {
     /// Units of what is shown.
     #[serde(default)]
     pub units: crate::export::units::Units,
+    /// The map packs added, in the order added.
+    #[serde(default)]
+    pub map_packs: Vec<SavedPack>,
 }
 
 /// How the app was started: where it keeps its memory and whether native dialogs are
@@ -234,6 +248,10 @@ pub struct ShelfwindApp {
     pub dialogs: Dialogs,
     pub(super) map_memory: walkers::MapMemory,
     pub(super) tiles: Option<walkers::HttpTiles>,
+    /// The open map pack, if one has been chosen.
+    pub(super) pack: Option<super::pack_layer::PackTiles>,
+    /// A map pack being opened: its path and the opened pack, or why not.
+    pub(super) pack_task: Option<super::base_map::PackTask>,
     /// The land drawn on the map, once triangulated in the background.
     pub(super) land: Option<Arc<LandMesh>>,
     pub(super) land_task: Option<super::tasks::Task<LandMesh>>,
@@ -311,7 +329,7 @@ impl ShelfwindApp {
                 colouring: remembered.colouring,
                 show_plots: true,
                 show_legend: true,
-                base_layer: remembered.base_layer,
+                base_layer: remembered.base_layer.clone(),
                 vessel_id: remembered.vessel_id.clone(),
                 port_id: remembered.port_id.clone(),
                 units: remembered.units,
@@ -323,6 +341,8 @@ impl ShelfwindApp {
             },
             map_memory: walkers::MapMemory::default(),
             tiles: None,
+            pack: None,
+            pack_task: None,
             land: None,
             land_task: super::tasks::Task::spawn("land", ctx, || LandMesh::new(Land::bundled()))
                 .ok(),
@@ -344,6 +364,10 @@ impl ShelfwindApp {
         let to_open = open.or_else(|| app.remembered.last_scenario.clone().filter(|p| p.exists()));
         app.open_at_start(ctx, to_open);
         app.dialogs.recovery = super::files::find_recovery(&app.options, app.doc.path.as_deref());
+        // The base map chosen last time: its tiles or pack are made ready.
+        app.send(super::commands::Command::SetBaseLayer(
+            app.view.base_layer.clone(),
+        ));
         app
     }
 
@@ -358,10 +382,13 @@ impl ShelfwindApp {
         )
     }
 
-    /// Whether a plan job is running.
+    /// Whether a plan job, file work or the opening of a map pack is under way.
     #[must_use]
     pub fn is_busy(&self) -> bool {
-        self.job.is_some() || self.plan_stale || self.file_task.is_some()
+        self.job.is_some()
+            || self.plan_stale
+            || self.file_task.is_some()
+            || self.pack_task.is_some()
     }
 
     /// Queues a command, applied after drawing.
@@ -375,6 +402,7 @@ impl eframe::App for ShelfwindApp {
         let ctx = ui.ctx().clone();
         self.poll_job(&ctx);
         self.poll_file_task();
+        self.poll_pack_task(&ctx);
         if let Some(mesh) = self.land_task.as_ref().and_then(super::tasks::Task::poll) {
             self.land_task = None;
             self.land = mesh.ok().map(Arc::new);
@@ -391,7 +419,10 @@ impl eframe::App for ShelfwindApp {
         if self.plan_stale && self.job.is_none() && self.file_task.is_none() {
             self.start_plan_job(&ctx, None);
         }
-        let working = self.job.is_some() || self.file_task.is_some() || self.land_task.is_some();
+        let working = self.job.is_some()
+            || self.file_task.is_some()
+            || self.land_task.is_some()
+            || self.pack_task.is_some();
         if working || self.view.playing || self.map_memory.animating() {
             ctx.request_repaint_after(std::time::Duration::from_millis(100));
         }
@@ -401,7 +432,7 @@ impl eframe::App for ShelfwindApp {
         let mut r = self.remembered.clone();
         r.last_scenario.clone_from(&self.doc.path);
         r.colouring = self.view.colouring;
-        r.base_layer = self.view.base_layer;
+        r.base_layer = self.view.base_layer.clone();
         r.vessel_id.clone_from(&self.view.vessel_id);
         r.port_id.clone_from(&self.view.port_id);
         r.units = self.view.units;

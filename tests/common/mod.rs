@@ -6,32 +6,37 @@
 
 use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable;
-use shelfwind::app::{AppOptions, ShelfwindApp};
+use shelfwind::app::{AppOptions, Remembered, ShelfwindApp};
 use std::path::Path;
 use std::time::{Duration, Instant};
 
 /// The app at 1500×1000 on the bundled demo, remembering nothing, its files in `dir`;
 /// the cautions accepted and the first plan made.
 pub fn app_harness(dir: &Path) -> Harness<'static, ShelfwindApp> {
+    app_harness_remembering(dir, Remembered::default())
+}
+
+/// Like [`app_harness`], remembering what an earlier run saved (the cautions are
+/// accepted here unless that run accepted them).
+pub fn app_harness_remembering(
+    dir: &Path,
+    remembered: Remembered,
+) -> Harness<'static, ShelfwindApp> {
     let options = AppOptions {
         storage_dir: Some(dir.to_path_buf()),
         native_dialogs: false,
         autosave_s: 3600.0,
     };
+    let accepted = remembered.cautions_accepted;
     let mut harness = Harness::builder()
         .with_size([1500.0, 1000.0])
-        .build_eframe(move |cc| {
-            ShelfwindApp::with_memory(
-                &cc.egui_ctx,
-                None,
-                options,
-                shelfwind::app::Remembered::default(),
-            )
-        });
-    // The cautions show at first start; accept them.
+        .build_eframe(move |cc| ShelfwindApp::with_memory(&cc.egui_ctx, None, options, remembered));
     harness.run_steps(2);
-    harness.get_by_label("I understand").click();
-    harness.run_steps(2);
+    if !accepted {
+        // The cautions show at first start; accept them.
+        harness.get_by_label("I understand").click();
+        harness.run_steps(2);
+    }
     wait_for_plan(&mut harness);
     harness
 }
