@@ -2,7 +2,10 @@
 //! stderr that names the file and the place in it, and exit status 2.
 
 use crate::atomic::write_atomic;
-use crate::coast::{CoastError, Land, SeaSideError, Segment, read_coast_geojson, resolve_segments};
+use crate::coast::{
+    CoastError, Land, LandFileError, Pack, PackBox, PackError, SeaSideError, Segment, cut_pack,
+    read_coast_geojson, read_land_file, resolve_segments,
+};
 use crate::export::units::Units;
 use crate::export::{
     IndexFormat, PlanFormat, index_records, render_plan, trip_sheet_html, write_index,
@@ -52,6 +55,102 @@ pub enum Command {
         /// The file.
         file: PathBuf,
     },
+    /// Cut a coast pack (detailed land for one region) from a GeoJSON, ESRI Shapefile
+    /// or GSHHG file, for `--land` of `index` and `plan`.
+    CoastPack(CoastPackArgs),
+}
+
+/// Arguments of `shelfwind coast-pack`.
+#[derive(Debug, clap::Args)]
+pub struct CoastPackArgs {
+    /// Detailed land: GeoJSON (Multi)Polygons, an ESRI Shapefile (.shp) or GSHHG binary
+    /// polygons (gshhs_f.b); the format is told from the content.
+    #[arg(long, value_name = "FILE")]
+    pub from: PathBuf,
+    /// The box to cut, degrees: west,south,east,north (e.g. -123.1,37.65,-122.75,38.35).
+    #[arg(long, value_name = "W,S,E,N", value_parser = parse_bbox, allow_hyphen_values = true)]
+    pub bbox: PackBox,
+    /// Where the land comes from and its licence, kept in the pack [default: the
+    /// file's name and format].
+    #[arg(long, value_name = "TEXT")]
+    pub credit: Option<String>,
+    /// The pack file to write (written whole or not at all).
+    #[arg(long, value_name = "PACK")]
+    pub out: PathBuf,
+}
+
+fn parse_bbox(s: &str) -> Result<PackBox, String> {
+    let numbers: Vec<f64> = s
+        .split(',')
+        .map(|x| x.trim().parse::<f64>())
+        .collect::<Result<_, _>>()
+        .map_err(|_| format!("{s:?}: expected four numbers W,S,E,N in degrees"))?;
+    let [w, south, e, n] = numbers[..] else {
+        return Err(format!("{s:?}: expected four numbers W,S,E,N in degrees"));
+    };
+    PackBox::new(w, south, e, n).map_err(|err| err.to_string())
+}
+
+/// `shelfwind coast-pack`: reads the detailed land, cuts it to the box, writes the pack
+/// and says what was cut.
+pub fn run_coast_pack(args: &CoastPackArgs) -> Result<(), CliError> {
+    let bytes = std::fs::read(&args.from).map_err(|source| CliError::LandIo {
+        path: args.from.clone(),
+        source,
+    })?;
+    let source = read_land_file(&bytes).map_err(|source| CliError::LandFile {
+        path: args.from.clone(),
+        source,
+    })?;
+    let name = args
+        .from
+        .file_name()
+        .map_or_else(String::new, |n| n.to_string_lossy().into_owned());
+    let credit = args
+        .credit
+        .clone()
+        .unwrap_or_else(|| format!("{name} ({})", source.format.name()));
+    let (pack, summary) = cut_pack(&source.rings, args.bbox, &credit);
+    write_atomic(&args.out, &pack.to_bytes()).map_err(|source| CliError::Output {
+        path: args.out.clone(),
+        source,
+    })?;
+    let b = args.bbox;
+    println!(
+        "read {} rings from {} ({})",
+        source.rings.len(),
+        args.from.display(),
+        source.format.name()
+    );
+    println!(
+        "cut to W={},S={},E={},N={}: {} rings, {} points, {:.2} km² of land",
+        b.west_deg,
+        b.south_deg,
+        b.east_deg,
+        b.north_deg,
+        summary.rings,
+        summary.points,
+        summary.land_area_km2
+    );
+    println!("wrote {}", args.out.display());
+    Ok(())
+}
+
+/// The bundled land with a coast pack laid over it, when a pack is given (`None`
+/// means the bundled land alone).
+pub fn load_pack_land(pack: Option<&Path>) -> Result<Option<Land>, CliError> {
+    let Some(path) = pack else {
+        return Ok(None);
+    };
+    let bytes = std::fs::read(path).map_err(|source| CliError::LandIo {
+        path: path.into(),
+        source,
+    })?;
+    let pack = Pack::from_bytes(&bytes).map_err(|source| CliError::Pack {
+        path: path.into(),
+        source,
+    })?;
+    Ok(Some(Land::bundled().with_pack(&pack)))
 }
 
 /// `shelfwind inspect FILE`: the file's fields, grid, area, times, issue time and centre,
@@ -115,7 +214,9 @@ fn parse_percent(s: &str) -> Result<f64, String> {
 pub fn run_season(args: &SeasonArgs) -> Result<(), CliError> {
     use crate::export::{SeasonFormat, render_seasons};
     use crate::upwelling::{CoverageSettings, RecordError, RecordSettings, analyse_record};
-    let coast = load_coast(&args.scenario)?;
+    // Seasons use the sea sides only, and the scenario's sides are set or come from
+    // the bundled land.
+    let coast = load_coast(&args.scenario, Land::bundled())?;
     let sources = load_sources(&args.wind)?;
     let settings = coast
         .scenario
@@ -194,6 +295,10 @@ pub struct PlanArgs {
     /// Home port id (default: the scenario's first).
     #[arg(long)]
     pub port: Option<String>,
+    /// A coast pack (made by `shelfwind coast-pack`): its detailed land replaces the
+    /// bundled land inside its box, for sea sides, fetch and ways by sea.
+    #[arg(long, value_name = "PACK")]
+    pub land: Option<PathBuf>,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlanFormatArg::Table)]
     pub format: PlanFormatArg,
@@ -215,7 +320,9 @@ fn parse_from(s: &str) -> Result<chrono::NaiveDate, String> {
 
 /// `shelfwind plan`: the ranked stretches per day.
 pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
-    let coast = load_coast(&args.scenario)?;
+    let packed = load_pack_land(args.land.as_deref())?;
+    let land = packed.as_ref().unwrap_or_else(|| Land::bundled());
+    let coast = load_coast(&args.scenario, land)?;
     let Some(scenario) = coast.scenario.as_ref() else {
         return Err(CliError::Scenario(ScenarioError::File {
             path: args.scenario.clone(),
@@ -235,6 +342,7 @@ pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
         &coast.segments,
         &sources,
         &choice,
+        land,
         &crate::progress::Progress::new(),
     )
     .map_err(|e| match e {
@@ -251,7 +359,7 @@ pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
         PlanFormatArg::Geojson => PlanFormat::GeoJson,
         PlanFormatArg::Gpx => PlanFormat::Gpx,
         PlanFormatArg::Html => {
-            let sheet = trip_sheet_html(&plan, Land::bundled(), 0, Units::default());
+            let sheet = trip_sheet_html(&plan, land, 0, Units::default());
             return write_output(args.out.as_deref(), sheet.as_bytes());
         }
     };
@@ -313,6 +421,10 @@ pub struct IndexArgs {
     /// Sea-water density, kg/m^3 [default: the scenario's, else 1025].
     #[arg(long, value_parser = parse_rho_water)]
     pub rho_water: Option<f64>,
+    /// A coast pack (made by `shelfwind coast-pack`): its detailed land replaces the
+    /// bundled land inside its box, for sea sides, fetch and ways by sea.
+    #[arg(long, value_name = "PACK")]
+    pub land: Option<PathBuf>,
     /// Output format.
     #[arg(long, value_enum, default_value_t = IndexFormatArg::Csv)]
     pub format: IndexFormatArg,
@@ -399,6 +511,30 @@ pub enum CliError {
     /// The index cannot be computed.
     #[error(transparent)]
     Upwelling(#[from] UpwellingError),
+    /// A detailed land file could not be read.
+    #[error("cannot read land file: {source}: {}", path.display())]
+    LandIo {
+        /// The file.
+        path: PathBuf,
+        /// The I/O error.
+        source: std::io::Error,
+    },
+    /// A detailed land file is bad.
+    #[error("bad land file: {source}: {}", path.display())]
+    LandFile {
+        /// The file.
+        path: PathBuf,
+        /// What is wrong, and where.
+        source: LandFileError,
+    },
+    /// A coast pack is bad.
+    #[error("bad coast pack: {source}: {}", path.display())]
+    Pack {
+        /// The file.
+        path: PathBuf,
+        /// What is wrong, and where.
+        source: PackError,
+    },
     /// The output could not be written.
     #[error("cannot write output: {source}: {}", path.display())]
     Output {
@@ -420,9 +556,9 @@ pub struct LoadedCoast {
     pub dir: PathBuf,
 }
 
-/// Reads a coast: a scenario file or a GeoJSON file; sea sides not given come from the
-/// bundled land polygons.
-pub fn load_coast(path: &Path) -> Result<LoadedCoast, CliError> {
+/// Reads a coast: a scenario file or a GeoJSON file; sea sides not given come from
+/// `land`.
+pub fn load_coast(path: &Path, land: &Land) -> Result<LoadedCoast, CliError> {
     let bytes = std::fs::read(path).map_err(|source| CliError::CoastIo {
         path: path.into(),
         source,
@@ -447,13 +583,7 @@ pub fn load_coast(path: &Path) -> Result<LoadedCoast, CliError> {
         })?;
         (drawn, None)
     };
-    // The land is loaded only when some segment needs it.
-    let segments = if drawn.iter().all(|c| c.sea.is_some()) {
-        resolve_segments(&drawn, &Land::default())
-    } else {
-        resolve_segments(&drawn, Land::bundled())
-    }
-    .map_err(|source| CliError::SeaSide {
+    let segments = resolve_segments(&drawn, land).map_err(|source| CliError::SeaSide {
         path: path.into(),
         source,
     })?;
@@ -478,7 +608,9 @@ fn wind_paths(given: &[PathBuf], coast: &LoadedCoast) -> Vec<PathBuf> {
 
 /// `shelfwind index`: the table of upwelling index values.
 pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
-    let coast = load_coast(&args.coast)?;
+    let packed = load_pack_land(args.land.as_deref())?;
+    let land = packed.as_ref().unwrap_or_else(|| Land::bundled());
+    let coast = load_coast(&args.coast, land)?;
     let segments = &coast.segments;
     let sources = load_sources(&wind_paths(&args.wind, &coast))?;
     let winds = assign_wind(&sources, segments)?;

@@ -2,7 +2,9 @@
 //! subcommands run the headless command line.
 
 use clap::Parser;
-use shelfwind::cli::{Cli, Command, run_demo, run_index, run_inspect, run_plan, run_season};
+use shelfwind::cli::{
+    Cli, Command, run_coast_pack, run_demo, run_index, run_inspect, run_plan, run_season,
+};
 use std::process::ExitCode;
 
 /// The desktop app, or a message when this build has none.
@@ -31,6 +33,7 @@ fn main() -> ExitCode {
         Some(Command::Season(args)) => run_season(args),
         Some(Command::Demo(args)) => run_demo(args),
         Some(Command::Inspect { file }) => run_inspect(file),
+        Some(Command::CoastPack(args)) => run_coast_pack(args),
         None => run_app(None),
     };
     match result {

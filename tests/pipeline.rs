@@ -97,7 +97,15 @@ fn plan(sc: &Scenario, from: &str, days: usize) -> Plan {
         days,
         now: Utc::now(),
     };
-    plan_scenario(sc, &segments, &sources, &choice, &Progress::new()).expect("plan")
+    plan_scenario(
+        sc,
+        &segments,
+        &sources,
+        &choice,
+        Land::bundled(),
+        &Progress::new(),
+    )
+    .expect("plan")
 }
 
 /// Issue 19, defect 1. Calm (5 kt) 03:00–09:00 and 15:00–23:00 local, 30 kt otherwise,

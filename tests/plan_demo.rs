@@ -44,6 +44,7 @@ fn demo_plan(vessel: &str, port: &str, from: Option<NaiveDate>, days: usize) -> 
         &segments,
         &[WindSource::Grib2 { path }],
         &choice,
+        Land::bundled(),
         &Progress::new(),
     )
     .expect("plan")
@@ -172,6 +173,7 @@ fn the_blow_keeps_every_boat_in_the_sea_state_even_the_largest() {
         &segments,
         &[WindSource::Grib2 { path }],
         &choice,
+        Land::bundled(),
         &Progress::new(),
     )
     .expect("plan");
@@ -222,8 +224,15 @@ fn over_the_limit_all_day_drops_out_with_the_reason() {
         days: 1,
         now: chrono::Utc::now(),
     };
-    let plan =
-        plan_scenario(&scenario, &segments, &sources, &choice, &Progress::new()).expect("plan");
+    let plan = plan_scenario(
+        &scenario,
+        &segments,
+        &sources,
+        &choice,
+        Land::bundled(),
+        &Progress::new(),
+    )
+    .expect("plan");
     assert!(plan.days[0].ranked.is_empty());
     for e in &plan.days[0].excluded {
         assert_eq!(
@@ -399,7 +408,15 @@ fn a_swell_keeps_the_small_boat_in_on_a_calm_day() {
     };
     let plan = |files: &[PathBuf]| {
         let sources = load_sources(files).expect("files");
-        plan_scenario(&scenario, &segments, &sources, &choice, &Progress::new()).expect("plan")
+        plan_scenario(
+            &scenario,
+            &segments,
+            &sources,
+            &choice,
+            Land::bundled(),
+            &Progress::new(),
+        )
+        .expect("plan")
     };
     let with_waves = plan(&files);
     let tuesday = &with_waves.days[0];

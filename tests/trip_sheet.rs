@@ -38,6 +38,7 @@ fn plan_for(scenario: &Scenario, vessel: &str, port: &str, from: &str) -> Plan {
         &segments,
         &[WindSource::Grib2 { path }],
         &choice,
+        Land::bundled(),
         &Progress::new(),
     )
     .expect("plan")

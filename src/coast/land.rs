@@ -133,52 +133,12 @@ impl Land {
     /// Reads a land file (format in `assets/README.md`). Any input is safe: damaged or
     /// hostile bytes give an error, never a panic or a huge allocation.
     pub fn from_bytes(bytes: &[u8]) -> Result<Land, LandError> {
-        let mut reader = Reader { bytes, offset: 0 };
-        if reader.take(MAGIC.len()) != Some(MAGIC.as_slice()) {
-            return Err(LandError::BadMagic);
-        }
-        let ring_count = reader.u32("the ring count")?;
-        if ring_count == 0 {
-            return Err(LandError::NoRings);
-        }
-        // Every ring takes at least 10 bytes (a count and three points of two one-byte
-        // varints), so the remaining length bounds what is worth reserving.
-        let mut rings = Vec::with_capacity((ring_count as usize).min(reader.remaining() / 10));
-        for ring in 0..ring_count {
-            let count = reader.u32("a ring's point count")?;
-            if count < 3 {
-                return Err(LandError::TooFewPoints { ring, count });
-            }
-            let mut points = Vec::with_capacity((count as usize).min(reader.remaining() / 2));
-            let (mut lon_units, mut lat_units) = (0_i64, 0_i64);
-            for point in 0..count {
-                let out_of_range = LandError::OutOfRange { ring, point };
-                lon_units = lon_units
-                    .checked_add(reader.zigzag_varint("a longitude difference")?)
-                    .ok_or(out_of_range.clone())?;
-                lat_units = lat_units
-                    .checked_add(reader.zigzag_varint("a latitude difference")?)
-                    .ok_or(out_of_range.clone())?;
-                if lon_units.abs() > 180 * 100_000 || lat_units.abs() > 90 * 100_000 {
-                    return Err(out_of_range);
-                }
-                points.push(LatLon::new(
-                    lat_units as f64 / UNITS_PER_DEGREE,
-                    lon_units as f64 / UNITS_PER_DEGREE,
-                ));
-            }
-            rings.push(points);
-        }
-        if reader.remaining() > 0 {
-            return Err(LandError::TrailingBytes {
-                offset: reader.offset,
-                count: reader.remaining(),
-            });
-        }
-        Ok(Land::from_rings(rings))
+        parse_rings(bytes, false).map(Land::from_rings)
     }
 
-    fn from_rings(rings: Vec<Vec<LatLon>>) -> Land {
+    /// Land from rings of (lat, lon) degrees, outer rings and holes alike (even-odd);
+    /// the closing point is not repeated.
+    pub(crate) fn from_rings(rings: Vec<Vec<LatLon>>) -> Land {
         let edges = rings
             .iter()
             .flat_map(|ring| {
@@ -230,6 +190,105 @@ impl Land {
     #[must_use]
     pub fn rings(&self) -> &[Vec<LatLon>] {
         &self.rings
+    }
+}
+
+/// Reads the rings of a land file; `allow_empty` admits a ring count of zero (a coast
+/// pack of open sea). Any input is safe.
+pub(crate) fn parse_rings(bytes: &[u8], allow_empty: bool) -> Result<Vec<Vec<LatLon>>, LandError> {
+    let mut reader = Reader { bytes, offset: 0 };
+    if reader.take(MAGIC.len()) != Some(MAGIC.as_slice()) {
+        return Err(LandError::BadMagic);
+    }
+    let ring_count = reader.u32("the ring count")?;
+    if ring_count == 0 && !allow_empty {
+        return Err(LandError::NoRings);
+    }
+    // Every ring takes at least 10 bytes (a count and three points of two one-byte
+    // varints), so the remaining length bounds what is worth reserving.
+    let mut rings = Vec::with_capacity((ring_count as usize).min(reader.remaining() / 10));
+    for ring in 0..ring_count {
+        let count = reader.u32("a ring's point count")?;
+        if count < 3 {
+            return Err(LandError::TooFewPoints { ring, count });
+        }
+        let mut points = Vec::with_capacity((count as usize).min(reader.remaining() / 2));
+        let (mut lon_units, mut lat_units) = (0_i64, 0_i64);
+        for point in 0..count {
+            let out_of_range = LandError::OutOfRange { ring, point };
+            lon_units = lon_units
+                .checked_add(reader.zigzag_varint("a longitude difference")?)
+                .ok_or(out_of_range.clone())?;
+            lat_units = lat_units
+                .checked_add(reader.zigzag_varint("a latitude difference")?)
+                .ok_or(out_of_range.clone())?;
+            if lon_units.abs() > 180 * 100_000 || lat_units.abs() > 90 * 100_000 {
+                return Err(out_of_range);
+            }
+            points.push(LatLon::new(
+                lat_units as f64 / UNITS_PER_DEGREE,
+                lon_units as f64 / UNITS_PER_DEGREE,
+            ));
+        }
+        rings.push(points);
+    }
+    if reader.remaining() > 0 {
+        return Err(LandError::TrailingBytes {
+            offset: reader.offset,
+            count: reader.remaining(),
+        });
+    }
+    Ok(rings)
+}
+
+/// Writes rings as a land file (`SWLAND01`, see `assets/README.md`): positions rounded
+/// to 1e-5 degree, repeated points (and a repeated closing point) dropped, rings left
+/// with fewer than three points dropped. Positions must lie within −180..180 longitude
+/// and −90..90 latitude (they are clamped). Zero rings are written as a count of 0,
+/// which only a coast pack accepts.
+#[must_use]
+pub(crate) fn write_land_body(rings: &[Vec<LatLon>]) -> Vec<u8> {
+    let to_units = |p: &LatLon| {
+        (
+            (p.lon_deg.clamp(-180.0, 180.0) * UNITS_PER_DEGREE).round() as i64,
+            (p.lat_deg.clamp(-90.0, 90.0) * UNITS_PER_DEGREE).round() as i64,
+        )
+    };
+    let mut kept: Vec<Vec<(i64, i64)>> = Vec::with_capacity(rings.len());
+    for ring in rings {
+        let mut units: Vec<(i64, i64)> = ring.iter().map(to_units).collect();
+        units.dedup();
+        while units.len() > 1 && units.first() == units.last() {
+            units.pop();
+        }
+        if units.len() >= 3 {
+            kept.push(units);
+        }
+    }
+    let mut out = MAGIC.to_vec();
+    out.extend_from_slice(&(kept.len() as u32).to_le_bytes());
+    for ring in &kept {
+        out.extend_from_slice(&(ring.len() as u32).to_le_bytes());
+        let (mut px, mut py) = (0, 0);
+        for &(x, y) in ring {
+            write_zigzag_varint(&mut out, x - px);
+            write_zigzag_varint(&mut out, y - py);
+            (px, py) = (x, y);
+        }
+    }
+    out
+}
+
+fn write_zigzag_varint(out: &mut Vec<u8>, v: i64) {
+    let mut z = ((v << 1) ^ (v >> 63)) as u64;
+    loop {
+        let byte = (z & 0x7f) as u8;
+        z >>= 7;
+        if z == 0 {
+            out.push(byte);
+            return;
+        }
+        out.push(byte | 0x80);
     }
 }
 

@@ -6,6 +6,7 @@ mod fetch;
 mod geodesy;
 mod geojson;
 mod land;
+mod packs;
 mod resolve;
 mod route;
 mod segment;
@@ -17,6 +18,10 @@ pub use geodesy::{
 };
 pub use geojson::{CoastError, read_coast_geojson, write_coast_geojson};
 pub use land::{Land, LandError, SideFinding, find_sea_side};
+pub use packs::{
+    CutSummary, LandFileError, LandFileFormat, LandSource, Pack, PackBox, PackError, cut_pack,
+    read_land_file,
+};
 pub use resolve::{SeaSideError, resolve_segments};
 pub use route::{RouteSettings, SeaRoute, sea_routes};
 pub use segment::{Piece, SeaSide, Segment};

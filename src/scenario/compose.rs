@@ -145,18 +145,20 @@ pub fn record_settings(scenario: &Scenario) -> crate::upwelling::RecordSettings 
 }
 
 /// The whole pipeline at once, for the command line and tests: sample the sources,
-/// compute the upwelling, rank for the chosen boat and port.
+/// compute the upwelling, rank for the chosen boat and port; fetch and ways by sea on
+/// `land` (`Land::bundled()`, or with a coast pack laid over it).
 pub fn plan_scenario(
     scenario: &Scenario,
     segments: &[Segment],
     sources: &[WindSource],
     choice: &PlanChoice<'_>,
+    land: &Land,
     progress: &Progress,
 ) -> Result<Plan, PlanError> {
     let tz = scenario.tz()?;
     let request = scenario.plan_request(choice)?;
     let ports = scenario.port_positions();
-    let geometry = scenario.forecast_geometry(segments, &ports, Land::bundled());
+    let geometry = scenario.forecast_geometry(segments, &ports, land);
     let conditions = sample_forecast_conditions(&geometry, sources, progress)?;
     let forecast = conditions.forecast(tz, &scenario.upwelling_settings());
     rank_plan(&forecast, &request)
