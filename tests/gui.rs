@@ -917,3 +917,53 @@ fn a_netcdf_file_without_wind_is_refused_with_its_contents() {
     harness.get_by_label_contains("What the file holds:\nFormat: NetCDF");
     assert_eq!(harness.state().doc.scenario.wind_files, before);
 }
+
+/// A coast pack for the scenario: chosen from the File menu by typing its path, read in
+/// the background and said to be in use; kept in the scenario; the bundled land again
+/// from the File menu, and back with Undo.
+#[test]
+fn a_coast_pack_is_used_and_dropped_from_the_file_menu() {
+    use shelfwind::coast::{PackBox, cut_pack, read_land_file};
+    let dir = tempfile::tempdir().expect("temp dir");
+    // A pack cut from the real GSHHG extract (tests/fixtures/coast_packs/README.md).
+    let source = read_land_file(
+        &std::fs::read(fixture("coast_packs/point-reyes-gshhg-f.b")).expect("fixture"),
+    )
+    .expect("GSHHG extract");
+    let bbox = PackBox::new(-123.10, 37.65, -122.75, 38.35).expect("box");
+    let pack_path = dir.path().join("reyes.swpack");
+    std::fs::write(
+        &pack_path,
+        cut_pack(&source.rings, bbox, "GSHHG").0.to_bytes(),
+    )
+    .expect("write pack");
+    let mut harness = app_harness(dir.path());
+    harness.get_by_label("File").click();
+    harness.run_steps(2);
+    harness.get_by_label("Use a coast pack…").click();
+    harness.run_steps(3);
+    type_path(&mut harness, pack_path.to_str().expect("utf-8"));
+    harness.get_by_label("Open").click();
+    harness.run_steps(2);
+    let said = format!("Coast pack in use: {}", pack_path.display());
+    wait_until_within(
+        &mut harness,
+        "the coast pack read",
+        Duration::from_mins(2),
+        |app| app.dialogs.messages.iter().any(|m| m.text == said),
+    );
+    wait_for_plan(&mut harness);
+    harness.get_by_label_contains(&said);
+    assert_eq!(
+        harness.state().doc.scenario.coast_pack,
+        Some(pack_path.clone())
+    );
+    harness.get_by_label("File").click();
+    harness.run_steps(2);
+    harness.get_by_label("Use the bundled land only").click();
+    harness.run_steps(3);
+    assert_eq!(harness.state().doc.scenario.coast_pack, None);
+    harness.get_by_label("Undo").click();
+    harness.run_steps(3);
+    assert_eq!(harness.state().doc.scenario.coast_pack, Some(pack_path));
+}

@@ -55,6 +55,7 @@ fn scenario(tz: &str, segments: Vec<CoastSegment>, port: LatLon, wind: Vec<PathB
             range_nm: 30.0,
         }],
         wind_files: wind,
+        coast_pack: None,
         settings: shelfwind::scenario::ModelSettings::default(),
         notes: String::new(),
     }

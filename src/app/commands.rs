@@ -34,6 +34,8 @@ pub enum FileAction {
     ExportTripSheet,
     /// Add an offline map pack (MBTiles, PMTiles or a tile folder) as a base map.
     AddMapPack,
+    /// Use a coast pack (`shelfwind coast-pack`) for the scenario's land.
+    UseCoastPack,
 }
 
 impl FileAction {
@@ -53,6 +55,7 @@ impl FileAction {
             FileAction::ExportGpxSelected => "Export the selected stretches (GPX)",
             FileAction::ExportTripSheet => "Export trip sheet (HTML)",
             FileAction::AddMapPack => "Add a map pack (file or folder)",
+            FileAction::UseCoastPack => "Use a coast pack (made by shelfwind coast-pack)",
         }
     }
 
@@ -65,6 +68,7 @@ impl FileAction {
                 | FileAction::ImportWind
                 | FileAction::ImportCoast
                 | FileAction::AddMapPack
+                | FileAction::UseCoastPack
         )
     }
 
@@ -83,6 +87,7 @@ impl FileAction {
             FileAction::ExportGpx | FileAction::ExportGpxSelected => &["gpx"],
             FileAction::ExportTripSheet => &["html"],
             FileAction::AddMapPack => &["mbtiles", "pmtiles"],
+            FileAction::UseCoastPack => &["swpack"],
         }
     }
 }

@@ -36,6 +36,8 @@ pub enum Edit {
     SetSettings(ModelSettings),
     /// Replace the wind files.
     SetWindFiles(Vec<std::path::PathBuf>),
+    /// Use a coast pack (or, with `None`, the bundled land only).
+    SetCoastPack(Option<std::path::PathBuf>),
     /// Replace the boats.
     SetVessels(Vec<crate::plan::Vessel>),
     /// Replace the home ports.
@@ -116,6 +118,7 @@ fn apply_edit(s: &mut Scenario, edit: Edit) {
         }
         Edit::SetSettings(settings) => s.settings = settings,
         Edit::SetWindFiles(files) => s.wind_files = files,
+        Edit::SetCoastPack(pack) => s.coast_pack = pack,
         Edit::SetVessels(vessels) => s.vessels = vessels,
         Edit::SetPorts(ports) => s.ports = ports,
     }

@@ -21,7 +21,8 @@ pub struct SegmentDraft {
     /// The fields as typed.
     fields: Fields,
     /// The sea side the land gives for these points (found once per geometry).
-    side: Option<(Vec<LatLon>, SideFinding)>,
+    /// The sea side last found: for these points, on this land (its address).
+    side: Option<(Vec<LatLon>, usize, SideFinding)>,
 }
 
 fn date_text(d: Option<NaiveDate>) -> String {
@@ -53,20 +54,21 @@ impl FieldIds {
 
 impl SegmentDraft {
     /// The sea side the land gives for these points, when the land can tell.
-    pub(super) fn sea_from_land(&mut self, points: &[LatLon]) -> Option<SeaSide> {
-        match self.side_from_land(points) {
+    pub(super) fn sea_from_land(&mut self, points: &[LatLon], land: &Land) -> Option<SeaSide> {
+        match self.side_from_land(points, land) {
             SideFinding::Sea(s) => Some(s),
             _ => None,
         }
     }
 
     /// The sea side found from the land, computed again only when the points move.
-    fn side_from_land(&mut self, points: &[LatLon]) -> SideFinding {
+    fn side_from_land(&mut self, points: &[LatLon], land: &Land) -> SideFinding {
+        let key = std::ptr::from_ref(land) as usize;
         match &self.side {
-            Some((p, finding)) if p == points => *finding,
+            Some((p, k, finding)) if p == points && *k == key => *finding,
             _ => {
-                let finding = find_sea_side(Land::bundled(), points);
-                self.side = Some((points.to_vec(), finding));
+                let finding = find_sea_side(land, points);
+                self.side = Some((points.to_vec(), key, finding));
                 finding
             }
         }
@@ -103,10 +105,12 @@ pub(super) fn editor_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mu
     });
     ui.label(RichText::new(format!("id: {}", seg.id)).small());
     ui.label(RichText::new(wind_from_text(app, &seg.id)).small());
+    let land_model = app.land_model();
+    let land = land_model.as_deref().unwrap_or_else(|| Land::bundled());
     let draft = &mut app.view.segment_draft;
     text_fields_ui(draft, &seg, ids, ui, commands);
     ui.separator();
-    sea_side_ui(draft, &seg, ui, commands);
+    sea_side_ui(draft, &seg, land, ui, commands);
     ui.separator();
     closure_ui(draft, &seg, ids, ui, commands);
     ui.separator();
@@ -170,10 +174,11 @@ fn text_fields_ui(
 fn sea_side_ui(
     draft: &mut SegmentDraft,
     seg: &CoastSegment,
+    land: &Land,
     ui: &mut egui::Ui,
     commands: &mut Vec<Command>,
 ) {
-    let from_land = draft.side_from_land(&seg.points);
+    let from_land = draft.side_from_land(&seg.points, land);
     let side_name = |s: SeaSide| if s == SeaSide::Left { "left" } else { "right" };
     let side_text = match (seg.sea, from_land) {
         (Some(s), _) => format!(

@@ -329,6 +329,7 @@ impl ShelfwindApp {
             FileAction::SaveScenarioAs => self.save_as(path, ctx),
             FileAction::ImportWind => self.add_wind_file(path, ctx),
             FileAction::AddMapPack => self.open_pack(path, ctx),
+            FileAction::UseCoastPack => self.use_coast_pack(Some(path)),
             FileAction::ImportCoast => {
                 self.start_file_task(Subject::Coast, ctx, move || read_coast_file(&path));
             }
@@ -369,6 +370,7 @@ impl ShelfwindApp {
             );
             return;
         }
+        let land_model = self.land_model();
         self.start_file_task(Subject::Export, ctx, move || {
             write_file(
                 &path,
@@ -382,7 +384,9 @@ impl ShelfwindApp {
                     }
                     _ => crate::export::trip_sheet_html(
                         &plan,
-                        crate::coast::Land::bundled(),
+                        land_model
+                            .as_deref()
+                            .unwrap_or_else(|| crate::coast::Land::bundled()),
                         day,
                         units,
                     ),

@@ -78,16 +78,18 @@ struct JobInput {
     new_file: Option<PathBuf>,
     /// Wind files whose contents are to be described.
     describe: Vec<PathBuf>,
+    /// The land with the scenario's coast pack; `None`: the bundled land.
+    land: Option<Arc<Land>>,
 }
 
 /// The conditions: from the cache when the files and the geometry are unchanged,
 /// sampled afresh otherwise.
 fn conditions(input: &JobInput, progress: &Progress) -> Result<Arc<SampledConditions>, String> {
     let scenario = &input.scenario;
-    let segments =
-        resolve_segments(&scenario.segments, Land::bundled()).map_err(|e| e.to_string())?;
+    let land = input.land.as_deref().unwrap_or_else(|| Land::bundled());
+    let segments = resolve_segments(&scenario.segments, land).map_err(|e| e.to_string())?;
     let ports = scenario.port_positions();
-    let geometry = scenario.forecast_geometry(&segments, &ports, Land::bundled());
+    let geometry = scenario.forecast_geometry(&segments, &ports, land);
     let identities = input
         .winds
         .iter()
@@ -190,6 +192,7 @@ impl ShelfwindApp {
             cache: self.stage_cache.clone(),
             new_file: new_wind.as_ref().and_then(|f| f.last().cloned()),
             describe: Vec::new(),
+            land: self.land_model(),
         };
         let mut input = input;
         input.describe = input

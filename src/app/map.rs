@@ -991,10 +991,14 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     keep_view_steady(ui.ctx(), &mut app.map_memory, my_position, rect);
     place_view(app, rect.size());
     let time = app.view.timeline.get(app.view.hour).copied();
+    let land_model = app.land_model();
     let editing = editing_segment(
         &app.doc.scenario.segments,
         app.view.editing.as_ref(),
         &mut app.view.segment_draft,
+        land_model
+            .as_deref()
+            .unwrap_or_else(|| crate::coast::Land::bundled()),
     );
     // Start a vertex drag before the map pans: a press on a handle drawn last frame.
     let pressed_on_handle = ui.input(|i| {
@@ -1109,9 +1113,10 @@ fn editing_segment<'a>(
     segments: &'a [CoastSegment],
     editing: Option<&String>,
     draft: &mut super::editor::SegmentDraft,
+    land: &crate::coast::Land,
 ) -> Option<(&'a CoastSegment, Option<SeaSide>)> {
     let seg = segments.iter().find(|s| Some(&s.id) == editing)?;
-    Some((seg, seg.sea.or(draft.sea_from_land(&seg.points))))
+    Some((seg, seg.sea.or(draft.sea_from_land(&seg.points, land))))
 }
 
 /// What to do while placing port `k`, at the top of the map.

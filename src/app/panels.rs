@@ -131,6 +131,11 @@ fn file_menu(ui: &mut egui::Ui, commands: &mut Vec<Command>) {
             ("Import coast (GeoJSON)…", ask(F::ImportCoast)),
             ("Export coast (GeoJSON)…", ask(F::ExportCoast)),
             ("Add a map pack…", ask(F::AddMapPack)),
+            ("Use a coast pack…", ask(F::UseCoastPack)),
+            (
+                "Use the bundled land only",
+                Command::Edit(super::edit::Edit::SetCoastPack(None)),
+            ),
         ],
         &[
             ("Export plan (CSV)…", ask(F::ExportPlanCsv)),

@@ -447,9 +447,10 @@ impl ShelfwindApp {
         let files = self.wind_paths(&files);
         let progress = Arc::new(Progress::new());
         let worker = progress.clone();
+        let land_model = self.land_model();
         let task = Task::spawn("seasons", ctx, move || {
-            let segments =
-                resolve_segments(&scenario.segments, Land::bundled()).map_err(|e| e.to_string())?;
+            let land = land_model.as_deref().unwrap_or_else(|| Land::bundled());
+            let segments = resolve_segments(&scenario.segments, land).map_err(|e| e.to_string())?;
             let sources = load_sources(&files).map_err(|e| e.to_string())?;
             let names = segment_names(Some(&scenario), &segments);
             analyse_record(

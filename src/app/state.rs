@@ -219,6 +219,9 @@ pub struct Dialogs {
     pub settings_draft: Option<crate::scenario::ModelSettings>,
 }
 
+/// What reading a coast pack gives: the land with the pack, and its drawing.
+pub(super) type CoastPackResult = Result<(crate::coast::Land, LandMesh), String>;
+
 /// The app.
 pub struct ShelfwindApp {
     /// The document.
@@ -255,6 +258,14 @@ pub struct ShelfwindApp {
     /// The land drawn on the map, once triangulated in the background.
     pub(super) land: Option<Arc<LandMesh>>,
     pub(super) land_task: Option<super::tasks::Task<LandMesh>>,
+    /// The bundled land with the scenario's coast pack over it, once read.
+    pub(super) packed_land: Option<super::coast_pack::PackedLand>,
+    /// Reading the coast pack (the land and its drawing).
+    pub(super) coast_pack_task: Option<super::tasks::Task<CoastPackResult>>,
+    /// The coast pack being read.
+    pub(super) coast_pack_reading: Option<PathBuf>,
+    /// A coast pack that could not be used (not tried again until it changes).
+    pub(super) coast_pack_failed: Option<PathBuf>,
     /// Opening, saving, importing or exporting a file.
     pub(super) file_task: Option<(
         super::messages::Subject,
@@ -304,6 +315,7 @@ impl ShelfwindApp {
             ports: Vec::new(),
             vessels: Vec::new(),
             wind_files: Vec::new(),
+            coast_pack: None,
             settings: crate::scenario::ModelSettings::default(),
             notes: String::new(),
         };
@@ -344,6 +356,10 @@ impl ShelfwindApp {
             pack: None,
             pack_task: None,
             land: None,
+            packed_land: None,
+            coast_pack_task: None,
+            coast_pack_reading: None,
+            coast_pack_failed: None,
             land_task: super::tasks::Task::spawn("land", ctx, || LandMesh::new(Land::bundled()))
                 .ok(),
             file_task: None,
@@ -403,9 +419,13 @@ impl eframe::App for ShelfwindApp {
         self.poll_job(&ctx);
         self.poll_file_task();
         self.poll_pack_task(&ctx);
+        self.poll_coast_pack(&ctx);
         if let Some(mesh) = self.land_task.as_ref().and_then(super::tasks::Task::poll) {
             self.land_task = None;
-            self.land = mesh.ok().map(Arc::new);
+            // A coast pack's land, drawn meanwhile, stays.
+            if self.packed_land.is_none() {
+                self.land = mesh.ok().map(Arc::new);
+            }
         }
         self.handle_close(&ctx);
         self.handle_dropped_files(&ctx);
@@ -422,7 +442,8 @@ impl eframe::App for ShelfwindApp {
         let working = self.job.is_some()
             || self.file_task.is_some()
             || self.land_task.is_some()
-            || self.pack_task.is_some();
+            || self.pack_task.is_some()
+            || self.coast_pack_task.is_some();
         if working || self.view.playing || self.map_memory.animating() {
             ctx.request_repaint_after(std::time::Duration::from_millis(100));
         }

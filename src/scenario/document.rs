@@ -61,6 +61,10 @@ pub struct Scenario {
     /// Wind files, relative to the scenario file's folder (or absolute).
     #[serde(default)]
     pub wind_files: Vec<PathBuf>,
+    /// A coast pack (`shelfwind coast-pack`) laid over the bundled land for this
+    /// scenario's waters; relative paths are read from the scenario's folder.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub coast_pack: Option<PathBuf>,
     /// Model settings.
     #[serde(default)]
     pub settings: ModelSettings,
