@@ -392,11 +392,17 @@ impl Component {
     }
 }
 
+/// Which ensemble member fields belong to: (Code Table 4.6 type, perturbation number),
+/// or `None` for a deterministic forecast.
+type MemberKey = Option<(u8, u8)>;
+
 /// The 10 m wind fields found so far while walking a file, and what else it holds.
 #[derive(Default)]
 struct Gathered {
     /// Per valid time, the u and v fields.
-    fields: BTreeMap<DateTime<Utc>, [Option<Field>; 2]>,
+    fields: BTreeMap<(MemberKey, DateTime<Utc>), [Option<Field>; 2]>,
+    /// The ensemble size each member's fields declare.
+    ensemble_size: BTreeMap<MemberKey, u8>,
     /// How each point is sampled, per distinct grid definition, so a grid is set up once.
     grids: HashMap<Vec<u8>, GridRules>,
     /// Descriptions of the fields that are not 10 m wind, for the error when none is.
@@ -516,14 +522,22 @@ impl Gathered {
         field: SampledField,
     ) -> Result<(), WindFileError> {
         let component = field.component;
-        let slot = &mut self.fields.entry(t).or_default()[component as usize];
+        let member = field
+            .header
+            .ensemble
+            .map(|(kind, number, _)| (kind, number));
+        if let Some((_, _, size)) = field.header.ensemble {
+            self.ensemble_size.insert(member, size);
+        }
+        let slot = &mut self.fields.entry((member, t)).or_default()[component as usize];
         if let Some(first) = slot {
             return Err(message_error(
                 message,
                 format!(
-                    "a second 10 m {} field valid at {} (the first is in message {}): ensemble members or repeated steps are not supported yet",
+                    "a second 10 m {} field valid at {}{} (the first is in message {}): repeated steps are not supported",
                     component.name(),
                     utc_stamp(t),
+                    member.map_or(String::new(), |(_, n)| format!(" for ensemble member {n}")),
                     first.message
                 ),
             ));
@@ -537,15 +551,13 @@ impl Gathered {
     }
 
     /// Pairs u with v at every valid time into wind series at each of `point_count`
-    /// points.
-    fn into_samples(self, point_count: usize) -> Result<Grib2Samples, WindFileError> {
+    /// points, one set per ensemble member (one set for a deterministic forecast).
+    fn into_members(self, point_count: usize) -> Result<Vec<MemberSamples>, WindFileError> {
         if self.fields.is_empty() {
             return Err(no_wind_error(self.other_params));
         }
-        let mut times = Vec::with_capacity(self.fields.len());
-        let mut per_point: Vec<Option<Vec<Wind>>> =
-            vec![Some(Vec::with_capacity(self.fields.len())); point_count];
-        for (t, pair) in self.fields {
+        let mut members: Vec<MemberSamples> = Vec::new();
+        for ((member, t), pair) in self.fields {
             let Some((u, v)) = matched_pair(t, pair)? else {
                 continue;
             };
@@ -559,15 +571,60 @@ impl Gathered {
                     ),
                 ));
             }
-            times.push(t);
-            push_winds(&mut per_point, &u, &v);
+            let id = member.map(|(kind, number)| EnsembleMember {
+                kind,
+                number,
+                ensemble_size: self.ensemble_size.get(&Some((kind, number))).copied(),
+            });
+            if members.last().is_none_or(|m| m.member != id) {
+                members.push(MemberSamples {
+                    member: id,
+                    samples: Grib2Samples {
+                        times: Vec::new(),
+                        points: vec![Some(Vec::new()); point_count],
+                        latest_reference: self.latest_reference,
+                    },
+                });
+            }
+            let Some(last) = members.last_mut() else {
+                continue;
+            };
+            last.samples.times.push(t);
+            push_winds(&mut last.samples.points, &u, &v);
         }
-        Ok(Grib2Samples {
-            times,
-            points: per_point,
-            latest_reference: self.latest_reference,
-        })
+        Ok(members)
     }
+}
+
+/// The member of an ensemble forecast a set of fields belongs to (GRIB2 product
+/// templates 4.1 and 4.11).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct EnsembleMember {
+    /// Type of ensemble forecast, WMO Code Table 4.6: 0 unperturbed high-resolution
+    /// control, 1 unperturbed low-resolution control, 2 negatively and 3 positively
+    /// perturbed, 4 multi-model.
+    pub kind: u8,
+    /// Perturbation number.
+    pub number: u8,
+    /// Number of forecasts in the ensemble, as the file declares it.
+    pub ensemble_size: Option<u8>,
+}
+
+impl EnsembleMember {
+    /// Whether this is a control (unperturbed) run.
+    #[must_use]
+    pub fn is_control(&self) -> bool {
+        self.kind <= 1
+    }
+}
+
+/// The wind of one member of an ensemble (or of a deterministic forecast: no member).
+#[derive(Debug, Clone, PartialEq)]
+pub struct MemberSamples {
+    /// The member; `None` for a deterministic forecast.
+    pub member: Option<EnsembleMember>,
+    /// Its wind at the points.
+    pub samples: Grib2Samples,
 }
 
 /// The error for a file without 10 m wind, listing what it holds instead.
@@ -635,12 +692,53 @@ pub fn sample_grib2<R: Read + Seek>(
 }
 
 /// Like [`sample_grib2`], reporting the share of the file read to `progress` and
-/// stopping with [`WindFileError::Cancelled`] when asked to.
+/// stopping with [`WindFileError::Cancelled`] when asked to. A file of several ensemble
+/// members is refused (see [`sample_grib2_members`]); a single member is a forecast.
 pub fn sample_grib2_with<R: Read + Seek>(
-    mut r: R,
+    r: R,
     points: &[LatLon],
     progress: &Progress,
 ) -> Result<Grib2Samples, WindFileError> {
+    let mut members = sample_grib2_members_with(r, points, progress)?;
+    if members.len() > 1 {
+        let names: Vec<String> = members
+            .iter()
+            .map(|m| {
+                m.member
+                    .map_or("a deterministic forecast".to_string(), |e| {
+                        format!(
+                            "{} {}",
+                            if e.is_control() { "control" } else { "member" },
+                            e.number
+                        )
+                    })
+            })
+            .collect();
+        return Err(WindFileError::Grib(format!(
+            "the file holds {} ensemble members ({}): the planner takes one forecast; give one member or a deterministic forecast",
+            members.len(),
+            names.join(", ")
+        )));
+    }
+    Ok(members.remove(0).samples)
+}
+
+/// Every 10 m u/v field of a GRIB2 stream sampled at `points`, one set per ensemble
+/// member (in the order of their Code Table 4.6 type and perturbation number), or one
+/// set for a deterministic forecast.
+pub fn sample_grib2_members<R: Read + Seek>(
+    r: R,
+    points: &[LatLon],
+) -> Result<Vec<MemberSamples>, WindFileError> {
+    sample_grib2_members_with(r, points, &Progress::new())
+}
+
+/// Like [`sample_grib2_members`], with progress and cancelling.
+pub fn sample_grib2_members_with<R: Read + Seek>(
+    mut r: R,
+    points: &[LatLon],
+    progress: &Progress,
+) -> Result<Vec<MemberSamples>, WindFileError> {
     let file_len = r.seek(SeekFrom::End(0))?;
     if file_len == 0 {
         return Err(empty_file_error());
@@ -658,7 +756,7 @@ pub fn sample_grib2_with<R: Read + Seek>(
     if messages.count == 0 {
         return Err(no_message_error());
     }
-    gathered.into_samples(points.len())
+    gathered.into_members(points.len())
 }
 
 /// The error for a file of no bytes at all.

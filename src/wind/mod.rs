@@ -31,7 +31,10 @@ pub use demo::{
     DEMO_STEP_DEG, demo_forecast_grib2, demo_reference_time, demo_wave_height_m, demo_waves_grib2,
     demo_wind,
 };
-pub use grib2::{Grib2Samples, sample_grib2, sample_grib2_with};
+pub use grib2::{
+    EnsembleMember, Grib2Samples, MemberSamples, sample_grib2, sample_grib2_members,
+    sample_grib2_members_with, sample_grib2_with,
+};
 pub use grib2_grid::{GribGrid, NEAREST_CELLS, Weights};
 pub use grib2_writer::{GridField, Parameter, encode_message, encode_wind_message};
 pub use inspect::{FileSummary, TimeSpan, grib2_wind_grids, inspect_file, inspect_grib2};
