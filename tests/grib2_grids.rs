@@ -575,3 +575,33 @@ fn inspect_tells_real_files_apart() {
     );
     assert!(waves.contains("Uses: wave height and period (sea state)"));
 }
+
+/// A grid that declares a billion points (a damaged or hostile size) is refused before
+/// anything is decoded, in one line; `inspect` says the same.
+#[test]
+fn a_billion_point_grid_is_refused_quickly() {
+    let mut bytes = std::fs::read(fixture("simple_hours.grib2")).expect("fixture");
+    // Section 3 of message 1: walk the sections from byte 16.
+    let mut pos = 16;
+    while bytes[pos + 4] != 3 {
+        pos += u32::from_be_bytes(bytes[pos..pos + 4].try_into().expect("4 bytes")) as usize;
+    }
+    let (ni, nj) = (40_000_u32, 25_000_u32);
+    bytes[pos + 6..pos + 10].copy_from_slice(&(ni * nj).to_be_bytes());
+    bytes[pos + 30..pos + 34].copy_from_slice(&ni.to_be_bytes());
+    bytes[pos + 34..pos + 38].copy_from_slice(&nj.to_be_bytes());
+    let err = sample_grib2(std::io::Cursor::new(&bytes), &[LatLon::new(35.0, -120.0)])
+        .expect_err("refused")
+        .to_string();
+    assert_eq!(
+        err,
+        "message 1: grid of 40000 × 25000 = 1000000000 points is larger than the tool reads (at most 100000000; the largest global forecasts have about 7 million)"
+    );
+    let text = shelfwind::wind::inspect_grib2(std::io::Cursor::new(&bytes))
+        .expect("readable")
+        .to_text();
+    assert!(
+        text.contains("Grid: grid of 40000 × 25000 = 1000000000 points is larger"),
+        "{text}"
+    );
+}

@@ -452,15 +452,28 @@ pub(super) fn decode_field(msg: &[u8], h: &FieldHeader) -> Result<Vec<f32>, Stri
         s6
     };
     let points = u32_at(msg, h.grid.0 + 6) as usize;
+    if points > super::grib2_grid::MAX_GRID_POINTS {
+        return Err(format!(
+            "a grid of {points} points is larger than the tool reads"
+        ));
+    }
     let (s5, s6, s7) = (bytes(s5), bytes(s6), bytes(s7));
     check_counts(&s5, points)?;
     std::panic::catch_unwind(move || {
         let decoder =
-            grib::Grib2SubmessageDecoder::new(points, s5, s6, s7).map_err(|e| e.to_string())?;
-        let values: Vec<f32> = decoder.dispatch().map_err(|e| e.to_string())?.collect();
+            grib::Grib2SubmessageDecoder::new(points, s5, s6, s7).map_err(|e| one_line(&e))?;
+        let values: Vec<f32> = decoder.dispatch().map_err(|e| one_line(&e))?.collect();
         Ok(values)
     })
     .map_err(|_| "the GRIB2 decoder failed on this field (damaged data?)".to_string())?
+}
+
+/// A decoder error on one line (the decoder's own text may span several).
+fn one_line(e: &impl std::fmt::Display) -> String {
+    e.to_string()
+        .split_whitespace()
+        .collect::<Vec<_>>()
+        .join(" ")
 }
 
 /// Checks the counts in a data representation section (section 5) against the grid

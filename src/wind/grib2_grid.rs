@@ -47,6 +47,10 @@ pub(super) fn grid_template_name(t: u16) -> &'static str {
     }
 }
 
+/// The largest grid read, points: a damaged or hostile size must not make the decoder
+/// allocate gigabytes (a 0.1° global grid has 6.5 million points).
+pub const MAX_GRID_POINTS: usize = 100_000_000;
+
 /// The templates read, as a sentence for "not supported" messages.
 pub(super) const TEMPLATES_READ: &str = "regular latitude/longitude (template 3.0), rotated latitude/longitude (3.1), Mercator (3.10), polar stereographic (3.20), Lambert conformal (3.30) and regular Gaussian (3.40)";
 
@@ -181,6 +185,11 @@ impl GribGrid {
         if ni == 0 || nj == 0 || ni.checked_mul(nj) != Some(declared) || u32_at(s3, 30) == !0 {
             return Err(bad(format!(
                 "grid of {ni} × {nj} points does not match its {declared} data points: quasi-regular (reduced) grids are not supported"
+            )));
+        }
+        if declared > MAX_GRID_POINTS {
+            return Err(bad(format!(
+                "grid of {ni} × {nj} = {declared} points is larger than the tool reads (at most {MAX_GRID_POINTS}; the largest global forecasts have about 7 million)"
             )));
         }
         if ni < 2 || nj < 2 {
