@@ -213,6 +213,40 @@ fn hovering_a_stretch_names_it_with_its_rank() {
     );
 }
 
+/// Over a stretch left out on the day, the pointer shows why, in the list's words.
+#[test]
+fn hovering_a_stretch_left_out_tells_why() {
+    use shelfwind::export::plan_text::excluded_text;
+    use shelfwind::export::units::Units;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let plan = harness.state().plan.clone().expect("plan");
+    let left_out = plan.days[0]
+        .excluded
+        .first()
+        .expect("the demo leaves some out");
+    let stretch = &plan.stretches[left_out.stretch];
+    harness.state_mut().send(Command::CentreOn(stretch.centre));
+    harness.run_steps(2);
+    click_zoom(&mut harness, "Zoom in");
+    click_zoom(&mut harness, "Zoom in");
+    let middle = map_point(&harness, 0.5, 0.5);
+    harness.hover_at(middle);
+    harness.run_steps(2);
+    let shown = harness
+        .get_by_label_contains(&format!("{}\nleft out: ", stretch.name))
+        .value()
+        .unwrap_or_default();
+    assert_eq!(
+        shown,
+        format!(
+            "{}\nleft out: {}",
+            stretch.name,
+            excluded_text(&plan, left_out, Units::default())
+        )
+    );
+}
+
 #[test]
 fn a_selected_stretch_is_named_on_the_map() {
     let dir = tempfile::tempdir().expect("temp dir");

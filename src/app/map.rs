@@ -199,8 +199,13 @@ pub(super) fn name_painted(ui: &egui::Ui, rect: Rect, salt: impl egui::AsIdSalt,
 }
 
 /// What the pointer shows over a stretch: its name and, if it is ranked on the day, its
-/// rank and score.
-fn stretch_hover_text(plan: &Plan, day: usize, stretch: usize) -> String {
+/// rank and score, else why it is left out.
+fn stretch_hover_text(
+    plan: &Plan,
+    day: usize,
+    stretch: usize,
+    units: crate::export::units::Units,
+) -> String {
     let name = &plan.stretches[stretch].name;
     let ranked = plan.days.get(day).and_then(|d| {
         d.ranked
@@ -215,7 +220,23 @@ fn stretch_hover_text(plan: &Plan, day: usize, stretch: usize) -> String {
             r.rank,
             r.score
         ),
-        None => name.clone(),
+        None => {
+            // Left out on the day: say why, as the list does.
+            let why = plan
+                .days
+                .get(day)
+                .and_then(|d| d.excluded.iter().find(|e| e.stretch == stretch))
+                .map(|e| crate::export::plan_text::excluded_text(plan, e, units));
+            why.map_or_else(
+                || name.clone(),
+                |w| {
+                    format!(
+                        "{name}
+left out: {w}"
+                    )
+                },
+            )
+        }
     }
 }
 
@@ -258,6 +279,8 @@ struct CoastLayer<'a> {
     segments: &'a [CoastSegment],
     colouring: Colouring,
     day: usize,
+    /// The units words are given in.
+    units: crate::export::units::Units,
     time: Option<chrono::DateTime<chrono::Utc>>,
     selected: &'a [String],
     editing: Option<(&'a CoastSegment, Option<SeaSide>)>,
@@ -420,7 +443,7 @@ impl CoastLayer<'_> {
         let Some(k) = nearest_stretch(p, lines, STRETCH_PICK_PX) else {
             return;
         };
-        let text = stretch_hover_text(plan, self.day, k);
+        let text = stretch_hover_text(plan, self.day, k, self.units);
         // Towards the middle of the map, so the box is not cut off at an edge.
         let (left, up) = (p.x > map.center().x, p.y > map.center().y);
         let end = |far: bool| {
@@ -1057,6 +1080,7 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
             segments: &app.doc.scenario.segments,
             colouring: app.view.colouring,
             day: app.view.day,
+            units: app.view.units,
             time,
             selected: &app.view.selected,
             editing,
