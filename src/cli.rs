@@ -216,7 +216,7 @@ pub fn run_season(args: &SeasonArgs) -> Result<(), CliError> {
     use crate::upwelling::{CoverageSettings, RecordError, RecordSettings, analyse_record};
     // Seasons use the sea sides only, and the scenario's sides are set or come from
     // the bundled land.
-    let coast = load_coast(&args.scenario, Land::bundled())?;
+    let coast = load_coast(&args.scenario, None)?;
     let sources = load_sources(&args.wind)?;
     let settings = coast
         .scenario
@@ -322,7 +322,7 @@ fn parse_from(s: &str) -> Result<chrono::NaiveDate, String> {
 pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
     let packed = load_pack_land(args.land.as_deref())?;
     let land = packed.as_ref().unwrap_or_else(|| Land::bundled());
-    let coast = load_coast(&args.scenario, land)?;
+    let coast = load_coast(&args.scenario, Some(land))?;
     let Some(scenario) = coast.scenario.as_ref() else {
         return Err(CliError::Scenario(ScenarioError::File {
             path: args.scenario.clone(),
@@ -558,7 +558,7 @@ pub struct LoadedCoast {
 
 /// Reads a coast: a scenario file or a GeoJSON file; sea sides not given come from
 /// `land`.
-pub fn load_coast(path: &Path, land: &Land) -> Result<LoadedCoast, CliError> {
+pub fn load_coast(path: &Path, land: Option<&Land>) -> Result<LoadedCoast, CliError> {
     let bytes = std::fs::read(path).map_err(|source| CliError::CoastIo {
         path: path.into(),
         source,
@@ -582,6 +582,14 @@ pub fn load_coast(path: &Path, land: &Land) -> Result<LoadedCoast, CliError> {
             source,
         })?;
         (drawn, None)
+    };
+    // The land is needed only for a segment whose sea side is not set: building the
+    // bundled land's index costs a few tenths of a second.
+    let empty = Land::default();
+    let land = match land {
+        Some(l) => l,
+        None if drawn.iter().any(|s| s.sea.is_none()) => Land::bundled(),
+        None => &empty,
     };
     let segments = resolve_segments(&drawn, land).map_err(|source| CliError::SeaSide {
         path: path.into(),
@@ -609,8 +617,7 @@ fn wind_paths(given: &[PathBuf], coast: &LoadedCoast) -> Vec<PathBuf> {
 /// `shelfwind index`: the table of upwelling index values.
 pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
     let packed = load_pack_land(args.land.as_deref())?;
-    let land = packed.as_ref().unwrap_or_else(|| Land::bundled());
-    let coast = load_coast(&args.coast, land)?;
+    let coast = load_coast(&args.coast, packed.as_ref())?;
     let segments = &coast.segments;
     let sources = load_sources(&wind_paths(&args.wind, &coast))?;
     let winds = assign_wind(&sources, segments)?;
