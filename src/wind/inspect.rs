@@ -112,10 +112,11 @@ impl FileSummary {
                 .unwrap_or_default();
             let _ = writeln!(
                 s,
-                "Times: {} to {} ({} times{step})",
+                "Times: {} to {} ({} time{}{step})",
                 stamp(t.first),
                 stamp(t.last),
-                t.count
+                t.count,
+                if t.count == 1 { "" } else { "s" }
             );
         }
         for f in &self.fields {
@@ -399,6 +400,8 @@ fn others_text(others: &[(&String, &usize)]) -> String {
             kinds.push(kind);
         }
     }
+    // Named kinds first: a bare number says less.
+    kinds.sort_by_key(|k| k.starts_with("parameter "));
     let more = kinds.len().saturating_sub(SHOWN);
     let listed = kinds[..kinds.len().min(SHOWN)].join(", ");
     let tail = if more > 0 {
@@ -410,6 +413,26 @@ fn others_text(others: &[(&String, &usize)]) -> String {
         "{count} other field{} ({listed}{tail}): not needed",
         if count == 1 { "" } else { "s" }
     )
+}
+
+/// Most fields listed one per line; past [`MAX_LISTED`] kinds, the ones the tool uses
+/// one per line and the rest on one line (a national model's file holds a hundred).
+fn listed_fields(fields: &BTreeMap<String, usize>, others: &[(&String, &usize)]) -> Vec<String> {
+    const MAX_LISTED: usize = 24;
+    let line = |(name, n): (&String, &usize)| {
+        format!("{name}: {n} field{}", if *n == 1 { "" } else { "s" })
+    };
+    if fields.len() <= MAX_LISTED {
+        return fields.iter().map(line).collect();
+    }
+    fields
+        .iter()
+        .filter(|(name, _)| !others.iter().any(|(o, _)| o == name))
+        .map(line)
+        .chain(std::iter::once(
+            others_text(others).replace(": not needed", ""),
+        ))
+        .collect()
 }
 
 /// What a GRIB2 stream holds.
@@ -498,10 +521,8 @@ pub fn inspect_grib2(reader: impl Read) -> Result<FileSummary, WindFileError> {
     let area = readable.first().and_then(|g| g.area());
     Ok(FileSummary {
         format: format!("GRIB2 ({count} messages)"),
-        fields: inv
-            .fields
-            .iter()
-            .map(|(name, n)| format!("{name}: {n} field{}", if *n == 1 { "" } else { "s" }))
+        fields: listed_fields(&inv.fields, &others)
+            .into_iter()
             .chain(fields_extra)
             .collect(),
         grids: inv
@@ -542,4 +563,38 @@ pub fn grib2_wind_grids(reader: impl Read) -> Result<Vec<GribGrid>, WindFileErro
         }
     }
     Ok(grids.into_iter().map(|(_, g)| g).collect())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A national model's file (a hundred kinds of field): the fields used are listed
+    /// one per line, the rest on one line, named kinds first.
+    #[test]
+    fn long_inventories_list_the_used_fields_and_sum_up_the_rest() {
+        let mut fields: BTreeMap<String, usize> = BTreeMap::new();
+        fields.insert("u wind at 10 m above ground (0/2/2)".into(), 1);
+        fields.insert("v wind at 10 m above ground (0/2/3)".into(), 1);
+        for hpa in (100..=950).step_by(50) {
+            fields.insert(format!("temperature at {hpa} hPa (0/0/0)"), 1);
+            fields.insert(format!("parameter 0/1/1 at {hpa} hPa"), 2);
+        }
+        let others: Vec<(&String, &usize)> = fields
+            .iter()
+            .filter(|(f, _)| !f.contains("at 10 m"))
+            .collect();
+        let lines = listed_fields(&fields, &others);
+        assert_eq!(
+            lines,
+            [
+                "u wind at 10 m above ground (0/2/2): 1 field",
+                "v wind at 10 m above ground (0/2/3): 1 field",
+                "54 other fields (temperature, parameter 0/1/1)",
+            ]
+        );
+        // A short inventory is listed whole.
+        let few: BTreeMap<String, usize> = fields.into_iter().take(3).collect();
+        assert_eq!(listed_fields(&few, &[]).len(), 3);
+    }
 }
