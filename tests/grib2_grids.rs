@@ -175,7 +175,7 @@ fn independent_wind(
     let at = |short: &str| {
         let f = dump
             .iter()
-            .find(|f| f.short_name == short && f.valid == valid)
+            .find(|f| f.short_name() == short && f.valid == valid)
             .expect("field");
         let (i0, j0) = (i.floor() as usize, j.floor() as usize);
         let (tx, ty) = (i - i0 as f64, j - j0 as f64);
@@ -278,7 +278,7 @@ fn gaussian_grid_rows_and_values_match_eccodes() {
             .expect("time");
         for (k, p) in field.points.iter().enumerate() {
             let w = got.points[k].as_ref().expect("covered")[t];
-            let ours = if field.short_name == "10u" {
+            let ours = if field.short_name() == "10u" {
                 w.u_m_s
             } else {
                 w.v_m_s
@@ -312,7 +312,7 @@ fn bit_mapped_wind_uses_valid_neighbours_or_reports_missing() {
     let t0 = got.times[0];
     let u0 = &dump
         .iter()
-        .find(|f| f.short_name == "10u" && f.valid == t0)
+        .find(|f| f.short_name() == "10u" && f.valid == t0)
         .expect("u");
     let clean = got.points[0].as_ref().expect("no masked corner")[0];
     let (u, _) = independent_wind(&dump, grid.ni, probes[0], false, t0);

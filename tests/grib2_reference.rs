@@ -28,7 +28,7 @@ fn check_against_dump(name: &str, expected_times: usize) {
     let dump = parse_dump(name);
     let wind: Vec<&DumpField> = dump
         .iter()
-        .filter(|f| f.short_name == "10u" || f.short_name == "10v")
+        .filter(|f| f.short_name() == "10u" || f.short_name() == "10v")
         .collect();
     let nodes: Vec<LatLon> = wind[0]
         .points
@@ -47,7 +47,7 @@ fn check_against_dump(name: &str, expected_times: usize) {
         for (k, p) in field.points.iter().enumerate() {
             let series = got.points[k].as_ref().expect("grid node is covered");
             let w = series[t];
-            let value = if field.short_name == "10u" {
+            let value = if field.short_name() == "10u" {
                 w.u_m_s
             } else {
                 w.v_m_s
@@ -56,7 +56,7 @@ fn check_against_dump(name: &str, expected_times: usize) {
             assert!(
                 (value - reference).abs() < 1e-4,
                 "{name} {} {} at {},{}: ours {value}, ecCodes {reference}",
-                field.short_name,
+                field.short_name(),
                 field.valid,
                 p.0,
                 p.1

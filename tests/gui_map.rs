@@ -69,6 +69,18 @@ fn map_point(harness: &Harness<'static, ShelfwindApp>, fx: f32, fy: f32) -> egui
     egui::pos2(map.left() + map.width() * fx, map.top() + map.height() * fy)
 }
 
+/// Centres the map on `at`, zooms in two steps and puts the pointer over it (the map's
+/// middle).
+fn hover_over(harness: &mut Harness<'static, ShelfwindApp>, at: shelfwind::coast::LatLon) {
+    harness.state_mut().send(Command::CentreOn(at));
+    harness.run_steps(2);
+    click_zoom(harness, "Zoom in");
+    click_zoom(harness, "Zoom in");
+    let middle = map_point(harness, 0.5, 0.5);
+    harness.hover_at(middle);
+    harness.run_steps(2);
+}
+
 fn click_zoom(harness: &mut Harness<'static, ShelfwindApp>, label: &str) {
     harness.get_by_role_and_label(Role::Button, label).click();
     harness.run_steps(2);
@@ -182,14 +194,7 @@ fn hovering_a_stretch_names_it_with_its_rank() {
     let plan = harness.state().plan.clone().expect("plan");
     let first = &plan.days[0].ranked[0];
     let stretch = &plan.stretches[first.stretch];
-    harness.state_mut().send(Command::CentreOn(stretch.centre));
-    harness.run_steps(2);
-    click_zoom(&mut harness, "Zoom in");
-    click_zoom(&mut harness, "Zoom in");
-    // The map's middle is the stretch's centre now.
-    let middle = map_point(&harness, 0.5, 0.5);
-    harness.hover_at(middle);
-    harness.run_steps(2);
+    hover_over(&mut harness, stretch.centre);
     let shown = harness
         .get_by_label_contains(&format!("{}\nrank ", stretch.name))
         .value()
@@ -226,13 +231,7 @@ fn hovering_a_stretch_left_out_tells_why() {
         .first()
         .expect("the demo leaves some out");
     let stretch = &plan.stretches[left_out.stretch];
-    harness.state_mut().send(Command::CentreOn(stretch.centre));
-    harness.run_steps(2);
-    click_zoom(&mut harness, "Zoom in");
-    click_zoom(&mut harness, "Zoom in");
-    let middle = map_point(&harness, 0.5, 0.5);
-    harness.hover_at(middle);
-    harness.run_steps(2);
+    hover_over(&mut harness, stretch.centre);
     let shown = harness
         .get_by_label_contains(&format!("{}\nleft out: ", stretch.name))
         .value()

@@ -3,95 +3,23 @@
 //! in CSV point series. Fixtures, their dumps and the script that made them (all
 //! synthetic): `tests/fixtures/grib2/`.
 
-use chrono::{DateTime, NaiveDate, Utc};
+use chrono::{DateTime, Utc};
 use shelfwind::coast::LatLon;
 use shelfwind::progress::Progress;
 use shelfwind::wind::{
     Grib2Contents, Wave, WaveSamples, WindFileError, grib2_contents, read_csv_series, sample_grib2,
     sample_waves_grib2, sample_waves_grib2_sized,
 };
-use std::collections::BTreeMap;
 use std::path::PathBuf;
+
+#[path = "common/grib_dump.rs"]
+mod grib_dump;
+use grib_dump::{DumpField, parse_dump};
 
 fn fixture(name: &str) -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
         .join("tests/fixtures/grib2")
         .join(name)
-}
-
-/// One field of a reference dump (format: `tests/fixtures/grib2/README.md`).
-struct DumpField {
-    meta: BTreeMap<String, String>,
-    valid: DateTime<Utc>,
-    /// Latitude, longitude (as the grid defines it), value (`None` = masked).
-    points: Vec<(f64, f64, Option<f64>)>,
-}
-
-impl DumpField {
-    fn number(&self) -> u8 {
-        self.meta["parameterNumber"].parse().expect("integer")
-    }
-
-    /// Half the packing step 2^E / 10^D: what the packing itself rounds to, so the
-    /// largest honest difference between two decoders of the same bits (plus float32
-    /// rounding).
-    fn tolerance(&self) -> f64 {
-        let e: i32 = self.meta["binaryScaleFactor"].parse().expect("E");
-        let d: i32 = self.meta["decimalScaleFactor"].parse().expect("D");
-        0.5 * 2f64.powi(e) / 10f64.powi(d) + 1e-6
-    }
-
-    /// The dumped value at a grid node, by position (longitudes compared modulo 360).
-    fn at(&self, lat: f64, lon: f64) -> Option<f64> {
-        self.points
-            .iter()
-            .find(|p| {
-                let dlon = ((p.1 - lon).rem_euclid(360.0) + 180.0).rem_euclid(360.0) - 180.0;
-                (p.0 - lat).abs() < 1e-6 && dlon.abs() < 1e-6
-            })
-            .expect("a grid node")
-            .2
-    }
-}
-
-fn parse_dump(name: &str) -> Vec<DumpField> {
-    let text = std::fs::read_to_string(fixture(&format!("{name}.dump.txt"))).expect("dump exists");
-    let mut fields = Vec::new();
-    let mut meta: BTreeMap<String, String> = BTreeMap::new();
-    let mut points = Vec::new();
-    for line in text.lines().filter(|l| !l.starts_with('#')) {
-        if let Some(rest) = line.strip_prefix("META ") {
-            meta = rest
-                .split(' ')
-                .filter_map(|kv| kv.split_once('='))
-                .map(|(k, v)| (k.to_string(), v.to_string()))
-                .collect();
-        } else if line == "END" {
-            let d = NaiveDate::parse_from_str(&meta["validityDate"], "%Y%m%d").expect("date");
-            let time: u32 = meta["validityTime"].parse().expect("integer time");
-            let valid = d
-                .and_hms_opt(time / 100, time % 100, 0)
-                .expect("time")
-                .and_utc();
-            fields.push(DumpField {
-                meta: std::mem::take(&mut meta),
-                valid,
-                points: std::mem::take(&mut points),
-            });
-        } else if !(line.starts_with("FIELD")
-            || line.starts_with("RAW")
-            || line.starts_with("POINTS"))
-        {
-            let cols: Vec<&str> = line.split(' ').collect();
-            let value = (cols[2] != "missing").then(|| cols[2].parse().expect("value"));
-            points.push((
-                cols[0].parse().expect("lat"),
-                cols[1].parse().expect("lon"),
-                value,
-            ));
-        }
-    }
-    fields
 }
 
 fn waves(name: &str, points: &[LatLon]) -> Result<Option<WaveSamples>, String> {

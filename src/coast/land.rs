@@ -436,20 +436,10 @@ mod tests {
     use super::*;
     use proptest::prelude::*;
 
-    /// Writes a land file from rings of (lat, lon) in degrees.
+    /// Writes a land file from rings of (lat, lon) in degrees, as given: unlike
+    /// `write_land_body`, short or repeated rings are kept, so damaged files can be made.
     fn land_file(rings: &[&[(f64, f64)]]) -> Vec<u8> {
-        fn varint(out: &mut Vec<u8>, v: i64) {
-            let mut z = ((v << 1) ^ (v >> 63)) as u64;
-            loop {
-                let byte = (z & 0x7f) as u8;
-                z >>= 7;
-                if z == 0 {
-                    out.push(byte);
-                    return;
-                }
-                out.push(byte | 0x80);
-            }
-        }
+        let varint = write_zigzag_varint;
         let mut out = MAGIC.to_vec();
         out.extend_from_slice(&(rings.len() as u32).to_le_bytes());
         for ring in rings {

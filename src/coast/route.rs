@@ -1121,31 +1121,11 @@ mod tests {
 
     /// A land file (format in `assets/README.md`) with the given rings of (lat, lon).
     fn land_file(rings: &[&[(f64, f64)]]) -> Vec<u8> {
-        fn varint(out: &mut Vec<u8>, v: i64) {
-            let mut z = ((v << 1) ^ (v >> 63)).cast_unsigned();
-            loop {
-                let byte = (z & 0x7f) as u8;
-                z >>= 7;
-                if z == 0 {
-                    out.push(byte);
-                    break;
-                }
-                out.push(byte | 0x80);
-            }
-        }
-        let mut out = b"SWLAND01".to_vec();
-        out.extend_from_slice(&(rings.len() as u32).to_le_bytes());
-        for ring in rings {
-            out.extend_from_slice(&(ring.len() as u32).to_le_bytes());
-            let (mut lon0, mut lat0) = (0_i64, 0_i64);
-            for &(lat, lon) in *ring {
-                let (lon1, lat1) = ((lon * 1e5).round() as i64, (lat * 1e5).round() as i64);
-                varint(&mut out, lon1 - lon0);
-                varint(&mut out, lat1 - lat0);
-                (lon0, lat0) = (lon1, lat1);
-            }
-        }
-        out
+        let rings: Vec<Vec<LatLon>> = rings
+            .iter()
+            .map(|r| r.iter().map(|&(lat, lon)| LatLon::new(lat, lon)).collect())
+            .collect();
+        crate::coast::land::write_land_body(&rings)
     }
 
     #[test]

@@ -202,16 +202,17 @@ impl GribGrid {
             10 => (s3[46], s3[59]),
             _ => (s3[46], s3[64]),
         };
+        let earth = earth_of(s3)?;
         let placement = match template {
             0 | 1 | 40 => latlon_placement(s3, template, ni, nj, scan)?,
-            _ => projected_placement(s3, template, ni, scan, earth_of(s3)?)?,
+            _ => projected_placement(s3, template, ni, scan, earth)?,
         };
         Ok(Self {
             template,
             ni,
             nj,
             placement,
-            earth: earth_of(s3)?,
+            earth,
             uv_relative_to_grid: flags & 0x08 != 0,
             columns_consecutive: scan & 0x20 != 0,
             alternate: scan & 0x10 != 0,
@@ -632,13 +633,9 @@ fn projected_placement(
             // Centre the projection on the middle of the grid so that the longitudes of
             // a wide grid never wrap inside it.
             let (di, dj) = (mm(64), mm(68));
-            let probe = Projection::mercator(earth, lad, lo1);
-            let half = match probe {
-                Projection::Mercator { scale_m, .. } => {
-                    (di * (ni - 1) as f64 / 2.0 / scale_m).to_degrees()
-                }
-                _ => 0.0,
-            };
+            // Map metres per radian of longitude, as `Projection::mercator` takes them.
+            let scale_m = earth.a_m * earth.m(lad.to_radians());
+            let half = (di * (ni - 1) as f64 / 2.0 / scale_m).to_degrees();
             let centre = if scan & 0x80 != 0 {
                 lo1 - half
             } else {

@@ -330,7 +330,6 @@ struct Inventory {
     grids: Vec<(Vec<u8>, Result<GribGrid, String>)>,
     issued: Option<DateTime<Utc>>,
     centre: Option<u16>,
-    ensemble: bool,
     /// Ensemble members seen: (type of ensemble forecast, perturbation number).
     members: std::collections::BTreeSet<(u8, u8)>,
     /// The number of forecasts in the ensemble, as the file declares it.
@@ -349,7 +348,6 @@ impl Inventory {
         self.issued = Some(self.issued.map_or(ref_time, |t| t.max(ref_time)));
         for h in &headers {
             *self.fields.entry(field_name(h)).or_default() += 1;
-            self.ensemble |= matches!(h.template, 1 | 11);
             if let Some((kind, number, size)) = h.ensemble {
                 self.members.insert((kind, number));
                 self.ensemble_size = Some(size);

@@ -59,7 +59,7 @@ impl Earth {
     }
 
     /// `m` of Snyder eq. 14-15: cos φ / √(1 − e² sin² φ).
-    fn m(&self, phi: f64) -> f64 {
+    pub(super) fn m(&self, phi: f64) -> f64 {
         phi.cos() / (1.0 - (self.e * phi.sin()).powi(2)).sqrt()
     }
 
@@ -126,10 +126,9 @@ impl Projection {
     /// Mercator true to scale at latitude `lat_ts_deg`.
     #[must_use]
     pub fn mercator(earth: Earth, lat_ts_deg: f64, lon0_deg: f64) -> Self {
-        let k0 = earth.m(lat_ts_deg.to_radians());
         Self::Mercator {
             earth,
-            scale_m: earth.a_m * k0,
+            scale_m: earth.a_m * earth.m(lat_ts_deg.to_radians()),
             lon0_deg,
         }
     }

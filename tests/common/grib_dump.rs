@@ -1,5 +1,8 @@
 //! The reference dumps of the GRIB2 fixtures (`tests/fixtures/grib2/README.md`), read
-//! by the tests that compare the reader with ecCodes.
+//! by the tests that compare the readers with ecCodes.
+
+// Each test file uses some of these; the others would warn as unused in that file.
+#![allow(dead_code)]
 
 use chrono::{DateTime, NaiveDate, Utc};
 use std::collections::BTreeMap;
@@ -13,9 +16,45 @@ fn dump_path(name: &str) -> PathBuf {
 
 /// One field of a reference dump.
 pub struct DumpField {
-    pub short_name: String,
+    /// The `META` line: ecCodes' keys and values for the field.
+    pub meta: BTreeMap<String, String>,
+    /// Valid time.
     pub valid: DateTime<Utc>,
+    /// Latitude, longitude (as the grid defines it), value (`None` = masked).
     pub points: Vec<(f64, f64, Option<f64>)>,
+}
+
+impl DumpField {
+    /// ecCodes' short name of the field (`10u`, `swh`, …).
+    pub fn short_name(&self) -> &str {
+        &self.meta["shortName"]
+    }
+
+    /// The parameter number (Code Table 4.2).
+    pub fn number(&self) -> u8 {
+        self.meta["parameterNumber"].parse().expect("integer")
+    }
+
+    /// Half the packing step 2^E / 10^D: what the packing itself rounds to, so the
+    /// largest honest difference between two decoders of the same bits (plus float32
+    /// rounding).
+    pub fn tolerance(&self) -> f64 {
+        let e: i32 = self.meta["binaryScaleFactor"].parse().expect("E");
+        let d: i32 = self.meta["decimalScaleFactor"].parse().expect("D");
+        0.5 * 2f64.powi(e) / 10f64.powi(d) + 1e-6
+    }
+
+    /// The dumped value at a grid node, by position (longitudes compared modulo 360).
+    pub fn at(&self, lat: f64, lon: f64) -> Option<f64> {
+        self.points
+            .iter()
+            .find(|p| {
+                let dlon = ((p.1 - lon).rem_euclid(360.0) + 180.0).rem_euclid(360.0) - 180.0;
+                (p.0 - lat).abs() < 1e-6 && dlon.abs() < 1e-6
+            })
+            .expect("a grid node")
+            .2
+    }
 }
 
 /// Parses the dump format documented in `tests/fixtures/grib2/README.md`.
@@ -32,27 +71,23 @@ pub fn parse_dump(name: &str) -> Vec<DumpField> {
                 .map(|(k, v)| (k.to_string(), v.to_string()))
                 .collect();
         } else if line == "END" {
-            let date = &meta["validityDate"];
+            let d = NaiveDate::parse_from_str(&meta["validityDate"], "%Y%m%d").expect("date");
             let time: u32 = meta["validityTime"].parse().expect("integer time");
-            let d = NaiveDate::parse_from_str(date, "%Y%m%d").expect("date");
             let valid = d
                 .and_hms_opt(time / 100, time % 100, 0)
                 .expect("time")
                 .and_utc();
             fields.push(DumpField {
-                short_name: meta["shortName"].clone(),
+                meta: std::mem::take(&mut meta),
                 valid,
                 points: std::mem::take(&mut points),
             });
-        } else if line.starts_with("FIELD") || line.starts_with("RAW") || line.starts_with("POINTS")
+        } else if !(line.starts_with("FIELD")
+            || line.starts_with("RAW")
+            || line.starts_with("POINTS"))
         {
-        } else {
             let cols: Vec<&str> = line.split(' ').collect();
-            let value = if cols[2] == "missing" {
-                None
-            } else {
-                Some(cols[2].parse().expect("value"))
-            };
+            let value = (cols[2] != "missing").then(|| cols[2].parse().expect("value"));
             points.push((
                 cols[0].parse().expect("lat"),
                 cols[1].parse().expect("lon"),
