@@ -97,13 +97,11 @@ impl Plugin for Graticule {
             // Longitudes beyond ±180° (the map pans round the world) are named as usual.
             let wrapped = (lon + 180 * 60).rem_euclid(360 * 60) - 180 * 60;
             let text = label(wrapped, spacing, 'E', 'W');
-            edge_label(
-                &painter,
-                Pos2::new(x + 3.0, map.top() + 3.0),
-                Align2::LEFT_TOP,
-                text,
-                &font,
-            );
+            let at = Pos2::new(x + 3.0, map.top() + 3.0);
+            // The zoom buttons keep the top right corner (a label is under 70 px wide).
+            if at.x + 70.0 < super::map::zoom_buttons_rect(map).left() {
+                edge_label(&painter, at, Align2::LEFT_TOP, text, &font);
+            }
             lon += step;
         }
         let every = if spacing.is_multiple_of(60) {

@@ -703,7 +703,7 @@ const SCALE_BAR_MAX_PX: f32 = 140.0;
 const SCALE_BOX_PX: f32 = 40.0;
 
 /// Where the zoom buttons sit: the top right corner of the map, one above the other.
-fn zoom_buttons_rect(map: Rect) -> Rect {
+pub(super) fn zoom_buttons_rect(map: Rect) -> Rect {
     Rect::from_min_size(
         map.right_top() + Vec2::new(-EDGE_PX - ZOOM_BUTTON_PX, EDGE_PX),
         Vec2::new(ZOOM_BUTTON_PX, 2.0 * ZOOM_BUTTON_PX + 4.0),
