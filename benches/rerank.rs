@@ -47,8 +47,13 @@ fn main() {
 
     let t = Instant::now();
     let sources = load_sources(&[forecast]).expect("forecast");
-    let conditions =
-        sample_forecast_conditions(&geometry, &sources, &Progress::new()).expect("sampled");
+    let conditions = sample_forecast_conditions(
+        &geometry,
+        &sources,
+        shelfwind::wind::RunRule::Members,
+        &Progress::new(),
+    )
+    .expect("sampled");
     let sampled_ms = ms(t);
     let forecast = conditions.forecast(tz, &scenario.upwelling_settings());
     let request = scenario

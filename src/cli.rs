@@ -8,7 +8,7 @@ use crate::coast::{
 };
 use crate::export::units::Units;
 use crate::export::{
-    IndexFormat, PlanFormat, index_records, render_plan, trip_sheet_html, write_index,
+    IndexFormat, PlanFormat, index_records_runs, render_plan, trip_sheet_html, write_index,
 };
 use crate::physics::DragChoice;
 use crate::plan::{ForecastError, PlanError};
@@ -17,7 +17,7 @@ use crate::scenario::{
     segment_names,
 };
 use crate::upwelling::{IndexSettings, UpwellingError, index_series};
-use crate::wind::{WindError, assign_wind, load_sources};
+use crate::wind::{RunRule, WindError, assign_wind_runs, load_sources};
 use clap::{Parser, Subcommand, ValueEnum};
 use std::io::Write;
 use std::path::{Path, PathBuf};
@@ -299,6 +299,11 @@ pub struct PlanArgs {
     /// bundled land inside its box, for sea sides, fetch and ways by sea.
     #[arg(long, value_name = "PACK")]
     pub land: Option<PathBuf>,
+    /// Take each wind file as one run of an ensemble (forecasts from different centres
+    /// together), numbered from 1 in the order given. Without it, the runs are the
+    /// ensemble members the files declare (or the scenario's choice).
+    #[arg(long)]
+    pub files_as_runs: bool,
     /// Output format.
     #[arg(long, value_enum, default_value_t = PlanFormatArg::Table)]
     pub format: PlanFormatArg,
@@ -330,6 +335,9 @@ pub fn run_plan(args: &PlanArgs) -> Result<(), CliError> {
         }));
     };
     let sources = load_sources(&wind_paths(&args.wind, &coast))?;
+    let mut scenario = scenario.clone();
+    scenario.wind_files_are_runs |= args.files_as_runs;
+    let scenario = &scenario;
     let choice = PlanChoice {
         vessel_id: args.vessel.as_deref(),
         port_id: args.port.as_deref(),
@@ -425,6 +433,11 @@ pub struct IndexArgs {
     /// bundled land inside its box, for sea sides, fetch and ways by sea.
     #[arg(long, value_name = "PACK")]
     pub land: Option<PathBuf>,
+    /// Take each wind file as one run of an ensemble (forecasts from different centres
+    /// together), numbered from 1 in the order given. Without it, the runs are the
+    /// ensemble members the files declare.
+    #[arg(long)]
+    pub files_as_runs: bool,
     /// Output format.
     #[arg(long, value_enum, default_value_t = IndexFormatArg::Csv)]
     pub format: IndexFormatArg,
@@ -620,7 +633,15 @@ pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
     let coast = load_coast(&args.coast, packed.as_ref())?;
     let segments = &coast.segments;
     let sources = load_sources(&wind_paths(&args.wind, &coast))?;
-    let winds = assign_wind(&sources, segments)?;
+    let rule = if args.files_as_runs {
+        RunRule::EachFile
+    } else {
+        coast
+            .scenario
+            .as_ref()
+            .map_or(RunRule::Members, crate::scenario::Scenario::run_rule)
+    };
+    let runs = assign_wind_runs(&sources, segments, rule)?;
     let base = coast
         .scenario
         .as_ref()
@@ -631,12 +652,19 @@ pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
         rho_air_kg_m3: args.rho_air.unwrap_or(base.rho_air_kg_m3),
         rho_water_kg_m3: args.rho_water.unwrap_or(base.rho_water_kg_m3),
     };
-    let series = segments
+    let per_run = runs
         .iter()
-        .zip(&winds)
-        .map(|(s, w)| index_series(s, w, &settings))
-        .collect::<Result<Vec<_>, _>>()?;
-    let near: Vec<&str> = series
+        .map(|(member, winds)| {
+            let series = segments
+                .iter()
+                .zip(winds)
+                .map(|(s, w)| index_series(s, w, &settings))
+                .collect::<Result<Vec<_>, _>>()?;
+            Ok((member.map(|m| m.number), series))
+        })
+        .collect::<Result<Vec<_>, CliError>>()?;
+    let near: Vec<&str> = per_run[0]
+        .1
         .iter()
         .filter(|s| s.near_equator)
         .map(|s| s.segment_id.as_str())
@@ -652,8 +680,10 @@ pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
         IndexFormatArg::Json => IndexFormat::Json,
     };
     let out_path = args.out.clone().unwrap_or_else(|| PathBuf::from("-"));
+    let tables: Vec<(Option<u32>, &[crate::upwelling::IndexSeries])> =
+        per_run.iter().map(|(m, s)| (*m, s.as_slice())).collect();
     let bytes =
-        write_index(&index_records(&series), format).map_err(|source| CliError::Output {
+        write_index(&index_records_runs(&tables), format).map_err(|source| CliError::Output {
             path: out_path.clone(),
             source,
         })?;

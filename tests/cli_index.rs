@@ -539,3 +539,76 @@ fn inspect_describes_a_netcdf_file() {
     let o = shelfwind(&["inspect", &fixture("grib2/garbage.grib2")]);
     assert_one_line_error(&o, &["bad wind file", "garbage.grib2"]);
 }
+
+/// An ensemble (`grib2/ensemble_10_runs.grib2`, see `make_ensemble_runs.py`): a `member`
+/// column after `time_utc` holds the perturbation number (control 0); rows go by
+/// segment, run, time. At 2 June 12 UTC runs 0-6 blow 12 m/s from the north and runs 7-9
+/// 2 m/s, so the index is the Bakun (1973) value for those winds.
+#[test]
+fn an_ensemble_gets_a_member_column_after_the_time() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let coast = dir.path().join("reach.geojson");
+    std::fs::write(
+        &coast,
+        r#"{"type":"FeatureCollection","features":[{"type":"Feature","properties":{"id":"reach","sea":"left"},"geometry":{"type":"LineString","coordinates":[[-123.0,37.0],[-123.0,37.1]]}}]}"#,
+    )
+    .expect("write coast");
+    let o = shelfwind(&[
+        "index",
+        "--coast",
+        &coast.display().to_string(),
+        "--wind",
+        &fixture("grib2/ensemble_10_runs.grib2"),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    let lines: Vec<&str> = text.lines().collect();
+    assert_eq!(
+        lines[0],
+        "segment_id,time_utc,member,lat,lon,wind_speed_ms,wind_from_deg,upwelling_index_m3s_per_100m,flag"
+    );
+    // 10 runs × 25 steps (0 to 72 h every 3 h).
+    assert_eq!(lines.len(), 1 + 10 * 25);
+    let rows: Vec<Vec<&str>> = lines[1..].iter().map(|l| l.split(',').collect()).collect();
+    let members: Vec<&str> = rows.iter().step_by(25).map(|r| r[2]).collect();
+    assert_eq!(members, ["0", "1", "2", "3", "4", "5", "6", "7", "8", "9"]);
+    for r in rows.iter().filter(|r| r[1] == "2027-06-02T12:00:00Z") {
+        let member: u32 = r[2].parse().expect("member");
+        let v = if member <= 6 { -12.0 } else { -2.0 };
+        let lat: f64 = r[3].parse().expect("lat");
+        let index: f64 = r[7].parse().expect("index");
+        let expected = index_sea_west(lat, 0.0, v);
+        assert!(
+            (index - expected).abs() < 1e-3 * expected.abs() + 0.01,
+            "member {member}: {index} vs {expected}"
+        );
+    }
+    // Each file a run: the files are numbered from 1 in the order given.
+    let o = shelfwind(&[
+        "index",
+        "--coast",
+        &coast.display().to_string(),
+        "--files-as-runs",
+        "--wind",
+        &fixture("grib2/ensemble_10_runs_split/run_03.grib2"),
+        "--wind",
+        &fixture("grib2/ensemble_10_runs_split/run_08.grib2"),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    let text = stdout(&o);
+    let at_noon: Vec<(String, String)> = text
+        .lines()
+        .filter(|l| l.contains("2027-06-02T12:00:00Z"))
+        .map(|l| {
+            let f: Vec<&str> = l.split(',').collect();
+            (f[2].to_string(), f[5].to_string())
+        })
+        .collect();
+    assert_eq!(
+        at_noon,
+        [
+            ("1".to_string(), "12".to_string()),
+            ("2".to_string(), "2".to_string())
+        ]
+    );
+}

@@ -3,7 +3,10 @@
 //! make_ensemble_fixtures.py`, `ensemble_3_members.grib2.members.txt`).
 
 use shelfwind::coast::LatLon;
-use shelfwind::wind::{inspect_grib2, sample_grib2, sample_grib2_members};
+use shelfwind::wind::{
+    inspect_grib2, sample_grib2, sample_grib2_member_with, sample_grib2_members,
+};
+use std::fmt::Write as _;
 use std::path::PathBuf;
 
 fn fixture(name: &str) -> PathBuf {
@@ -54,8 +57,8 @@ fn three_members_are_read_apart_with_eccodes_values() {
     }
 }
 
-/// The planner takes one forecast: a file of several members is refused by name, and
-/// `inspect` counts them.
+/// The one-forecast reader (a long record's) refuses a file of several members by name;
+/// `inspect` counts them and says each is a run.
 #[test]
 fn several_members_are_refused_by_the_forecast_reader_and_counted_by_inspect() {
     let err = sample_grib2(
@@ -66,7 +69,7 @@ fn several_members_are_refused_by_the_forecast_reader_and_counted_by_inspect() {
     .to_string();
     assert_eq!(
         err,
-        "the file holds 3 ensemble members (control 0, member 1, member 2): the planner takes one forecast; give one member or a deterministic forecast"
+        "the file holds 3 ensemble members (control 0, member 1, member 2): here one forecast is read, not an ensemble; give one member or a deterministic forecast"
     );
     let text = inspect_grib2(open("ensemble_3_members.grib2"))
         .expect("readable")
@@ -75,6 +78,7 @@ fn several_members_are_refused_by_the_forecast_reader_and_counted_by_inspect() {
         text.contains("Field: ensemble members: 3 in the file (1 control, 2 perturbed or other), of 3 in the ensemble"),
         "{text}"
     );
+    assert!(text.contains("each ensemble member as one run"), "{text}");
 }
 
 /// A deterministic forecast is one set of samples with no member.
@@ -85,4 +89,265 @@ fn a_deterministic_forecast_has_no_member() {
     assert_eq!(members.len(), 1);
     assert!(members[0].member.is_none());
     assert_eq!(members[0].samples.times.len(), 3);
+}
+
+// ---------------------------------------------------------------------------------
+// Ten runs through the planner (`make_ensemble_runs.py`; `ensemble_10_runs.grib2.ls.txt`
+// is ecCodes' grib_ls of it). The wind is the same everywhere: calm, except from 2 June
+// 00 UTC to 3 June 00 UTC, when it blows from the north at 12 m/s in runs 0-6 and at
+// 2 m/s in runs 7-9.
+//
+// Worked by hand before the run, for a north-south stretch at 37.0-37.1 N with the sea
+// to the west (default settings: drag 0.0013, air 1.22 kg/m^3, sea 1025 kg/m^3, event
+// threshold 50 m^3/s per 100 m; working hours 05-21 local, minimum 2 h fishing):
+// - 12 m/s: stress 1.22 x 0.0013 x 144 = 0.2284 Pa; f(37.05 N) = 2 x 7.2921e-5 x
+//   sin 37.05° = 8.787e-5 /s; Ekman transport 0.2284 / (1025 x 8.787e-5) = 2.536 m^2/s,
+//   offshore: index 253.6 m^3/s per 100 m, over the threshold;
+// - 2 m/s: 0.00634 Pa, index 7.0, under it;
+// - 2 June (UTC days, time zone UTC): every hour is at the run's full wind (the steps
+//   of 2 June 00 UTC to 3 June 00 UTC all blow), so the daily mean index is 253.6 in
+//   runs 0-6 and 7.0 in runs 7-9: upwelling in 7 of 10 runs. 12 m/s is 23.3 kt, over a
+//   20 kt limit all day: a window in runs 7-9 only, 3 of 10; with a 30 kt limit, 10;
+// - 1 June: calm but for the ramp to the first strong step (22 and 23 UTC, 4 and 8 m/s:
+//   index 28 and 113), a mean of 5.9: upwelling in 0 of 10; calm in working hours: a
+//   window in all 10;
+// - 3 June: the ramp down (00-02 UTC: 254, 113, 28), a mean of 16.5: 0 of 10; window in
+//   all 10 (working hours start at 05).
+// ---------------------------------------------------------------------------------
+
+use shelfwind::coast::{CoastSegment, Land, SeaSide, resolve_segments};
+use shelfwind::plan::{Plan, PlanNote, Port, Vessel};
+use shelfwind::progress::Progress;
+use shelfwind::scenario::{PlanChoice, Scenario, plan_scenario};
+use shelfwind::wind::{RunRule, forecast_runs, load_sources};
+
+fn ten_run_scenario(wind: Vec<PathBuf>) -> Scenario {
+    let vessel = |id: &str, limit: f64| Vessel {
+        id: id.into(),
+        name: id.into(),
+        cruise_speed_kt: 20.0,
+        fuel_l_per_h: 20.0,
+        wind_limit_kt: limit,
+        wave_limit_m: None,
+        steepness_limit_m_s2: None,
+        range_nm: 30.0,
+    };
+    Scenario {
+        name: "Ten runs".into(),
+        time_zone: "UTC".into(),
+        segments: vec![CoastSegment {
+            id: "reach".into(),
+            name: "Reach".into(),
+            points: vec![LatLon::new(37.0, -123.0), LatLon::new(37.1, -123.0)],
+            sea: Some(SeaSide::Left),
+            notes: String::new(),
+            closure: None,
+        }],
+        ports: vec![Port {
+            id: "home".into(),
+            name: "Home".into(),
+            position: LatLon::new(37.05, -123.05),
+        }],
+        vessels: vec![vessel("skiff", 20.0), vessel("cutter", 30.0)],
+        wind_files: wind,
+        coast_pack: None,
+        wind_files_are_runs: false,
+        settings: shelfwind::scenario::ModelSettings::default(),
+        notes: String::new(),
+    }
+}
+
+fn plan_for(sc: &Scenario, vessel: &str) -> Plan {
+    let segments = resolve_segments(&sc.segments, Land::bundled()).expect("sides");
+    let sources = load_sources(&sc.wind_files).expect("wind");
+    let choice = PlanChoice {
+        vessel_id: Some(vessel),
+        port_id: None,
+        from: Some("2027-06-01".parse().expect("date")),
+        days: 3,
+        now: chrono::Utc::now(),
+    };
+    plan_scenario(
+        sc,
+        &segments,
+        &sources,
+        &choice,
+        Land::bundled(),
+        &Progress::new(),
+    )
+    .expect("plan")
+}
+
+/// Per day, (runs with upwelling, runs with a window, runs) of every stretch; every
+/// stretch of the reach must agree (the wind is the same everywhere).
+fn odds_by_day(plan: &Plan) -> Vec<(usize, usize, usize)> {
+    plan.days
+        .iter()
+        .map(|d| {
+            assert_eq!(d.odds.len(), plan.stretches.len());
+            let all: Vec<(usize, usize, usize)> = d
+                .odds
+                .iter()
+                .map(|o| {
+                    let o = o.expect("every run has the day");
+                    (o.upwelling, o.window, o.runs)
+                })
+                .collect();
+            assert!(all.windows(2).all(|w| w[0] == w[1]), "{all:?}");
+            all[0]
+        })
+        .collect()
+}
+
+#[test]
+fn ten_runs_in_one_file_are_told_apart_control_first() {
+    let sources = load_sources(&[fixture("ensemble_10_runs.grib2")]).expect("load");
+    let runs = forecast_runs(&sources, RunRule::Members).expect("scan");
+    let labels: Vec<String> = runs
+        .members
+        .iter()
+        .map(shelfwind::wind::Member::label)
+        .collect();
+    assert_eq!(labels[0], "control");
+    assert_eq!(labels[9], "member 9");
+    let numbers: Vec<u32> = runs.members.iter().map(|m| m.number).collect();
+    assert_eq!(numbers, (0..10).collect::<Vec<u32>>());
+}
+
+/// Members 5-9 are template 4.11 (a 3-hour mean): each field is valid at the end of its
+/// interval, as ecCodes' validityTime says ("9-12" → 1200).
+#[test]
+fn interval_fields_are_valid_at_the_end_of_their_interval_as_eccodes_says() {
+    let ls = std::fs::read_to_string(fixture("ensemble_10_runs.grib2.ls.txt")).expect("ls");
+    // template, type, perturbation, size, shortName, stepRange, validityDate, validityTime
+    let expected: Vec<String> = ls
+        .lines()
+        .map(|l| l.split(' ').collect::<Vec<_>>())
+        .filter(|f| f.len() == 9 && f[0] == "11" && f[2] == "7" && f[4] == "10u")
+        .map(|f| format!("{}-{}-{}T{:0>4}", &f[6][..4], &f[6][4..6], &f[6][6..], f[7]))
+        .collect();
+    assert_eq!(expected.len(), 25);
+    let times = sample_grib2_member_with(
+        open("ensemble_10_runs.grib2"),
+        &[LatLon::new(37.0, -123.0)],
+        (3, 7),
+        &Progress::new(),
+    )
+    .expect("member 7")
+    .times;
+    let ours: Vec<String> = times
+        .iter()
+        .map(|t| t.format("%Y-%m-%dT%H%M").to_string())
+        .collect();
+    assert_eq!(ours, expected);
+}
+
+#[test]
+fn the_plan_counts_runs_with_upwelling_and_with_a_window() {
+    let sc = ten_run_scenario(vec![fixture("ensemble_10_runs.grib2")]);
+    let skiff = plan_for(&sc, "skiff");
+    assert_eq!(skiff.runs.len(), 10);
+    assert!(skiff.notes.contains(&PlanNote::Ensemble { runs: 10 }));
+    assert_eq!(
+        odds_by_day(&skiff),
+        vec![(0, 10, 10), (7, 3, 10), (0, 10, 10)],
+        "by hand: see the comment above"
+    );
+    let cutter = plan_for(&sc, "cutter");
+    assert_eq!(
+        odds_by_day(&cutter),
+        vec![(0, 10, 10), (7, 10, 10), (0, 10, 10)]
+    );
+    // The reason says it in words; the productivity range holds the mean.
+    let day2 = &skiff.days[1];
+    let top = day2.ranked.first().expect("three runs leave a window");
+    let lines = shelfwind::export::plan_text::ranked_lines(
+        &skiff,
+        day2.date,
+        top,
+        shelfwind::export::units::Units::default(),
+    );
+    assert!(
+        lines[0].starts_with("Upwelling in 7 of 10 runs; window in 3 of 10; productivity"),
+        "{lines:?}"
+    );
+    let o = top.reasons.odds.expect("odds");
+    assert!(o.productivity_p10 <= top.productivity && top.productivity <= o.productivity_p90);
+    // The mean score counts the seven runs without a window as 0: it is under the
+    // score of any run that has one.
+    let json: serde_json::Value = serde_json::from_slice(
+        shelfwind::export::render_plan(&skiff, shelfwind::export::PlanFormat::Json).as_bytes(),
+    )
+    .expect("valid JSON");
+    let entry = &json["days"][1]["ranked"][0];
+    assert_eq!(entry["members"], 10);
+    assert_eq!(entry["p_upwelling"], 0.7);
+    assert_eq!(entry["p_window"], 0.3);
+    assert!(entry["productivity_p10"].is_number() && entry["productivity_p90"].is_number());
+}
+
+/// One file per member makes the same runs and the same odds as one file of all.
+#[test]
+fn one_file_per_member_gives_the_same_odds() {
+    let split: Vec<PathBuf> = (0..10)
+        .map(|m| fixture(&format!("ensemble_10_runs_split/run_{m:02}.grib2")))
+        .collect();
+    let plan = plan_for(&ten_run_scenario(split), "skiff");
+    assert_eq!(plan.runs.len(), 10);
+    assert_eq!(
+        odds_by_day(&plan),
+        vec![(0, 10, 10), (7, 3, 10), (0, 10, 10)]
+    );
+}
+
+/// A poor man's ensemble: three deterministic forecasts (here station series without a
+/// position, which cover every point), each file a run when asked; two of them blow
+/// 12 m/s from the north all of 2 June, the third 2 m/s. Without asking, the first file
+/// covers everything and the plan is a single forecast, said so, with no odds.
+#[test]
+fn each_file_a_run_when_asked_and_a_single_forecast_otherwise() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let files: Vec<PathBuf> = [12.0, 12.0, 2.0]
+        .iter()
+        .enumerate()
+        .map(|(k, strong)| {
+            let path = dir.path().join(format!("centre_{k}.csv"));
+            let mut text = String::from("time,u_ms,v_ms\n");
+            for h in 0..72 {
+                let t = chrono::DateTime::parse_from_rfc3339("2027-06-01T00:00:00Z")
+                    .expect("time")
+                    .to_utc()
+                    + chrono::Duration::hours(h);
+                let v = if (24..=48).contains(&h) { -strong } else { 0.0 };
+                let _ = writeln!(
+                    text,
+                    "{},0,{v}",
+                    t.to_rfc3339_opts(chrono::SecondsFormat::Secs, true)
+                );
+            }
+            std::fs::write(&path, text).expect("write");
+            path
+        })
+        .collect();
+    let mut sc = ten_run_scenario(files);
+    let single = plan_for(&sc, "skiff");
+    assert!(single.runs.is_empty());
+    assert!(single.notes.contains(&PlanNote::SingleForecast));
+    assert!(single.days.iter().all(|d| d.odds.is_empty()));
+    let json: serde_json::Value = serde_json::from_slice(
+        shelfwind::export::render_plan(&single, shelfwind::export::PlanFormat::Json).as_bytes(),
+    )
+    .expect("valid JSON");
+    let entry = &json["days"][0]["ranked"][0];
+    assert_eq!(entry["members"], 1);
+    assert!(entry["p_upwelling"].is_null() && entry["p_window"].is_null());
+    sc.wind_files_are_runs = true;
+    let poor = plan_for(&sc, "skiff");
+    let labels: Vec<String> = poor
+        .runs
+        .iter()
+        .map(shelfwind::wind::Member::label)
+        .collect();
+    assert_eq!(labels, ["file 1", "file 2", "file 3"]);
+    assert_eq!(odds_by_day(&poor), vec![(0, 3, 3), (2, 1, 3), (0, 3, 3)]);
 }

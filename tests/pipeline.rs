@@ -56,6 +56,7 @@ fn scenario(tz: &str, segments: Vec<CoastSegment>, port: LatLon, wind: Vec<PathB
         }],
         wind_files: wind,
         coast_pack: None,
+        wind_files_are_runs: false,
         settings: shelfwind::scenario::ModelSettings::default(),
         notes: String::new(),
     }

@@ -240,6 +240,7 @@ fn contents_tell_wind_from_waves() {
     let both = Grib2Contents {
         wind: true,
         waves: true,
+        members: Vec::new(),
     };
     let cases = [
         ("simple_hours.grib2", true, false),
@@ -252,7 +253,11 @@ fn contents_tell_wind_from_waves() {
     for (name, wind, waves) in cases {
         assert_eq!(
             contents(name).expect("readable"),
-            Grib2Contents { wind, waves },
+            Grib2Contents {
+                wind,
+                waves,
+                members: Vec::new()
+            },
             "{name}"
         );
     }

@@ -97,12 +97,14 @@ fn conditions(input: &JobInput, progress: &Progress) -> Result<Arc<SampledCondit
         .collect::<Result<Vec<_>, _>>()
         .map_err(|e| e.to_string())?;
     if let Some(cache) = &input.cache
-        && cache.conditions.fits(&identities, forecast_key(&geometry))
+        && cache
+            .conditions
+            .fits(&identities, forecast_key(&geometry), scenario.run_rule())
     {
         return Ok(cache.conditions.clone());
     }
     let sources = load_sources(&input.winds).map_err(|e| e.to_string())?;
-    sample_forecast_conditions(&geometry, &sources, progress)
+    sample_forecast_conditions(&geometry, &sources, scenario.run_rule(), progress)
         .map(Arc::new)
         .map_err(|e| e.to_string())
 }

@@ -316,6 +316,7 @@ impl ShelfwindApp {
             vessels: Vec::new(),
             wind_files: Vec::new(),
             coast_pack: None,
+            wind_files_are_runs: false,
             settings: crate::scenario::ModelSettings::default(),
             notes: String::new(),
         };

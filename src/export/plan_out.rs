@@ -304,6 +304,11 @@ fn ranked_json(plan: &Plan, date: chrono::NaiveDate, r: &RankedStretch) -> Value
         "wave_source": r.reasons.waves.source.kind(),
         "centre": {"lat": s.centre.lat_deg, "lon": s.centre.lon_deg},
         "reasons": ranked_lines(plan, date, r, FILE_UNITS),
+        "members": r.reasons.odds.map_or(1, |o| o.runs),
+        "p_upwelling": r.reasons.odds.map(|o| round_to(o.p_upwelling(), 3)),
+        "p_window": r.reasons.odds.map(|o| round_to(o.p_window(), 3)),
+        "productivity_p10": r.reasons.odds.map(|o| round_to(o.productivity_p10, 3)),
+        "productivity_p90": r.reasons.odds.map(|o| round_to(o.productivity_p90, 3)),
     })
 }
 
@@ -328,6 +333,11 @@ fn json_plan(plan: &Plan) -> Value {
         "home_port": plan.port,
         "cautions": CAUTIONS,
         "notes": notes(plan),
+        "runs": if plan.runs.is_empty() {
+            Value::Null
+        } else {
+            plan.runs.iter().map(|m| json!({"number": m.number, "label": m.label()})).collect::<Vec<_>>().into()
+        },
         "days": plan.days.iter().map(|d| day_json(plan, d)).collect::<Vec<_>>(),
     })
 }

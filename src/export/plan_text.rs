@@ -5,7 +5,7 @@
 use super::units::Units;
 use crate::localtime::local_day;
 use crate::plan::{
-    Excluded, Exclusion, Plan, PlanNote, RankedStretch, Reasons, Stopper, TripReason,
+    Excluded, Exclusion, Odds, Plan, PlanNote, RankedStretch, Reasons, Stopper, TripReason,
     UpwellingReason, WaveReason, WaveSource, WindReason,
 };
 use chrono::{DateTime, NaiveDate, Utc};
@@ -257,12 +257,25 @@ pub fn reason_lines(
     if let Some(w) = wave_text(&r.waves) {
         lines.insert(2, w);
     }
+    if let Some(o) = &r.odds {
+        lines.insert(0, odds_text(o));
+    }
     if let Some(lat) = r.near_equator_lat_deg {
         lines.push(format!(
             "{lat:.1}° from the equator: the index is large and unreliable this close to it (under 10°)"
         ));
     }
     lines
+}
+
+/// The odds of an ensemble in words: "upwelling in 7 of 10 runs; window in 9 of 10;
+/// productivity 0.31–0.62 (10th–90th percentile)".
+#[must_use]
+pub fn odds_text(o: &Odds) -> String {
+    format!(
+        "Upwelling in {} of {} runs; window in {} of {}; productivity {:.2}–{:.2} (10th–90th percentile of runs)",
+        o.upwelling, o.runs, o.window, o.runs, o.productivity_p10, o.productivity_p90
+    )
 }
 
 /// The reasons of a ranked stretch of a plan's day.
@@ -323,6 +336,10 @@ pub fn note_text(n: &PlanNote, port_name: &str) -> String {
             }
         }
         PlanNote::NearEquator => "Some stretches lie between 5° and 10° from the equator, where the upwelling index is large and unreliable.".into(),
+        PlanNote::SingleForecast => "Single forecast: one run of one model, so no odds are given. An ensemble forecast shows how many runs agree.".into(),
+        PlanNote::Ensemble { runs } => format!(
+            "Ensemble of {runs} runs: each stretch's score is the runs' mean (a run without a safe window scores 0); the odds count the runs with upwelling and with a window."
+        ),
     }
 }
 

@@ -22,12 +22,13 @@ use crate::upwelling::{
     daily_upwelling, detect_events, index_series,
 };
 use crate::wind::{
-    Conditions, GroupWind, PointGroup, PointSeries, SegmentWind, SourceIdentity, SourceSpan,
-    WindError, WindSource, groups_fingerprint, length_weighted_at, sample_conditions, sample_waves,
-    wind_at_time,
+    Conditions, GroupWind, Member, PointGroup, PointSeries, RunRule, SegmentWind, SourceIdentity,
+    SourceSpan, WindError, WindSource, forecast_runs, groups_fingerprint, length_weighted_at,
+    sample_run, sample_waves, wind_at_time,
 };
 use chrono::{DateTime, Duration, NaiveDate, Timelike, Utc};
 use chrono_tz::Tz;
+use rayon::prelude::*;
 use std::sync::Arc;
 
 /// Distance from the coast of the Ekman pumping probes, and their spacing, metres.
@@ -148,6 +149,30 @@ pub struct PortRoutes {
     pub wave_source: Vec<WaveSource>,
 }
 
+impl PortRoutes {
+    /// Lays the hourly values on a longer timeline: `offset` hours after its start,
+    /// `len` hours in all, `None` where this run has no hour.
+    fn lay_on(&mut self, offset: usize, len: usize) {
+        let lay = |v: &mut Vec<Arc<[Option<f64>]>>| {
+            for hours in v.iter_mut() {
+                if offset == 0 && hours.len() == len {
+                    continue;
+                }
+                let mut out = vec![None; len];
+                for (k, x) in hours.iter().enumerate() {
+                    if let Some(slot) = out.get_mut(offset + k) {
+                        *slot = *x;
+                    }
+                }
+                *hours = out.into();
+            }
+        };
+        lay(&mut self.max_wind_kt);
+        lay(&mut self.max_wave_m);
+        lay(&mut self.max_steepness);
+    }
+}
+
 /// Model settings that the upwelling stage uses.
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct UpwellingSettings {
@@ -183,17 +208,27 @@ pub struct SampledConditions {
     pub sources: Vec<SourceIdentity>,
     /// Fingerprint of the points sampled.
     pub geometry: u64,
+    /// How the runs were made from the files.
+    pub rule: RunRule,
     /// The stretches' geometry.
     stretches: Vec<StretchForecast>,
     /// Where each stretch's groups are.
     layout: Vec<StretchGroups>,
-    /// The sampled wind.
-    conditions: Conditions,
     /// Every whole hour the wind covers.
     pub timeline: Vec<DateTime<Utc>>,
-    /// The ways from each port.
-    routes: Vec<PortRoutes>,
+    /// Each run's sampled wind and ways: one for a single forecast, else one per
+    /// ensemble member, control first.
+    runs: Vec<SampledRun>,
     stretch_pieces: Vec<Segment>,
+}
+
+/// One run's wind at the stretches (the ways' points are reduced to [`PortRoutes`] and
+/// dropped, so memory grows with stretches × hours × runs).
+#[derive(Debug, Clone)]
+struct SampledRun {
+    member: Option<Member>,
+    conditions: Conditions,
+    routes: Vec<PortRoutes>,
 }
 
 #[derive(Debug, Clone, Copy)]
@@ -224,6 +259,20 @@ pub struct Forecast {
     pub settings: UpwellingSettings,
     /// What each wind file held (`None`: not read, the files before it covered all).
     pub sources: Vec<Option<SourceSpan>>,
+    /// Every run of an ensemble (`None`: a single forecast). `stretches` and `routes`
+    /// above are its first run's (the control where there is one).
+    pub ensemble: Option<Arc<Ensemble>>,
+}
+
+/// The runs of an ensemble forecast, each computed through the same pipeline.
+#[derive(Debug, Clone)]
+pub struct Ensemble {
+    /// The runs, control first.
+    pub members: Vec<Member>,
+    /// Per run, every stretch (in the order of [`Forecast::stretches`]).
+    pub stretches: Vec<Vec<Arc<StretchForecast>>>,
+    /// Per run, the ways from each port (in the order of [`Forecast::routes`]).
+    pub routes: Vec<Vec<PortRoutes>>,
 }
 
 /// Why no forecast could be made.
@@ -317,11 +366,8 @@ fn pumping_group(s: &StretchForecast) -> ([LatLon; 4], PointGroup) {
 }
 
 /// Every whole hour from the first to the last time any group has.
-fn hourly_timeline(conditions: &Conditions) -> Vec<DateTime<Utc>> {
-    let ends = conditions
-        .groups
-        .iter()
-        .flatten()
+fn hourly_timeline<'a>(groups: impl Iterator<Item = &'a GroupWind> + Clone) -> Vec<DateTime<Utc>> {
+    let ends = groups
         .flat_map(|g| [g.times.first(), g.times.last()])
         .flatten();
     let (Some(first), Some(last)) = (ends.clone().min(), ends.max()) else {
@@ -405,10 +451,13 @@ pub fn forecast_key(geometry: &ForecastGeometry<'_>) -> u64 {
     groups_fingerprint(&layout(geometry).groups)
 }
 
-/// Samples the wind for a coast and its ports. Reads every file once.
+/// Samples the wind for a coast and its ports, each run of the forecast (`rule`: see
+/// [`forecast_runs`]) in turn. A single forecast reads every file once; an ensemble
+/// reads each file once per run, decoding only that run's fields.
 pub fn sample_forecast_conditions(
     geometry: &ForecastGeometry<'_>,
     sources: &[WindSource],
+    rule: RunRule,
     progress: &Progress,
 ) -> Result<SampledConditions, ForecastError> {
     let Layout {
@@ -422,39 +471,85 @@ pub fn sample_forecast_conditions(
         .map(|s| SourceIdentity::of(s.path()))
         .collect::<Result<Vec<_>, _>>()?;
     let fingerprint = groups_fingerprint(&groups);
-    let conditions = sample_conditions(sources, &groups, progress)?;
-    if conditions.groups.iter().all(Option::is_none) {
-        return Err(ForecastError::NoWind);
-    }
-    let timeline = hourly_timeline(&conditions);
+    let runs_of = forecast_runs(sources, rule)?;
+    let members: Vec<Option<Member>> = if runs_of.members.is_empty() {
+        vec![None]
+    } else {
+        runs_of.members.iter().copied().map(Some).collect()
+    };
     let anchors: Vec<LatLon> = groups.iter().map(|g| g.anchor).collect();
     let waves = sample_waves(sources, &anchors, progress)?;
     let (stretch_pieces, stretches): (Vec<Segment>, Vec<StretchForecast>) = cut.into_iter().unzip();
     let n = stretches.len();
     let mut fetch = FetchCache::new(geometry.land);
-    let routes = geometry
-        .ports
+    // One run at a time: its ways' points are summed up in its routes and dropped
+    // before the next run is read, so memory grows with stretches × hours × runs.
+    let mut runs: Vec<(SampledRun, Vec<DateTime<Utc>>)> = Vec::with_capacity(members.len());
+    for member in members {
+        let mut conditions = sample_run(sources, &groups, member.map(|m| (&runs_of, m)), progress)?;
+        let timeline = hourly_timeline(conditions.groups.iter().flatten());
+        let routes = geometry
+            .ports
+            .iter()
+            .enumerate()
+            .map(|(p, &port)| {
+                port_routes(
+                    port,
+                    &stretches,
+                    &layout,
+                    &route_groups[p * n..(p + 1) * n],
+                    (&conditions, &groups, &waves),
+                    (&timeline, &mut fetch),
+                )
+            })
+            .collect();
+        // The stretches' own groups (two per stretch) are laid out first.
+        conditions.groups.truncate(2 * n);
+        runs.push((
+            SampledRun {
+                member,
+                conditions,
+                routes,
+            },
+            timeline,
+        ));
+    }
+    if runs
         .iter()
-        .enumerate()
-        .map(|(p, &port)| {
-            port_routes(
-                port,
-                &stretches,
-                &layout,
-                &route_groups[p * n..(p + 1) * n],
-                (&conditions, &groups, &waves),
-                (&timeline, &mut fetch),
-            )
+        .all(|(r, _)| r.conditions.groups.iter().all(Option::is_none))
+    {
+        return Err(ForecastError::NoWind);
+    }
+    // Runs may cover different hours (forecasts from different centres): each run's
+    // hourly values are laid on the hours of all of them.
+    let first = runs.iter().filter_map(|(_, t)| t.first()).min().copied();
+    let last = runs.iter().filter_map(|(_, t)| t.last()).max().copied();
+    let timeline: Vec<DateTime<Utc>> = match (first, last) {
+        (Some(a), Some(b)) => (0..=(b - a).num_hours())
+            .map(|k| a + Duration::hours(k))
+            .collect(),
+        _ => Vec::new(),
+    };
+    let runs = runs
+        .into_iter()
+        .map(|(mut run, own)| {
+            let offset = own.first().zip(first).map_or(0, |(t, a)| {
+                usize::try_from((*t - a).num_hours()).unwrap_or(0)
+            });
+            for r in &mut run.routes {
+                r.lay_on(offset, timeline.len());
+            }
+            run
         })
         .collect();
     Ok(SampledConditions {
         sources: identities,
         geometry: fingerprint,
+        rule,
         stretches,
         layout,
-        conditions,
         timeline,
-        routes,
+        runs,
         stretch_pieces,
     })
 }
@@ -576,8 +671,8 @@ impl SampledConditions {
     /// Whether these conditions were sampled from the same files (unchanged on disk) at
     /// the same points as `geometry` would need.
     #[must_use]
-    pub fn fits(&self, sources: &[SourceIdentity], geometry: u64) -> bool {
-        self.sources == sources && self.geometry == geometry
+    pub fn fits(&self, sources: &[SourceIdentity], geometry: u64, rule: RunRule) -> bool {
+        self.sources == sources && self.geometry == geometry && self.rule == rule
     }
 
     /// Computes the upwelling of every stretch from the sampled wind.
@@ -590,36 +685,65 @@ impl SampledConditions {
                 .collect(),
             _ => Vec::new(),
         };
-        let stretches = self
-            .stretches
-            .iter()
-            .zip(&self.layout)
-            .zip(&self.stretch_pieces)
-            .map(|((s, l), part)| Arc::new(self.stretch_upwelling(s, l, part, tz, &days, settings)))
+        // Runs are independent, and so are stretches: all in parallel.
+        let mut per_run: Vec<Vec<Arc<StretchForecast>>> = self
+            .runs
+            .par_iter()
+            .map(|run| {
+                self.stretches
+                    .par_iter()
+                    .zip(&self.layout)
+                    .zip(&self.stretch_pieces)
+                    .map(|((s, l), part)| {
+                        Arc::new(self.stretch_upwelling(
+                            &run.conditions,
+                            s,
+                            l,
+                            part,
+                            (tz, &days),
+                            settings,
+                        ))
+                    })
+                    .collect()
+            })
             .collect();
+        let first = &self.runs[0];
+        let ensemble = (self.runs.len() > 1).then(|| {
+            Arc::new(Ensemble {
+                members: self.runs.iter().filter_map(|r| r.member).collect(),
+                stretches: per_run.clone(),
+                routes: self.runs.iter().map(|r| r.routes.clone()).collect(),
+            })
+        });
+        let sources = first.conditions.sources.clone();
         Forecast {
             time_zone: tz,
-            stretches,
+            stretches: per_run.swap_remove(0),
             timeline: self.timeline.clone(),
             days,
-            routes: self.routes.clone(),
-            latest_reference: self.conditions.latest_reference,
+            routes: first.routes.clone(),
+            latest_reference: self
+                .runs
+                .iter()
+                .filter_map(|r| r.conditions.latest_reference)
+                .max(),
             settings: *settings,
-            sources: self.conditions.sources.clone(),
+            sources,
+            ensemble,
         }
     }
 
     fn stretch_upwelling(
         &self,
+        conditions: &Conditions,
         s: &StretchForecast,
         l: &StretchGroups,
         part: &Segment,
-        tz: Tz,
-        days: &[NaiveDate],
+        (tz, days): (Tz, &[NaiveDate]),
         settings: &UpwellingSettings,
     ) -> StretchForecast {
         let mut s = s.clone();
-        let Some(g) = self.conditions.groups[l.pieces].as_ref() else {
+        let Some(g) = conditions.groups[l.pieces].as_ref() else {
             return s;
         };
         s.has_wind = true;
@@ -648,7 +772,7 @@ impl SampledConditions {
         let Ok(series) = index_series(part, &wind, &settings.index) else {
             return s;
         };
-        let probes = self.conditions.groups[l.pumping].as_ref();
+        let probes = conditions.groups[l.pumping].as_ref();
         let f_centre = coriolis_parameter(s.centre.lat_deg);
         let along = s.alongshore_bearing_deg.to_radians();
         let idx = &settings.index;

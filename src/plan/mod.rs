@@ -19,15 +19,16 @@ pub use boat::{
     Vessel, WAVE_LIMIT_RANGE_M, WIND_LIMIT_RANGE_KT,
 };
 pub use forecast::{
-    Forecast, ForecastError, ForecastGeometry, Latitude, PortRoutes, SampledConditions,
+    Ensemble, Forecast, ForecastError, ForecastGeometry, Latitude, PortRoutes, SampledConditions,
     StretchForecast, StretchHour, UpwellingSettings, forecast_key, sample_forecast_conditions,
 };
 pub use rank::{
     DayPlan, Excluded, Plan, PlanError, PlanNote, PlanRequest, RankedStretch, StretchInfo,
-    rank_plan,
+    quantile, rank_plan,
 };
 pub use reasons::{
-    Exclusion, Reasons, Stopper, TripReason, UpwellingReason, WaveReason, WaveSource, WindReason,
+    Exclusion, Odds, Reasons, Stopper, TripReason, UpwellingReason, WaveReason, WaveSource,
+    WindReason,
 };
 pub use settings::TripSettings;
 pub use window::{Limits, Unsafe, WorkingHour, longest_safe_run, run_span};

@@ -4,7 +4,8 @@
 
 use super::forecast::{Forecast, Latitude, StretchForecast};
 use super::reasons::{
-    Exclusion, Reasons, Stopper, TripReason, UpwellingReason, WaveReason, WaveSource, WindReason,
+    Exclusion, Odds, Reasons, Stopper, TripReason, UpwellingReason, WaveReason, WaveSource,
+    WindReason,
 };
 use super::window::{Limits, Unsafe, WorkingHour, longest_safe_run, run_span};
 use super::{Port, TripSettings, Vessel};
@@ -39,6 +40,9 @@ pub struct StretchInfo {
     /// Where those wave heights come from.
     pub wave_source: WaveSource,
     timeline_start: Option<DateTime<Utc>>,
+    /// The stretch in every run of an ensemble, in the order of [`Plan::runs`] (empty
+    /// for a single forecast).
+    pub runs: Vec<Arc<StretchForecast>>,
 }
 
 // A stretch in a plan *is* its forecast stretch plus what the plan adds; reading
@@ -123,6 +127,9 @@ pub struct DayPlan {
     pub ranked: Vec<RankedStretch>,
     /// Stretches left out, with the reason.
     pub excluded: Vec<Excluded>,
+    /// Per stretch (in the order of [`Plan::stretches`]), what the runs of an ensemble
+    /// say; empty for a single forecast, `None` where no run has the day.
+    pub odds: Vec<Option<Odds>>,
 }
 
 /// Plan-wide notes: how the plan was made and what it did not check.
@@ -148,6 +155,13 @@ pub enum PlanNote {
     },
     /// Some stretches lie between 5° and 10° from the equator.
     NearEquator,
+    /// The forecast is one run: no odds can be given.
+    SingleForecast,
+    /// The forecast is an ensemble of this many runs: scores are the runs' mean.
+    Ensemble {
+        /// Runs.
+        runs: usize,
+    },
 }
 
 /// The whole plan.
@@ -167,6 +181,8 @@ pub struct Plan {
     pub days: Vec<DayPlan>,
     /// Plan-wide notes.
     pub notes: Vec<PlanNote>,
+    /// The runs of an ensemble forecast, control first (empty: a single forecast).
+    pub runs: Vec<crate::wind::Member>,
 }
 
 /// Why no plan could be made.
@@ -232,9 +248,92 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
                 req.port.id
             ))
         })?;
-    let stretches: Vec<StretchInfo> = forecast
-        .stretches
+    let mut stretches = stretch_infos(forecast, &forecast.stretches, routes, req);
+    // Each run of an ensemble is ranked from its own stretches and ways.
+    let runs: Vec<Vec<StretchInfo>> = match &forecast.ensemble {
+        Some(e) => e
+            .stretches
+            .iter()
+            .zip(&e.routes)
+            .map(|(run, run_routes)| {
+                let r = run_routes
+                    .iter()
+                    .find(|r| r.port == req.port.position)
+                    .unwrap_or(routes);
+                stretch_infos(forecast, run, r, req)
+            })
+            .collect(),
+        None => Vec::new(),
+    };
+    for (k, s) in stretches.iter_mut().enumerate() {
+        s.runs = runs.iter().map(|r| r[k].forecast.clone()).collect();
+    }
+    let from = req
+        .from
+        .or_else(|| first_day(forecast, req.now))
+        .ok_or(PlanError::Forecast(super::ForecastError::NoWind))?;
+    let ranker = DayRanker {
+        tz: forecast.time_zone,
+        vessel: req.vessel,
+        trip: req.trip,
+        relaxation_window_days: forecast.settings.response.relaxation_window_days,
+        threshold_m3s_per_100m: forecast.settings.events.threshold_m3s_per_100m,
+    };
+    let days = (0..req.days.max(1))
+        .filter_map(|k| from.checked_add_days(chrono::Days::new(k as u64)))
+        .map(|d| {
+            if runs.is_empty() {
+                ranker.rank_day(d, &stretches)
+            } else {
+                ranker.rank_day_runs(d, &runs)
+            }
+        })
+        .collect();
+    let mut notes = vec![PlanNote::SeaRoutes {
+        clearance_nm: req.trip.sea_clearance_nm,
+    }];
+    let count = |w: WaveSource| stretches.iter().filter(|s| s.wave_source == w).count();
+    notes.push(PlanNote::WaveSources {
+        forecast: count(WaveSource::Forecast),
+        estimate: count(WaveSource::Estimate),
+        none: count(WaveSource::None),
+        limit_m: req.vessel.wave_limit_m,
+    });
+    if stretches
         .iter()
+        .any(|s| s.latitude == Latitude::NearEquator)
+    {
+        notes.push(PlanNote::NearEquator);
+    }
+    notes.push(if runs.is_empty() {
+        PlanNote::SingleForecast
+    } else {
+        PlanNote::Ensemble { runs: runs.len() }
+    });
+    Ok(Plan {
+        scenario_name: req.scenario_name.to_string(),
+        time_zone: forecast.time_zone,
+        vessel: req.vessel.clone(),
+        port: req.port.clone(),
+        stretches,
+        days,
+        notes,
+        runs: forecast
+            .ensemble
+            .as_ref()
+            .map(|e| e.members.clone())
+            .unwrap_or_default(),
+    })
+}
+
+/// The stretches of one run as a plan for `req` sees them.
+fn stretch_infos(
+    forecast: &Forecast,
+    run: &[Arc<StretchForecast>],
+    routes: &super::PortRoutes,
+    req: &PlanRequest<'_>,
+) -> Vec<StretchInfo> {
+    run.iter()
         .enumerate()
         .map(|(k, s)| {
             let drawn = req.coast.iter().find(|c| c.id == s.segment_id);
@@ -255,48 +354,25 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
                 route_max_steepness: routes.max_steepness[k].clone(),
                 wave_source: routes.wave_source[k],
                 timeline_start: forecast.timeline.first().copied(),
+                runs: Vec::new(),
             }
         })
-        .collect();
-    let from = req
-        .from
-        .or_else(|| first_day(forecast, req.now))
-        .ok_or(PlanError::Forecast(super::ForecastError::NoWind))?;
-    let ranker = DayRanker {
-        tz: forecast.time_zone,
-        vessel: req.vessel,
-        trip: req.trip,
-        relaxation_window_days: forecast.settings.response.relaxation_window_days,
-    };
-    let days = (0..req.days.max(1))
-        .filter_map(|k| from.checked_add_days(chrono::Days::new(k as u64)))
-        .map(|d| ranker.rank_day(d, &stretches))
-        .collect();
-    let mut notes = vec![PlanNote::SeaRoutes {
-        clearance_nm: req.trip.sea_clearance_nm,
-    }];
-    let count = |w: WaveSource| stretches.iter().filter(|s| s.wave_source == w).count();
-    notes.push(PlanNote::WaveSources {
-        forecast: count(WaveSource::Forecast),
-        estimate: count(WaveSource::Estimate),
-        none: count(WaveSource::None),
-        limit_m: req.vessel.wave_limit_m,
-    });
-    if stretches
-        .iter()
-        .any(|s| s.latitude == Latitude::NearEquator)
-    {
-        notes.push(PlanNote::NearEquator);
+        .collect()
+}
+
+/// The `q` quantile (0–1) of `values`, linear between order statistics (Hyndman and
+/// Fan 1996, definition 7: the default of R and NumPy); `None` for no values.
+#[must_use]
+pub fn quantile(values: &[f64], q: f64) -> Option<f64> {
+    let mut v: Vec<f64> = values.iter().copied().filter(|x| x.is_finite()).collect();
+    if v.is_empty() {
+        return None;
     }
-    Ok(Plan {
-        scenario_name: req.scenario_name.to_string(),
-        time_zone: forecast.time_zone,
-        vessel: req.vessel.clone(),
-        port: req.port.clone(),
-        stretches,
-        days,
-        notes,
-    })
+    v.sort_by(f64::total_cmp);
+    let h = (v.len() - 1) as f64 * q.clamp(0.0, 1.0);
+    let lo = h.floor() as usize;
+    let hi = (lo + 1).min(v.len() - 1);
+    Some(v[lo] + (h - lo as f64) * (v[hi] - v[lo]))
 }
 
 /// A lagged response at least this strong (0–1) is worth naming as the bloom following
@@ -309,6 +385,9 @@ struct DayRanker<'a> {
     vessel: &'a Vessel,
     trip: &'a TripSettings,
     relaxation_window_days: f64,
+    /// The event threshold: a run's day with a mean index at or above it is a run with
+    /// upwelling.
+    threshold_m3s_per_100m: f64,
 }
 
 impl DayRanker<'_> {
@@ -334,6 +413,78 @@ impl DayRanker<'_> {
             date,
             ranked,
             excluded,
+            odds: Vec::new(),
+        }
+    }
+
+    /// Ranks the stretches for one local day from every run of an ensemble (README,
+    /// "Ensembles"): each run is judged as a single forecast would be; a stretch is
+    /// ranked when at least one run leaves it a window, by the runs' mean score (a run
+    /// without a window scores 0), with the first such run's window, trip and reasons
+    /// and the runs' mean productivity; else it is left out for the first run's reason.
+    fn rank_day_runs(&self, date: NaiveDate, runs: &[Vec<StretchInfo>]) -> DayPlan {
+        let mut ranked = Vec::new();
+        let mut excluded = Vec::new();
+        let mut odds = Vec::new();
+        let count = runs.first().map_or(0, Vec::len);
+        for k in 0..count {
+            let judged: Vec<Result<RankedStretch, Exclusion>> =
+                runs.iter().map(|r| self.judge(date, &r[k])).collect();
+            let means: Vec<f64> = runs
+                .iter()
+                .filter_map(|r| r[k].day(date).and_then(|d| d.mean_index_m3s_per_100m))
+                .collect();
+            let productivity: Vec<f64> = runs
+                .iter()
+                .filter_map(|r| r[k].day(date))
+                .filter(|d| d.mean_index_m3s_per_100m.is_some())
+                .map(|d| d.response.productivity.clamp(0.0, 1.0))
+                .collect();
+            let these = (!productivity.is_empty()).then(|| Odds {
+                runs: runs.len(),
+                upwelling: means
+                    .iter()
+                    .filter(|m| **m >= self.threshold_m3s_per_100m)
+                    .count(),
+                window: judged.iter().filter(|j| j.is_ok()).count(),
+                productivity_p10: quantile(&productivity, 0.1).unwrap_or(0.0),
+                productivity_p90: quantile(&productivity, 0.9).unwrap_or(0.0),
+            });
+            odds.push(these);
+            let mean_score =
+                judged.iter().flatten().map(|r| r.score).sum::<f64>() / runs.len() as f64;
+            let mut first_ok = None;
+            let mut first_err = None;
+            for j in judged {
+                match j {
+                    Ok(r) if first_ok.is_none() => first_ok = Some(r),
+                    Err(e) if first_err.is_none() => first_err = Some(e),
+                    _ => {}
+                }
+            }
+            match (first_ok, first_err) {
+                (Some(mut r), _) => {
+                    r.stretch = k;
+                    r.score = mean_score;
+                    r.productivity = productivity.iter().sum::<f64>() / productivity.len() as f64;
+                    r.reasons.productivity = r.productivity;
+                    r.reasons.odds = these;
+                    ranked.push(r);
+                }
+                (None, Some(exclusion)) => excluded.push(Excluded {
+                    stretch: k,
+                    exclusion,
+                }),
+                (None, None) => {}
+            }
+        }
+        ranked.sort_by(|x, y| y.score.total_cmp(&x.score).then(x.stretch.cmp(&y.stretch)));
+        self.mark_ties(&mut ranked);
+        DayPlan {
+            date,
+            ranked,
+            excluded,
+            odds,
         }
     }
 
@@ -454,6 +605,7 @@ impl DayRanker<'_> {
                 trip,
                 near_equator_lat_deg: (s.latitude == Latitude::NearEquator)
                     .then_some(s.centre.lat_deg),
+                odds: None,
             },
         })
     }

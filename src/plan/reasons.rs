@@ -275,4 +275,37 @@ pub struct Reasons {
     /// Latitude of a stretch between 5° and 10° from the equator, where the index is
     /// large and unreliable.
     pub near_equator_lat_deg: Option<f64>,
+    /// How many runs of an ensemble agree (`None`: a single forecast).
+    pub odds: Option<Odds>,
+}
+
+/// What the runs of an ensemble say about one stretch on one day (README, "Ensembles").
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Odds {
+    /// Runs in the ensemble.
+    pub runs: usize,
+    /// Runs whose daily mean index at the stretch is at or above the event threshold.
+    pub upwelling: usize,
+    /// Runs in which the stretch has a safe window long enough to fish the minimum
+    /// time.
+    pub window: usize,
+    /// 10th and 90th percentiles of the expected productivity over the runs that have
+    /// the day (0–1).
+    pub productivity_p10: f64,
+    /// See `productivity_p10`.
+    pub productivity_p90: f64,
+}
+
+impl Odds {
+    /// The probability of upwelling: the share of runs with upwelling, 0–1.
+    #[must_use]
+    pub fn p_upwelling(&self) -> f64 {
+        self.upwelling as f64 / self.runs.max(1) as f64
+    }
+
+    /// The probability that the boat's window exists, 0–1.
+    #[must_use]
+    pub fn p_window(&self) -> f64 {
+        self.window as f64 / self.runs.max(1) as f64
+    }
 }

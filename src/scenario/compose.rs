@@ -159,7 +159,7 @@ pub fn plan_scenario(
     let request = scenario.plan_request(choice)?;
     let ports = scenario.port_positions();
     let geometry = scenario.forecast_geometry(segments, &ports, land);
-    let conditions = sample_forecast_conditions(&geometry, sources, progress)?;
+    let conditions = sample_forecast_conditions(&geometry, sources, scenario.run_rule(), progress)?;
     let forecast = conditions.forecast(tz, &scenario.upwelling_settings());
     rank_plan(&forecast, &request)
 }

@@ -61,6 +61,10 @@ pub struct Scenario {
     /// Wind files, relative to the scenario file's folder (or absolute).
     #[serde(default)]
     pub wind_files: Vec<PathBuf>,
+    /// Each wind file is one run of an ensemble (forecasts from different centres taken
+    /// together); otherwise the runs are the ensemble members the files declare.
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub wind_files_are_runs: bool,
     /// A coast pack (`shelfwind coast-pack`) laid over the bundled land for this
     /// scenario's waters; relative paths are read from the scenario's folder.
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -111,6 +115,16 @@ fn unique<'a>(kind: &str, ids: impl Iterator<Item = &'a str>) -> Result<(), Stri
 }
 
 impl Scenario {
+    /// How the runs of the forecast are made from the wind files.
+    #[must_use]
+    pub fn run_rule(&self) -> crate::wind::RunRule {
+        if self.wind_files_are_runs {
+            crate::wind::RunRule::EachFile
+        } else {
+            crate::wind::RunRule::Members
+        }
+    }
+
     /// Checks every value a user could have typed wrong, naming the item.
     pub fn validate(&self) -> Result<(), String> {
         self.check_time_zone()?;

@@ -1,7 +1,10 @@
 //! Loading wind files and giving each coast segment its wind, by the coverage rule of
 //! [`super::conditions`] (anchored at the segment's length-weighted midpoint).
 
-use super::conditions::{Conditions, PointGroup, sample_conditions, sample_merged};
+use super::conditions::{
+    Conditions, Member, PointGroup, RunRule, forecast_runs, sample_conditions, sample_merged,
+    sample_run,
+};
 use super::{PointSeries, WindError, WindFileError, read_csv_series};
 use crate::coast::Segment;
 use crate::physics::Wind;
@@ -169,6 +172,30 @@ pub fn assign_wind(
 ) -> Result<Vec<SegmentWind>, WindError> {
     let conditions = sample_conditions(sources, &segment_groups(segments), &Progress::new())?;
     segment_winds(sources, segments, conditions)
+}
+
+/// One run's wind at every segment (`None`: the single forecast).
+pub type RunWinds = (Option<Member>, Vec<SegmentWind>);
+
+/// Gives every segment its wind in each run of the forecast ([`forecast_runs`]): one
+/// entry without a member for a single forecast, else one per run, control first.
+pub fn assign_wind_runs(
+    sources: &[WindSource],
+    segments: &[Segment],
+    rule: RunRule,
+) -> Result<Vec<RunWinds>, WindError> {
+    let runs = forecast_runs(sources, rule)?;
+    if runs.members.is_empty() {
+        return Ok(vec![(None, assign_wind(sources, segments)?)]);
+    }
+    let groups = segment_groups(segments);
+    runs.members
+        .iter()
+        .map(|&m| {
+            let c = sample_run(sources, &groups, Some((&runs, m)), &Progress::new())?;
+            Ok((Some(m), segment_winds(sources, segments, c)?))
+        })
+        .collect()
 }
 
 /// Gives every segment the union in time of every source that covers it (a long

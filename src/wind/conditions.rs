@@ -17,8 +17,8 @@
 //! time, the first source winning where two give the same time ([`sample_merged`]).
 
 use super::{
-    PointSeries, WindError, WindFileError, WindSource, grib2_contents, sample_grib2_with,
-    sample_waves_grib2_sized,
+    PointSeries, WindError, WindFileError, WindSource, grib2_contents, sample_grib2_member_with,
+    sample_grib2_with, sample_waves_grib2_sized,
 };
 use crate::coast::{LatLon, distance_m};
 use crate::physics::Wind;
@@ -182,9 +182,168 @@ struct SourceSamples {
     latest_reference: Option<DateTime<Utc>>,
 }
 
+/// One run of an ensemble: an ensemble member the files declare, or a whole file when
+/// each file is taken as a run (a poor man's ensemble).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub struct Member {
+    /// Its number in tables: the perturbation number (the control is 0), or the file's
+    /// place in the list, from 1.
+    pub number: u32,
+    /// An unperturbed control run (WMO Code Table 4.6 types 0 and 1).
+    pub control: bool,
+    /// The GRIB2 fields it is made of: (Code Table 4.6 type, perturbation number).
+    grib: Option<(u8, u8)>,
+    /// The file it is, 0-based, when each file is a run.
+    file: Option<usize>,
+}
+
+impl Member {
+    /// "control", "member 3", or "file 2".
+    #[must_use]
+    pub fn label(&self) -> String {
+        match (self.file, self.control) {
+            (Some(_), _) => format!("file {}", self.number),
+            (None, true) => "control".into(),
+            (None, false) => format!("member {}", self.number),
+        }
+    }
+
+    /// Whether source `k` gives wind to this run, and which of its fields.
+    fn reads(&self, k: usize, source: &WindSource, declared: &[Vec<(u8, u8)>]) -> Option<Pick> {
+        match (self.file, self.grib) {
+            (Some(f), _) => (f == k).then_some(Pick::Whole),
+            (None, Some(key)) => match source {
+                WindSource::Grib2 { .. } if !declared[k].is_empty() => {
+                    declared[k].contains(&key).then_some(Pick::Member(key))
+                }
+                _ => Some(Pick::Whole),
+            },
+            (None, None) => Some(Pick::Whole),
+        }
+    }
+}
+
+/// How the runs of a forecast are made from its files.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum RunRule {
+    /// The ensemble members the files declare are the runs, each file's fields by their
+    /// member; a deterministic file gives its wind to every run. Files without members
+    /// make one run: a single forecast.
+    #[default]
+    Members,
+    /// Each file is one run, numbered from 1 in the order given (a poor man's ensemble
+    /// of deterministic forecasts from different centres).
+    EachFile,
+}
+
+/// Which fields of a source a run takes.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Pick {
+    /// All of it (a file of several members is refused).
+    Whole,
+    /// One ensemble member's fields.
+    Member((u8, u8)),
+}
+
+/// The runs of a forecast made from `sources` by `rule`, control first, then by number;
+/// empty for a single forecast (no ensemble). GRIB2 files are scanned (headers only).
+///
+/// Errors: a file that cannot be scanned; with [`RunRule::EachFile`], fewer than two
+/// files, or a file that itself holds several members.
+pub fn forecast_runs(sources: &[WindSource], rule: RunRule) -> Result<Runs, WindError> {
+    let declared = declared_members(sources)?;
+    let members = match rule {
+        RunRule::EachFile => {
+            if sources.len() < 2 {
+                return Err(WindError::Runs(
+                    "taking each file as a run needs two files or more".into(),
+                ));
+            }
+            if let Some(k) = declared.iter().position(|m| m.len() > 1) {
+                return Err(WindError::File {
+                    path: sources[k].path().to_path_buf(),
+                    source: WindFileError::Grib(format!(
+                        "the file holds {} ensemble members: when each file is a run, give one forecast per file",
+                        declared[k].len()
+                    )),
+                });
+            }
+            (0..sources.len())
+                .map(|k| Member {
+                    number: u32::try_from(k + 1).unwrap_or(u32::MAX),
+                    control: false,
+                    grib: None,
+                    file: Some(k),
+                })
+                .collect()
+        }
+        RunRule::Members => {
+            let mut keys: Vec<(u8, u8)> = declared.iter().flatten().copied().collect();
+            keys.sort_by_key(|&(kind, n)| (kind > 1, n, kind));
+            keys.dedup();
+            if keys.len() < 2 {
+                Vec::new()
+            } else {
+                keys.into_iter()
+                    .map(|(kind, n)| Member {
+                        number: u32::from(n),
+                        control: kind <= 1,
+                        grib: Some((kind, n)),
+                        file: None,
+                    })
+                    .collect()
+            }
+        }
+    };
+    Ok(Runs { members, declared })
+}
+
+/// The runs of a forecast (see [`forecast_runs`]).
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct Runs {
+    /// The runs, control first; empty for a single forecast.
+    pub members: Vec<Member>,
+    /// Per source, the members its wind fields declare.
+    declared: Vec<Vec<(u8, u8)>>,
+}
+
+/// Per source, the ensemble members its 10 m wind fields declare (empty for all but
+/// GRIB2 files of product templates 4.1 and 4.11).
+fn declared_members(sources: &[WindSource]) -> Result<Vec<Vec<(u8, u8)>>, WindError> {
+    sources
+        .iter()
+        .map(|s| match s {
+            WindSource::Grib2 { path } => {
+                let bad = |source: WindFileError| WindError::File {
+                    path: path.clone(),
+                    source,
+                };
+                let file = std::fs::File::open(path).map_err(|e| bad(e.into()))?;
+                let contents = grib2_contents(std::io::BufReader::with_capacity(1 << 16, file))
+                    .map_err(bad)?;
+                Ok(contents
+                    .members
+                    .iter()
+                    .map(|m| (m.kind, m.number))
+                    .collect())
+            }
+            WindSource::Series { .. } | WindSource::Netcdf { .. } => Ok(Vec::new()),
+        })
+        .collect()
+}
+
 fn read_source(
     source: &WindSource,
     points: &[LatLon],
+    progress: &Progress,
+) -> Result<SourceSamples, WindError> {
+    read_pick(source, points, Pick::Whole, progress)
+}
+
+fn read_pick(
+    source: &WindSource,
+    points: &[LatLon],
+    pick: Pick,
     progress: &Progress,
 ) -> Result<SourceSamples, WindError> {
     match source {
@@ -240,11 +399,11 @@ fn read_source(
                 });
             }
             let file = std::fs::File::open(path).map_err(|e| bad(e.into()))?;
-            let s = sample_grib2_with(
-                std::io::BufReader::with_capacity(1 << 16, file),
-                points,
-                progress,
-            )
+            let reader = std::io::BufReader::with_capacity(1 << 16, file);
+            let s = match pick {
+                Pick::Whole => sample_grib2_with(reader, points, progress),
+                Pick::Member(key) => sample_grib2_member_with(reader, points, key, progress),
+            }
             .map_err(bad)?;
             Ok(SourceSamples {
                 times: s.times,
@@ -325,14 +484,23 @@ pub fn sample_waves(
 /// Reads a source whole, to check it before it is added to a forecast (a file that
 /// earlier files leave unread would otherwise go unchecked).
 pub fn check_source(source: &WindSource, progress: &Progress) -> Result<(), WindError> {
-    read_source(source, &[], progress)?;
     if let WindSource::Grib2 { path } = source {
         let bad = |source: WindFileError| WindError::File {
             path: path.clone(),
             source,
         };
-        let file = std::fs::File::open(path).map_err(|e| bad(e.into()))?;
-        sample_waves_grib2_sized(std::io::BufReader::new(file), 0, &[], progress).map_err(bad)?;
+        let open = || std::fs::File::open(path).map_err(|e| bad(e.into()));
+        let contents = grib2_contents(std::io::BufReader::new(open()?)).map_err(bad)?;
+        // Every member of an ensemble file is read (each is a run); a wave-only file
+        // has no wind to read.
+        if contents.wind || !contents.waves {
+            super::sample_grib2_members_with(std::io::BufReader::new(open()?), &[], progress)
+                .map_err(bad)?;
+        }
+        sample_waves_grib2_sized(std::io::BufReader::new(open()?), 0, &[], progress)
+            .map_err(bad)?;
+    } else {
+        read_source(source, &[], progress)?;
     }
     Ok(())
 }
@@ -403,6 +571,18 @@ pub fn sample_conditions(
     groups: &[PointGroup],
     progress: &Progress,
 ) -> Result<Conditions, WindError> {
+    sample_run(sources, groups, None, progress)
+}
+
+/// Samples one run of an ensemble (see [`forecast_runs`]) by the rule of
+/// [`sample_conditions`], over the files and fields that make that run; `None`: the
+/// single forecast.
+pub fn sample_run(
+    sources: &[WindSource],
+    groups: &[PointGroup],
+    run: Option<(&Runs, Member)>,
+    progress: &Progress,
+) -> Result<Conditions, WindError> {
     let nearest_station = nearest_station_of(sources);
     let mut out = Conditions {
         groups: vec![None; groups.len()],
@@ -416,8 +596,13 @@ pub fn sample_conditions(
         if pending.is_empty() {
             break;
         }
+        let pick = match run {
+            Some((runs, member)) => member.reads(k, &sources[k], &runs.declared),
+            None => Some(Pick::Whole),
+        };
+        let Some(pick) = pick else { continue };
         let pending_groups: Vec<&PointGroup> = pending.iter().map(|&g| &groups[g]).collect();
-        let read = read_source(&sources[k], &flatten(&pending_groups), progress)?;
+        let read = read_pick(&sources[k], &flatten(&pending_groups), pick, progress)?;
         out.sources[k] = Some(SourceSpan::of(&sources[k], &read));
         if let Some(t) = read.latest_reference {
             out.latest_reference = Some(out.latest_reference.map_or(t, |x| x.max(t)));

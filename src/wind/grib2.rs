@@ -53,6 +53,9 @@ pub(super) struct FieldHeader {
     /// forecast (Code Table 4.6: 0 and 1 control, 2 negative, 3 positive perturbation, 4
     /// multi-model), the perturbation number and the number of forecasts in the ensemble.
     pub(super) ensemble: Option<(u8, u8, u8)>,
+    /// For a field over a time interval (product templates 4.8 and 4.11): the end of
+    /// the overall interval (year, month, day, hour, minute, second), its valid time.
+    pub(super) interval_end: Option<(u16, u8, u8, u8, u8, u8)>,
     /// The grid definition section (section 3) that applies to this field.
     pub(super) grid: Span,
     /// Its data representation section (section 5).
@@ -160,6 +163,21 @@ fn field_header(discipline: u8, s: &[u8], grid: Span, earlier_bitmap: Option<Spa
             f64::NAN
         },
         ensemble: (matches!(template, 1 | 11) && s.len() >= 37).then(|| (s[34], s[35], s[36])),
+        interval_end: match template {
+            8 if s.len() >= 41 => Some(34),
+            11 if s.len() >= 44 => Some(37),
+            _ => None,
+        }
+        .map(|k| {
+            (
+                u16_at(s, k),
+                s[k + 2],
+                s[k + 3],
+                s[k + 4],
+                s[k + 5],
+                s[k + 6],
+            )
+        }),
         grid,
         data_representation: None,
         bitmap: None,
@@ -222,6 +240,18 @@ pub(super) fn valid_time(
     ref_time: DateTime<Utc>,
     h: &FieldHeader,
 ) -> Result<DateTime<Utc>, String> {
+    // A field over an interval (a mean over the last hour, say) is valid at the
+    // interval's end, as ecCodes' validityDate and validityTime give it.
+    if let Some((year, month, day, hour, minute, second)) = h.interval_end {
+        return chrono::NaiveDate::from_ymd_opt(i32::from(year), month.into(), day.into())
+            .and_then(|d| d.and_hms_opt(hour.into(), minute.into(), second.into()))
+            .map(|t| t.and_utc())
+            .ok_or_else(|| {
+                format!(
+                    "end of the time interval {year:04}-{month:02}-{day:02} {hour:02}:{minute:02}:{second:02} is not a valid date"
+                )
+            });
+    }
     let unit_s: i64 = match h.time_unit {
         0 => 60,
         1 => 3600,
@@ -409,6 +439,8 @@ struct Gathered {
     other_params: Vec<String>,
     /// The newest reference time among the messages with wind.
     latest_reference: Option<DateTime<Utc>>,
+    /// Only the fields of this ensemble member (type, perturbation number) are read.
+    only: Option<(u8, u8)>,
 }
 
 /// How the requested points are sampled on one grid.
@@ -512,7 +544,14 @@ impl Gathered {
         points: &[LatLon],
     ) -> Result<(), WindFileError> {
         let fail = |problem: String| message_error(message, problem);
-        let (ref_time, headers) = scan_message(msg).map_err(fail)?;
+        let (ref_time, mut headers) = scan_message(msg).map_err(fail)?;
+        if let Some(wanted) = self.only {
+            // Another member's fields are skipped before anything is decoded.
+            headers.retain(|h| h.ensemble.map(|(kind, n, _)| (kind, n)) == Some(wanted));
+            if headers.iter().all(|h| h.wind_component().is_none()) {
+                return Ok(());
+            }
+        }
         if headers.iter().all(|h| h.wind_component().is_none()) {
             self.other_params
                 .extend(headers.iter().map(FieldHeader::describe));
@@ -728,7 +767,7 @@ pub fn sample_grib2_with<R: Read + Seek>(
             })
             .collect();
         return Err(WindFileError::Grib(format!(
-            "the file holds {} ensemble members ({}): the planner takes one forecast; give one member or a deterministic forecast",
+            "the file holds {} ensemble members ({}): here one forecast is read, not an ensemble; give one member or a deterministic forecast",
             members.len(),
             names.join(", ")
         )));
@@ -748,16 +787,41 @@ pub fn sample_grib2_members<R: Read + Seek>(
 
 /// Like [`sample_grib2_members`], with progress and cancelling.
 pub fn sample_grib2_members_with<R: Read + Seek>(
+    r: R,
+    points: &[LatLon],
+    progress: &Progress,
+) -> Result<Vec<MemberSamples>, WindFileError> {
+    sample_gathered(r, points, progress, Gathered::default())
+}
+
+/// The 10 m wind of one ensemble member (Code Table 4.6 type, perturbation number) of a
+/// GRIB2 stream, sampled at `points`: the other members' fields are skipped undecoded,
+/// so each member of a large ensemble can be read in turn in the memory of one.
+pub fn sample_grib2_member_with<R: Read + Seek>(
+    r: R,
+    points: &[LatLon],
+    member: (u8, u8),
+    progress: &Progress,
+) -> Result<Grib2Samples, WindFileError> {
+    let gathered = Gathered {
+        only: Some(member),
+        ..Gathered::default()
+    };
+    let mut members = sample_gathered(r, points, progress, gathered)?;
+    Ok(members.remove(0).samples)
+}
+
+fn sample_gathered<R: Read + Seek>(
     mut r: R,
     points: &[LatLon],
     progress: &Progress,
+    mut gathered: Gathered,
 ) -> Result<Vec<MemberSamples>, WindFileError> {
     let file_len = r.seek(SeekFrom::End(0))?;
     if file_len == 0 {
         return Err(empty_file_error());
     }
     r.seek(SeekFrom::Start(0))?;
-    let mut gathered = Gathered::default();
     let mut messages = Messages::new(r);
     while let Some(m) = messages.next_message()? {
         if progress.is_cancelled() {

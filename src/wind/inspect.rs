@@ -490,7 +490,7 @@ pub fn inspect_grib2(reader: impl Read) -> Result<FileSummary, WindFileError> {
                 .map(|n| format!(", of {n} in the ensemble"))
                 .unwrap_or_default()
         ));
-        ignores.push("ensemble members: a file with several members at one time is refused; give one member or a deterministic forecast".into());
+        uses.push("each ensemble member as one run (the plan gives the odds over the runs)".into());
     }
     for (_, g) in &inv.grids {
         if let Err(problem) = g {

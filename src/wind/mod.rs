@@ -19,11 +19,13 @@ mod projection;
 mod waves;
 
 pub use assign::{
-    SegmentWind, WindSource, assign_wind, assign_wind_merged, length_weighted_at, load_sources,
+    SegmentWind, WindSource, assign_wind, assign_wind_merged, assign_wind_runs, length_weighted_at,
+    load_sources,
 };
 pub use conditions::{
-    Conditions, GroupWind, PointGroup, SourceIdentity, SourceKind, SourceSpan, check_source,
-    groups_fingerprint, sample_conditions, sample_merged, sample_waves,
+    Conditions, GroupWind, Member, PointGroup, RunRule, Runs, SourceIdentity, SourceKind,
+    SourceSpan, check_source, forecast_runs, groups_fingerprint, sample_conditions, sample_merged,
+    sample_run, sample_waves,
 };
 pub use csv::read_csv_series;
 pub use demo::{
@@ -32,8 +34,8 @@ pub use demo::{
     demo_wind,
 };
 pub use grib2::{
-    EnsembleMember, Grib2Samples, MemberSamples, sample_grib2, sample_grib2_members,
-    sample_grib2_members_with, sample_grib2_with,
+    EnsembleMember, Grib2Samples, MemberSamples, sample_grib2, sample_grib2_member_with,
+    sample_grib2_members, sample_grib2_members_with, sample_grib2_with,
 };
 pub use grib2_grid::{GribGrid, NEAREST_CELLS, Weights};
 pub use grib2_writer::{GridField, Parameter, encode_message, encode_wind_message};
@@ -172,4 +174,7 @@ pub enum WindError {
     /// No wind files at all.
     #[error("no wind file given: expected at least one --wind FILE, or a scenario with wind files")]
     NoFiles,
+    /// The files cannot make the runs asked for.
+    #[error("{0}")]
+    Runs(String),
 }

@@ -73,7 +73,7 @@ pub struct WaveSamples {
 }
 
 /// What kinds of fields a GRIB2 file holds (scanned from its headers, no data decoded).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+#[derive(Debug, Clone, PartialEq, Eq, Default)]
 pub struct Grib2Contents {
     /// The file holds 10 m u and 10 m v (discipline 0, category 2, numbers 2 and 3, first
     /// fixed surface 103 at 10 m): what the wind reader needs.
@@ -81,6 +81,10 @@ pub struct Grib2Contents {
     /// The file holds a significant wave height (discipline 10, category 0, number 3, 5
     /// or 8): what [`sample_waves_grib2`] needs.
     pub waves: bool,
+    /// The ensemble members whose 10 m wind the file holds (product templates 4.1 and
+    /// 4.11), in the order of their Code Table 4.6 type and perturbation number; empty
+    /// for a deterministic forecast.
+    pub members: Vec<super::EnsembleMember>,
 }
 
 /// The wave fields this reader takes, by their WMO Code Table 4.2 number in discipline
@@ -289,6 +293,7 @@ pub fn grib2_contents(reader: impl Read) -> Result<Grib2Contents, WindFileError>
     let (mut u, mut v) = (false, false);
     let mut contents = Grib2Contents::default();
     let mut any = false;
+    let mut members = std::collections::BTreeMap::new();
     while let Some(m) = messages.next_message()? {
         any = true;
         let (_, headers) = scan_message(&m.bytes).map_err(|p| message_error(m.number, p))?;
@@ -297,6 +302,9 @@ pub fn grib2_contents(reader: impl Read) -> Result<Grib2Contents, WindFileError>
                 Some(true) => u = true,
                 Some(false) => v = true,
                 None => {}
+            }
+            if let (Some(_), Some((kind, number, size))) = (h.is_wind_u(), h.ensemble) {
+                members.insert((kind, number), size);
             }
             contents.waves |= WaveKind::of(h).is_some_and(WaveKind::is_height);
         }
@@ -309,6 +317,14 @@ pub fn grib2_contents(reader: impl Read) -> Result<Grib2Contents, WindFileError>
         });
     }
     contents.wind = u && v;
+    contents.members = members
+        .into_iter()
+        .map(|((kind, number), size)| super::EnsembleMember {
+            kind,
+            number,
+            ensemble_size: Some(size),
+        })
+        .collect();
     Ok(contents)
 }
 
