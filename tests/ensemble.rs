@@ -280,6 +280,15 @@ fn the_plan_counts_runs_with_upwelling_and_with_a_window() {
     )
     .expect("valid JSON");
     let entry = &json["days"][1]["ranked"][0];
+    // The trip sheet prints the odds and says the plan is an ensemble.
+    let sheet = shelfwind::export::trip_sheet_html(
+        &skiff,
+        Land::bundled(),
+        1,
+        shelfwind::export::units::Units::default(),
+    );
+    assert!(sheet.contains("Upwelling in 7 of 10 runs; window in 3 of 10"));
+    assert!(sheet.contains("Ensemble of 10 runs"));
     assert_eq!(entry["members"], 10);
     assert_eq!(entry["p_upwelling"], 0.7);
     assert_eq!(entry["p_window"], 0.3);

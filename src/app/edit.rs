@@ -36,6 +36,8 @@ pub enum Edit {
     SetSettings(ModelSettings),
     /// Replace the wind files.
     SetWindFiles(Vec<std::path::PathBuf>),
+    /// Take each wind file as one run of an ensemble, or not.
+    SetFilesAreRuns(bool),
     /// Use a coast pack (or, with `None`, the bundled land only).
     SetCoastPack(Option<std::path::PathBuf>),
     /// Replace the boats.
@@ -118,6 +120,7 @@ fn apply_edit(s: &mut Scenario, edit: Edit) {
         }
         Edit::SetSettings(settings) => s.settings = settings,
         Edit::SetWindFiles(files) => s.wind_files = files,
+        Edit::SetFilesAreRuns(on) => s.wind_files_are_runs = on,
         Edit::SetCoastPack(pack) => s.coast_pack = pack,
         Edit::SetVessels(vessels) => s.vessels = vessels,
         Edit::SetPorts(ports) => s.ports = ports,

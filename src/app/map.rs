@@ -14,7 +14,7 @@ use crate::coast::{
 };
 use crate::export::colour::{self, Rgb};
 use crate::physics::{NAUTICAL_MILE_M, m_s_to_knots};
-use crate::plan::{Plan, StretchInfo};
+use crate::plan::{Odds, Plan, StretchInfo};
 use eframe::egui::{self, Align2, Color32, FontId, Pos2, Rect, Shape, Stroke, Vec2};
 use walkers::{MapMemory, Plugin, Projector, lat_lon};
 
@@ -68,15 +68,16 @@ fn day_statuses(plan: &Plan, day: usize) -> Vec<Option<DayStatus>> {
     out
 }
 
-/// The colour of a stretch under the chosen colouring.
+/// The colour of a stretch under the chosen colouring; `odds` is what an ensemble's
+/// runs say of it on the chosen day.
 fn stretch_colour(
     s: &StretchInfo,
     colouring: Colouring,
-    date: Option<chrono::NaiveDate>,
-    status: Option<DayStatus>,
+    (date, status, odds): (Option<chrono::NaiveDate>, Option<DayStatus>, Option<Odds>),
     time: Option<chrono::DateTime<chrono::Utc>>,
 ) -> Option<Color32> {
     let rgb = match colouring {
+        Colouring::UpwellingOdds => colour::productivity_colour(odds?.p_upwelling()),
         Colouring::IndexNow => colour::index_colour(s.hour_at(time?)?.index_m3s_per_100m),
         Colouring::Productivity => colour::productivity_colour(s.day(date?)?.response.productivity),
         Colouring::DayScore => match status? {
@@ -206,7 +207,18 @@ fn stretch_hover_text(
     stretch: usize,
     units: crate::export::units::Units,
 ) -> String {
-    let name = &plan.stretches[stretch].name;
+    let odds = plan
+        .days
+        .get(day)
+        .and_then(|d| d.odds.get(stretch).copied().flatten())
+        .map(|o| {
+            format!(
+                "\nupwelling in {} of {} runs; window in {} of {}",
+                o.upwelling, o.runs, o.window, o.runs
+            )
+        })
+        .unwrap_or_default();
+    let name = &format!("{}{odds}", plan.stretches[stretch].name);
     let ranked = plan.days.get(day).and_then(|d| {
         d.ranked
             .iter()
@@ -351,6 +363,11 @@ impl CoastLayer<'_> {
         };
         let statuses = day_statuses(plan, self.day);
         let date = plan.days.get(self.day).map(|d| d.date);
+        let odds = plan
+            .days
+            .get(self.day)
+            .map(|d| d.odds.as_slice())
+            .unwrap_or_default();
         let mut screen_lines = Vec::new();
         let mut arrow_cells = std::collections::HashSet::new();
         let mut names = Vec::new();
@@ -378,7 +395,8 @@ impl CoastLayer<'_> {
                     ));
                 }
             }
-            let colour = stretch_colour(s, self.colouring, date, statuses[k], self.time)
+            let these = odds.get(k).copied().flatten();
+            let colour = stretch_colour(s, self.colouring, (date, statuses[k], these), self.time)
                 .unwrap_or(Color32::from_gray(160));
             // A dark edge keeps near-zero (light) stretches visible on the land.
             painter.add(Shape::line(
@@ -1248,6 +1266,19 @@ fn legend_stops(colouring: Colouring) -> (&'static str, Vec<(String, Color32)>) 
                     ("closed to fishing".into(), c32(colour::SAFE_CLOSED)),
                     ("left out (see the list)".into(), c32(colour::SAFE_EXCLUDED)),
                 ])
+                .collect(),
+        ),
+        Colouring::UpwellingOdds => (
+            "Chance of upwelling (share of runs)",
+            [1.0, 0.75, 0.5, 0.25, 0.0]
+                .iter()
+                .map(|v: &f64| {
+                    (
+                        format!("{:.0} % of runs", v * 100.0),
+                        c32(colour::productivity_colour(*v)),
+                    )
+                })
+                .chain([("single forecast: no odds".into(), Color32::from_gray(160))])
                 .collect(),
         ),
         Colouring::SafeForBoat => (

@@ -317,6 +317,7 @@ fn map_toolbar_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<
             (Colouring::IndexNow, "Index now"),
             (Colouring::Productivity, "Expected productivity"),
             (Colouring::SafeForBoat, "Safe for this boat"),
+            (Colouring::UpwellingOdds, "Chance of upwelling"),
         ] {
             if ui
                 .selectable_label(app.view.colouring == c, label)
@@ -526,6 +527,7 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
         );
     }
     ui.label(format!("{} from {}", plan.vessel.name, plan.port.name));
+    ui.label(RichText::new(forecast_kind(&plan)).strong());
     day_switcher_ui(&plan, app.view.day, ui, commands);
     let words = app
         .view
@@ -572,6 +574,14 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
                     .weak(),
             );
         });
+}
+
+/// What kind of forecast the plan rests on, in a few words.
+pub(super) fn forecast_kind(plan: &Plan) -> String {
+    match plan.runs.len() {
+        0 => "Single forecast: no odds".to_string(),
+        n => format!("Ensemble of {n} runs: odds shown per stretch"),
+    }
 }
 
 /// The day shown, with the previous and next day.

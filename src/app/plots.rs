@@ -5,7 +5,9 @@ use super::state::ShelfwindApp;
 use crate::physics::m_s_to_knots;
 use crate::plan::{Plan, StretchHour, StretchInfo};
 use eframe::egui::{self, Color32, RichText};
-use egui_plot::{Bar, BarChart, HLine, Legend, Line, Plot, PlotPoints, Points, Span, VLine};
+use egui_plot::{
+    Bar, BarChart, HLine, Legend, Line, Plot, PlotPoints, Points, Polygon, Span, VLine,
+};
 
 const PALETTE: [Color32; 4] = [
     Color32::from_rgb(0, 90, 181),
@@ -77,9 +79,14 @@ impl PlotFrame<'_> {
         }
     }
 
-    /// One line per chosen stretch of an hourly value (hours without it are skipped).
+    /// One line per chosen stretch of an hourly value (hours without it are skipped);
+    /// for an ensemble, the runs' median and their 10–90 % band instead.
     fn hourly_lines(&self, p: &mut egui_plot::PlotUi<'_>, f: &dyn Fn(&StretchHour) -> Option<f64>) {
         for (k, s) in self.chosen.iter().enumerate() {
+            if !s.runs.is_empty() {
+                self.band(p, k, s, f);
+                continue;
+            }
             let pts: Vec<[f64; 2]> = s
                 .hours
                 .iter()
@@ -87,6 +94,43 @@ impl PlotFrame<'_> {
                 .collect();
             p.line(Line::new(s.name.clone(), PlotPoints::from(pts)).color(PALETTE[k]));
         }
+    }
+
+    /// The 10–90 % band of the runs (a shaded quadrilateral per hour: each is convex,
+    /// which a filled plot polygon must be) and the runs' median line.
+    fn band(
+        &self,
+        p: &mut egui_plot::PlotUi<'_>,
+        k: usize,
+        s: &StretchInfo,
+        f: &dyn Fn(&StretchHour) -> Option<f64>,
+    ) {
+        let spread = run_spread(s, f, self.t0);
+        let band_name = format!("{}: 10–90 % of {} runs", s.name, s.runs.len());
+        let fill = PALETTE[k].gamma_multiply(0.25);
+        for w in spread.windows(2) {
+            let ([x0, lo0, _, hi0], [x1, lo1, _, hi1]) = (w[0], w[1]);
+            if x1 - x0 > 1.5 {
+                continue;
+            }
+            p.polygon(
+                Polygon::new(
+                    band_name.clone(),
+                    vec![[x0, lo0], [x1, lo1], [x1, hi1], [x0, hi0]],
+                )
+                .fill_color(fill)
+                .stroke(egui::Stroke::NONE)
+                .allow_hover(false),
+            );
+        }
+        let median: Vec<[f64; 2]> = spread.iter().map(|&[x, _, m, _]| [x, m]).collect();
+        p.line(
+            Line::new(
+                format!("{}: median of runs", s.name),
+                PlotPoints::from(median),
+            )
+            .color(PALETTE[k]),
+        );
     }
 
     fn wind(&self, ui: &mut egui::Ui) {
@@ -206,26 +250,47 @@ impl PlotFrame<'_> {
     }
 
     fn productivity(&self, ui: &mut egui::Ui) {
-        self.plot(ui, "productivity", "Expected productivity (%), by day")
+        let title = if self.chosen.iter().any(|s| !s.runs.is_empty()) {
+            "Expected productivity (%), by day: mean of runs, 10–90 % bar"
+        } else {
+            "Expected productivity (%), by day"
+        };
+        self.plot(ui, "productivity", title)
             .include_y(0.0)
             .include_y(100.0)
             .show(ui, |p| {
                 self.decorate(p, false);
                 let width = 20.0 / self.chosen.len() as f64;
                 for (k, s) in self.chosen.iter().enumerate() {
+                    let x = |d: chrono::NaiveDate| {
+                        noon_x(self.plan, d, self.t0) - 10.0 + width * (k as f64 + 0.5)
+                    };
                     let bars: Vec<Bar> = s
                         .days
                         .iter()
                         .map(|d| {
-                            Bar::new(
-                                noon_x(self.plan, d.date, self.t0) - 10.0
-                                    + width * (k as f64 + 0.5),
-                                100.0 * d.response.productivity,
-                            )
-                            .width(width * 0.9)
+                            let value = run_productivity(s, d.date)
+                                .map_or(d.response.productivity, |(mean, _, _)| mean);
+                            Bar::new(x(d.date), 100.0 * value).width(width * 0.9)
                         })
                         .collect();
                     p.bar_chart(BarChart::new(s.name.clone(), bars).color(PALETTE[k]));
+                    // The runs' 10th to 90th percentile, a dark bar over each day's.
+                    for d in &s.days {
+                        if let Some((_, lo, hi)) = run_productivity(s, d.date) {
+                            p.line(
+                                Line::new(
+                                    format!("{}: 10–90 % of runs", s.name),
+                                    PlotPoints::from(vec![
+                                        [x(d.date), 100.0 * lo],
+                                        [x(d.date), 100.0 * hi],
+                                    ]),
+                                )
+                                .color(Color32::from_gray(30))
+                                .width(2.5),
+                            );
+                        }
+                    }
                 }
             });
     }
@@ -234,9 +299,13 @@ impl PlotFrame<'_> {
 /// The plots panel.
 pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mut Vec<Command>) {
     let Some(plan) = app.plan.clone() else { return };
-    let Some(&t0) = app.view.timeline.first() else {
+    let Some(&first) = app.view.timeline.first() else {
         return;
     };
+    // The x axis counts hours from the local midnight before the first hour, so that
+    // its day lines fall on local midnights and its 6-hour lines on 06:00, 12:00, 18:00.
+    let tz = plan.time_zone;
+    let t0 = crate::localtime::local_time(tz, crate::localtime::local_day(tz, first), 0);
     let chosen: Vec<&StretchInfo> = app
         .view
         .selected
@@ -294,6 +363,49 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
     } else {
         plots(ui);
     }
+}
+
+/// Per hour that some run has, `[x, 10th, 50th, 90th percentile]` of `f` over the runs
+/// of an ensemble (x in hours since `t0`).
+fn run_spread(
+    s: &StretchInfo,
+    f: &dyn Fn(&StretchHour) -> Option<f64>,
+    t0: chrono::DateTime<chrono::Utc>,
+) -> Vec<[f64; 4]> {
+    let mut by_time: std::collections::BTreeMap<chrono::DateTime<chrono::Utc>, Vec<f64>> =
+        std::collections::BTreeMap::new();
+    for run in &s.runs {
+        for h in &run.hours {
+            if let Some(v) = f(h) {
+                by_time.entry(h.time).or_default().push(v);
+            }
+        }
+    }
+    by_time
+        .iter()
+        .filter_map(|(t, v)| {
+            let q = |p: f64| crate::plan::quantile(v, p);
+            Some([hours_since(t0, *t), q(0.1)?, q(0.5)?, q(0.9)?])
+        })
+        .collect()
+}
+
+/// The runs' mean expected productivity on a day, and its 10th and 90th percentiles;
+/// `None` for a single forecast or a day no run has.
+fn run_productivity(s: &StretchInfo, date: chrono::NaiveDate) -> Option<(f64, f64, f64)> {
+    let values: Vec<f64> = s
+        .runs
+        .iter()
+        .filter_map(|r| r.day(date))
+        .filter(|d| d.mean_index_m3s_per_100m.is_some())
+        .map(|d| d.response.productivity.clamp(0.0, 1.0))
+        .collect();
+    let mean = values.iter().sum::<f64>() / values.len().max(1) as f64;
+    Some((
+        mean,
+        crate::plan::quantile(&values, 0.1)?,
+        crate::plan::quantile(&values, 0.9)?,
+    ))
 }
 
 fn noon_x(plan: &Plan, date: chrono::NaiveDate, t0: chrono::DateTime<chrono::Utc>) -> f64 {

@@ -26,6 +26,8 @@ pub enum Colouring {
     Productivity,
     /// Whether the chosen boat can work the stretch on the chosen day.
     SafeForBoat,
+    /// The share of an ensemble's runs with upwelling at the stretch on the chosen day.
+    UpwellingOdds,
 }
 
 /// The map's base layer.

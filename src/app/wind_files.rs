@@ -75,7 +75,11 @@ fn span_text(span: Option<&SourceSpan>, tz: chrono_tz::Tz) -> String {
 /// The names of the segments that take their wind from file `k`.
 fn segments_from(forecast: &Forecast, names: &dyn Fn(&str) -> String, k: usize) -> Vec<String> {
     let mut out: Vec<String> = Vec::new();
-    for s in &forecast.stretches {
+    let runs = forecast
+        .ensemble
+        .iter()
+        .flat_map(|e| e.stretches.iter().flatten());
+    for s in forecast.stretches.iter().chain(runs) {
         if s.wind_source == Some(k) {
             let name = names(&s.segment_id);
             if !out.contains(&name) {
@@ -93,6 +97,7 @@ pub(super) fn wind_files_window(
     commands: &mut Vec<Command>,
 ) {
     let mut open = true;
+    let mut close = false;
     let mut scrolled = false;
     let files = app.doc.scenario.wind_files.clone();
     let forecast = app
@@ -112,7 +117,25 @@ pub(super) fn wind_files_window(
         .default_width(620.0)
         .vscroll(true)
         .show(ctx, |ui| {
-            ui.label("Each segment takes its wind from the first file below that covers it; a station file covers the segments it is the nearest station to.");
+            ui.label("Each segment takes its wind from the first file below that covers it; a station file covers the segments it is the nearest station to. An ensemble file's members are each one run: the plan gives the odds over the runs.");
+            let mut runs = scenario.wind_files_are_runs;
+            if ui
+                .checkbox(&mut runs, "Each file is one run (forecasts from several centres taken together)")
+                .on_hover_text("The plan then counts how many of the files bring upwelling and leave a safe window, instead of taking each stretch's wind from the first file that covers it")
+                .changed()
+            {
+                commands.push(Command::Edit(Edit::SetFilesAreRuns(runs)));
+            }
+            if let Some(fc) = &forecast {
+                ui.label(RichText::new(match &fc.ensemble {
+                    None => "Read as a single forecast: no odds.".to_string(),
+                    Some(e) => format!(
+                        "Read as an ensemble of {} runs: {}.",
+                        e.members.len(),
+                        e.members.iter().map(crate::wind::Member::label).collect::<Vec<_>>().join(", ")
+                    ),
+                }).strong());
+            }
             ui.separator();
             for (k, f) in files.iter().enumerate() {
                 ui.label(RichText::new(format!("{}. {}", k + 1, f.display())).strong());
@@ -169,14 +192,17 @@ pub(super) fn wind_files_window(
             if files.is_empty() {
                 ui.label("No wind file yet.");
             }
-            if ui.button("Add a wind file…").clicked() {
-                commands.push(Command::AskFile(super::commands::FileAction::ImportWind));
-            }
+            ui.horizontal(|ui| {
+                if ui.button("Add a wind file…").clicked() {
+                    commands.push(Command::AskFile(super::commands::FileAction::ImportWind));
+                }
+                close = ui.button("Close").clicked();
+            });
         });
     if scrolled {
         app.scroll_to_added = false;
     }
-    if !open {
+    if !open || close {
         app.dialogs.show_wind_files = false;
     }
 }

@@ -715,7 +715,14 @@ impl SampledConditions {
                 routes: self.runs.iter().map(|r| r.routes.clone()).collect(),
             })
         });
-        let sources = first.conditions.sources.clone();
+        // What each file held, from the first run that read it.
+        let sources = (0..first.conditions.sources.len())
+            .map(|k| {
+                self.runs
+                    .iter()
+                    .find_map(|r| r.conditions.sources.get(k).cloned().flatten())
+            })
+            .collect();
         Forecast {
             time_zone: tz,
             stretches: per_run.swap_remove(0),
