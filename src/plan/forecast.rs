@@ -137,28 +137,45 @@ pub struct PortRoutes {
     /// Per stretch: the way by sea, `None` where none was found.
     pub routes: Vec<Option<Arc<SeaRoute>>>,
     /// Per stretch, per hour of [`Forecast::timeline`]: the strongest wind on the way
-    /// and at the stretch, knots; `None` where part of the way has no forecast.
-    pub max_wind_kt: Vec<Arc<[Option<f64>]>>,
+    /// and at the stretch, knots; NaN where part of the way has no forecast.
+    pub max_wind_kt: Vec<HourlyValues>,
     /// Per stretch, per hour: the highest significant waves on the way and at the
-    /// stretch, m; `None` where nothing tells them.
-    pub max_wave_m: Vec<Arc<[Option<f64>]>>,
+    /// stretch, m; NaN where nothing tells them.
+    pub max_wave_m: Vec<HourlyValues>,
     /// Per stretch, per hour: the steepest sea on the way and at the stretch, the
-    /// height over the period squared, m/s^2; `None` where no period is known.
-    pub max_steepness: Vec<Arc<[Option<f64>]>>,
+    /// height over the period squared, m/s^2; NaN where no period is known.
+    pub max_steepness: Vec<HourlyValues>,
     /// Per stretch: where those wave heights come from.
     pub wave_source: Vec<WaveSource>,
 }
 
+/// Values along the hourly timeline, NaN where there is none: 4 bytes an hour, as an
+/// ensemble keeps a set per stretch, port and run.
+pub type HourlyValues = Arc<[f32]>;
+
+/// Hourly values from options (`None` becomes NaN).
+fn hourly_values(v: Vec<Option<f64>>) -> HourlyValues {
+    v.into_iter()
+        .map(|x| x.map_or(f32::NAN, |x| x as f32))
+        .collect()
+}
+
+/// The value of an hour, `None` past the end or where it is NaN.
+#[must_use]
+pub fn hourly_at(v: &[f32], k: usize) -> Option<f64> {
+    v.get(k).copied().filter(|x| !x.is_nan()).map(f64::from)
+}
+
 impl PortRoutes {
     /// Lays the hourly values on a longer timeline: `offset` hours after its start,
-    /// `len` hours in all, `None` where this run has no hour.
+    /// `len` hours in all, NaN where this run has no hour.
     fn lay_on(&mut self, offset: usize, len: usize) {
-        let lay = |v: &mut Vec<Arc<[Option<f64>]>>| {
+        let lay = |v: &mut Vec<HourlyValues>| {
             for hours in v.iter_mut() {
                 if offset == 0 && hours.len() == len {
                     continue;
                 }
-                let mut out = vec![None; len];
+                let mut out = vec![f32::NAN; len];
                 for (k, x) in hours.iter().enumerate() {
                     if let Some(slot) = out.get_mut(offset + k) {
                         *slot = *x;
@@ -481,39 +498,45 @@ pub fn sample_forecast_conditions(
     let waves = sample_waves(sources, &anchors, progress)?;
     let (stretch_pieces, stretches): (Vec<Segment>, Vec<StretchForecast>) = cut.into_iter().unzip();
     let n = stretches.len();
-    let mut fetch = FetchCache::new(geometry.land);
-    // One run at a time: its ways' points are summed up in its routes and dropped
-    // before the next run is read, so memory grows with stretches × hours × runs.
-    let mut runs: Vec<(SampledRun, Vec<DateTime<Utc>>)> = Vec::with_capacity(members.len());
-    for member in members {
-        let mut conditions = sample_run(sources, &groups, member.map(|m| (&runs_of, m)), progress)?;
-        let timeline = hourly_timeline(conditions.groups.iter().flatten());
-        let routes = geometry
-            .ports
-            .iter()
-            .enumerate()
-            .map(|(p, &port)| {
-                port_routes(
-                    port,
-                    &stretches,
-                    &layout,
-                    &route_groups[p * n..(p + 1) * n],
-                    (&conditions, &groups, &waves),
-                    (&timeline, &mut fetch),
-                )
-            })
-            .collect();
-        // The stretches' own groups (two per stretch) are laid out first.
-        conditions.groups.truncate(2 * n);
-        runs.push((
-            SampledRun {
-                member,
-                conditions,
-                routes,
+    // Runs are independent: they are read in parallel (one per core, each with its own
+    // fetch tables); each run's ways' points are summed up in its routes and dropped
+    // before the next is read, so memory grows with stretches × hours × runs.
+    let runs: Vec<(SampledRun, Vec<DateTime<Utc>>)> = members
+        .into_par_iter()
+        .map_init(
+            || FetchCache::new(geometry.land),
+            |fetch, member| {
+                let mut conditions =
+                    sample_run(sources, &groups, member.map(|m| (&runs_of, m)), progress)?;
+                let timeline = hourly_timeline(conditions.groups.iter().flatten());
+                let routes = geometry
+                    .ports
+                    .iter()
+                    .enumerate()
+                    .map(|(p, &port)| {
+                        port_routes(
+                            port,
+                            &stretches,
+                            &layout,
+                            &route_groups[p * n..(p + 1) * n],
+                            (&conditions, &groups, &waves),
+                            (&timeline, &mut *fetch),
+                        )
+                    })
+                    .collect();
+                // The stretches' own groups (two per stretch) are laid out first.
+                conditions.groups.truncate(2 * n);
+                Ok((
+                    SampledRun {
+                        member,
+                        conditions,
+                        routes,
+                    },
+                    timeline,
+                ))
             },
-            timeline,
-        ));
-    }
+        )
+        .collect::<Result<_, WindError>>()?;
     if runs
         .iter()
         .all(|(r, _)| r.conditions.groups.iter().all(Option::is_none))
@@ -554,6 +577,9 @@ pub fn sample_forecast_conditions(
     })
 }
 
+/// A point's hourly wind and sea, and whether the sea is an estimate.
+type PointHours = (Vec<Option<Wind>>, Vec<Option<super::seastate::SeaAt>>, bool);
+
 /// The ways from one port: distance, land crossed, and the strongest wind on the way
 /// each hour.
 fn port_routes(
@@ -573,6 +599,10 @@ fn port_routes(
         max_steepness: Vec::with_capacity(stretches.len()),
         wave_source: Vec::with_capacity(stretches.len()),
     };
+    // The ways to neighbouring stretches share their first legs, and so the points on
+    // them: each point's hourly wind and sea is worked out once (keyed by its position).
+    let mut seen: std::collections::HashMap<(u64, u64), Arc<PointHours>> =
+        std::collections::HashMap::new();
     for ((s, l), (first, n, route)) in stretches.iter().zip(layout).zip(route_groups) {
         let (first, n) = (*first, *n);
         out.distance_nm.push(
@@ -581,62 +611,70 @@ fn port_routes(
                 .map_or_else(|| distance_m(port, s.centre), |r| r.length_m)
                 / NAUTICAL_MILE_M,
         );
-        let way: Vec<Option<&GroupWind>> = conditions.groups[first..first + n]
-            .iter()
-            .map(Option::as_ref)
-            .collect();
         out.routes.push(route.clone());
         let centre = conditions.groups[l.pieces].as_ref();
-        let max: Vec<Option<f64>> = timeline
+        // Each point of the way and the stretch's centre: its hourly wind, and its
+        // waves: forecast where a wave file covers the point, else (`None` here) the
+        // wind sea estimated there.
+        let mut hours_at = |p: LatLon, k: usize, winds: &dyn Fn() -> Vec<Option<Wind>>| {
+            let key = (p.lat_deg.to_bits(), p.lon_deg.to_bits());
+            seen.entry(key)
+                .or_insert_with(|| {
+                    let winds = winds();
+                    let (seas, estimated) = match waves[k].as_ref() {
+                        Some(series) => (
+                            timeline
+                                .iter()
+                                .map(|&t| {
+                                    series
+                                        .wave_at(t, MAX_WIND_GAP_H)
+                                        .map(|w| (w.height_m, w.period_s))
+                                })
+                                .collect(),
+                            false,
+                        ),
+                        None => (fetch.wind_sea_m(p, &winds), true),
+                    };
+                    Arc::new((winds, seas, estimated))
+                })
+                .clone()
+        };
+        let mut points: Vec<Arc<PointHours>> = Vec::with_capacity(n + 1);
+        for (k, (g, group)) in conditions.groups[first..first + n]
             .iter()
-            .map(|&t| {
-                let at_centre = centre.and_then(|g| centre_wind_at(g, t));
-                way.iter()
-                    .map(|g| g.and_then(|g| wind_at(g, 0, t)))
-                    .chain(std::iter::once(at_centre))
-                    .try_fold(0.0_f64, |m, w| {
-                        w.map(|w| m.max(m_s_to_knots(w.speed_m_s())))
-                    })
-            })
-            .collect();
-        out.max_wind_kt.push(max.into());
-        // Waves at each point of the way and at the stretch: forecast where a wave file
-        // covers the point, else the wind sea estimated there; the highest each hour.
-        let mut points: Vec<(LatLon, usize, Vec<Option<Wind>>)> = way
-            .iter()
-            .zip(first..first + n)
-            .filter_map(|(g, k)| {
-                let g = (*g)?;
-                let winds = timeline.iter().map(|&t| wind_at(g, 0, t)).collect();
-                Some((groups[k].anchor, k, winds))
-            })
-            .collect();
-        points.push((
-            s.centre,
-            l.pieces,
+            .zip(&groups[first..first + n])
+            .enumerate()
+        {
+            if let Some(g) = g.as_ref() {
+                let hours = hours_at(group.anchor, first + k, &|| {
+                    timeline.iter().map(|&t| wind_at(g, 0, t)).collect()
+                });
+                points.push(hours);
+            }
+        }
+        // A point of the way without wind leaves the whole way without a forecast.
+        let way_complete = points.len() == n;
+        let centre_hours = hours_at(s.centre, l.pieces, &|| {
             timeline
                 .iter()
                 .map(|&t| centre.and_then(|g| centre_wind_at(g, t)))
-                .collect(),
-        ));
-        let mut estimated = false;
-        let seas: Vec<Vec<Option<super::seastate::SeaAt>>> = points
-            .iter()
-            .map(|(p, k, winds)| match &waves[*k] {
-                Some(series) => timeline
-                    .iter()
-                    .map(|&t| {
-                        series
-                            .wave_at(t, MAX_WIND_GAP_H)
-                            .map(|w| (w.height_m, w.period_s))
-                    })
-                    .collect(),
-                None => {
-                    estimated = true;
-                    fetch.wind_sea_m(*p, winds)
+                .collect()
+        });
+        points.push(centre_hours);
+        let max: Vec<Option<f64>> = (0..timeline.len())
+            .map(|h| {
+                if !way_complete {
+                    return None;
                 }
+                points.iter().try_fold(0.0_f64, |m, p| {
+                    p.0[h].map(|w| m.max(m_s_to_knots(w.speed_m_s())))
+                })
             })
             .collect();
+        out.max_wind_kt.push(hourly_values(max));
+        let estimated = points.iter().any(|p| p.2);
+        let seas: Vec<&[Option<super::seastate::SeaAt>]> =
+            points.iter().map(|p| p.1.as_slice()).collect();
         let highest: Vec<Option<f64>> = (0..timeline.len())
             .map(|k| {
                 seas.iter()
@@ -651,8 +689,8 @@ fn port_routes(
                     .reduce(f64::max)
             })
             .collect();
-        out.max_wave_m.push(highest.into());
-        out.max_steepness.push(steepest.into());
+        out.max_wave_m.push(hourly_values(highest));
+        out.max_steepness.push(hourly_values(steepest));
         out.wave_source.push(if estimated {
             WaveSource::Estimate
         } else {

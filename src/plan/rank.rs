@@ -32,11 +32,11 @@ pub struct StretchInfo {
     pub route: Option<Arc<crate::coast::SeaRoute>>,
     /// Per hour of the forecast timeline, the strongest wind on the way and at the
     /// stretch, knots.
-    route_max_wind_kt: Arc<[Option<f64>]>,
+    route_max_wind_kt: super::forecast::HourlyValues,
     /// Per hour, the highest waves on the way and at the stretch, m.
-    route_max_wave_m: Arc<[Option<f64>]>,
+    route_max_wave_m: super::forecast::HourlyValues,
     /// Per hour, the steepest sea on the way and at the stretch, m/s^2.
-    route_max_steepness: Arc<[Option<f64>]>,
+    route_max_steepness: super::forecast::HourlyValues,
     /// Where those wave heights come from.
     pub wave_source: WaveSource,
     timeline_start: Option<DateTime<Utc>>,
@@ -59,7 +59,7 @@ impl StretchInfo {
     #[must_use]
     pub fn route_wind_kt(&self, t: DateTime<Utc>) -> Option<f64> {
         let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
-        self.route_max_wind_kt.get(k).copied().flatten()
+        super::forecast::hourly_at(&self.route_max_wind_kt, k)
     }
 
     /// The steepest sea on the way from port and at the stretch at hour `t`, the height
@@ -67,14 +67,14 @@ impl StretchInfo {
     #[must_use]
     pub fn route_steepness_m_s2(&self, t: DateTime<Utc>) -> Option<f64> {
         let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
-        self.route_max_steepness.get(k).copied().flatten()
+        super::forecast::hourly_at(&self.route_max_steepness, k)
     }
 
     /// The highest waves on the way from port and at the stretch at hour `t`, m.
     #[must_use]
     pub fn route_wave_m(&self, t: DateTime<Utc>) -> Option<f64> {
         let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
-        self.route_max_wave_m.get(k).copied().flatten()
+        super::forecast::hourly_at(&self.route_max_wave_m, k)
     }
 }
 

@@ -77,6 +77,22 @@ pub enum Parameter {
 /// Encodes one field as a GRIB2 message (regular lat/lon grid, simple packing).
 #[must_use]
 pub fn encode_message(field: &GridField<'_>, what: Parameter) -> Vec<u8> {
+    encode(field, what, None)
+}
+
+/// Encodes one field of an ensemble member (product template 4.1): `member` is the type
+/// of ensemble forecast (WMO Code Table 4.6), the perturbation number and the number of
+/// forecasts in the ensemble.
+#[must_use]
+pub fn encode_member_message(
+    field: &GridField<'_>,
+    what: Parameter,
+    member: (u8, u8, u8),
+) -> Vec<u8> {
+    encode(field, what, Some(member))
+}
+
+fn encode(field: &GridField<'_>, what: Parameter, member: Option<(u8, u8, u8)>) -> Vec<u8> {
     let (discipline, category, number) = match what {
         Parameter::Wind10m => (0u8, 2u8, field.parameter),
         Parameter::WaveHeight => (10, 0, 3),
@@ -121,7 +137,7 @@ pub fn encode_message(field: &GridField<'_>, what: Parameter) -> Vec<u8> {
 
     let mut s4 = Vec::new();
     s4.extend_from_slice(&0u16.to_be_bytes()); // no vertical coordinates
-    s4.extend_from_slice(&0u16.to_be_bytes()); // template 4.0
+    s4.extend_from_slice(&u16::from(member.is_some()).to_be_bytes()); // template 4.0 or 4.1
     s4.extend_from_slice(&[category, number, 2, 0, 255]); // category, number, forecast
     s4.extend_from_slice(&0u16.to_be_bytes());
     s4.extend_from_slice(&[0, 1]); // cut-off minutes, unit: hour
@@ -137,6 +153,9 @@ pub fn encode_message(field: &GridField<'_>, what: Parameter) -> Vec<u8> {
         }
     }
     s4.extend_from_slice(&[255, 0, 0, 0, 0, 0]); // no second surface
+    if let Some((kind, number, size)) = member {
+        s4.extend_from_slice(&[kind, number, size]);
+    }
 
     let scale = 10f64.powi(i32::from(DECIMAL_SCALE));
     let scaled: Vec<f64> = field

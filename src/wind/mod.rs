@@ -38,7 +38,9 @@ pub use grib2::{
     sample_grib2_members, sample_grib2_members_with, sample_grib2_with,
 };
 pub use grib2_grid::{GribGrid, NEAREST_CELLS, Weights};
-pub use grib2_writer::{GridField, Parameter, encode_message, encode_wind_message};
+pub use grib2_writer::{
+    GridField, Parameter, encode_member_message, encode_message, encode_wind_message,
+};
 pub use inspect::{FileSummary, TimeSpan, grib2_wind_grids, inspect_file, inspect_grib2};
 pub use projection::{Earth, Projection, RotatedPole, gaussian_latitudes, grid_to_earth};
 pub use waves::{
