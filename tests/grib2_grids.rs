@@ -563,7 +563,9 @@ fn inspect_tells_real_files_apart() {
     };
     let member = run("real/ncep_ensemble_member_msl.grib2");
     assert!(
-        member.contains("Field: one ensemble member: read as a single forecast"),
+        // grib_ls (ecCodes 2.28): typeOfEnsembleForecast 3, perturbationNumber 5,
+        // numberOfForecastsInEnsemble 10.
+        member.contains("Field: one ensemble member (a positively perturbed member, perturbation number 5, of 10 in the ensemble): read as a single forecast"),
         "{member}"
     );
     let waves = run("real/nws_mercator_wind_waves.grib2");

@@ -476,8 +476,20 @@ pub fn inspect_grib2(reader: impl Read) -> Result<FileSummary, WindFileError> {
     if waves {
         uses.push("wave height and period (sea state)".into());
     }
-    if inv.members.len() == 1 {
-        fields_extra.push("one ensemble member: read as a single forecast".to_string());
+    if let (1, Some(&(kind, number))) = (inv.members.len(), inv.members.iter().next()) {
+        let what = match kind {
+            0 | 1 => "the control run",
+            2 => "a negatively perturbed member",
+            3 => "a positively perturbed member",
+            4 => "a multi-model member",
+            _ => "a member",
+        };
+        fields_extra.push(format!(
+            "one ensemble member ({what}, perturbation number {number}{}): read as a single forecast",
+            inv.ensemble_size
+                .map(|n| format!(", of {n} in the ensemble"))
+                .unwrap_or_default()
+        ));
     }
     if inv.members.len() > 1 {
         let controls = inv.members.iter().filter(|m| m.0 <= 1).count();
