@@ -58,6 +58,8 @@ pub enum Command {
     /// Cut a coast pack (detailed land for one region) from a GeoJSON, ESRI Shapefile
     /// or GSHHG file, for `--land` of `index` and `plan`.
     CoastPack(CoastPackArgs),
+    /// Check the upwelling computed from the wind against measured sea temperature.
+    Verify(crate::verify::VerifyArgs),
 }
 
 /// Arguments of `shelfwind coast-pack`.
@@ -688,6 +690,12 @@ pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
             source,
         })?;
     write_output(args.out.as_deref(), &bytes)
+}
+
+/// Writes to a file atomically, or to standard output (for the other commands'
+/// modules).
+pub fn write_output_pub(out: Option<&Path>, bytes: &[u8]) -> Result<(), CliError> {
+    write_output(out, bytes)
 }
 
 /// Writes to a file atomically, or to standard output.

@@ -28,7 +28,9 @@ pub mod physics;
 pub mod plan;
 pub mod progress;
 pub mod scenario;
+pub mod sst;
 #[cfg(feature = "gui")]
 pub mod tilepack;
 pub mod upwelling;
+pub mod verify;
 pub mod wind;

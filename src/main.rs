@@ -34,6 +34,7 @@ fn main() -> ExitCode {
         Some(Command::Demo(args)) => run_demo(args),
         Some(Command::Inspect { file }) => run_inspect(file),
         Some(Command::CoastPack(args)) => run_coast_pack(args),
+        Some(Command::Verify(args)) => shelfwind::verify::run_verify(args),
         None => run_app(None),
     };
     match result {

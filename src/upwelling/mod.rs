@@ -1,6 +1,7 @@
 //! From wind at the coast to the coastal upwelling index, its events and seasons, and
 //! the lagged biological response.
 
+mod check;
 mod daily;
 mod events;
 mod index;
@@ -8,6 +9,10 @@ mod response;
 mod season;
 mod seasons;
 
+pub use check::{
+    BestLag, CheckSettings, EventCheck, LagCorrelation, SegmentCheck, anomalies, check_segment,
+    daily_means, fisher_interval, pearson,
+};
 pub use daily::{EventPhase, HourlySeries, UpwellingDay, daily_upwelling};
 pub use events::{EventSettings, UpwellingEvent, cumulative, detect_events};
 pub use index::{IndexSeries, IndexSettings, UpwellingError, index_series};

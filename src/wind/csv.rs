@@ -119,7 +119,7 @@ fn err(line: u64, problem: impl Into<String>) -> WindFileError {
 
 /// Parses a time with a UTC offset; times without an offset are refused, since guessing
 /// the zone could shift a whole forecast by hours.
-fn parse_time(s: &str) -> Result<DateTime<Utc>, String> {
+pub(crate) fn parse_time(s: &str) -> Result<DateTime<Utc>, String> {
     let t = s.trim();
     let mut candidates = vec![t.to_string()];
     if t.len() > 10 && t.as_bytes()[10] == b' ' {

@@ -27,6 +27,7 @@ pub use conditions::{
     SourceSpan, check_source, forecast_runs, groups_fingerprint, sample_conditions, sample_merged,
     sample_run, sample_waves,
 };
+pub(crate) use csv::parse_time;
 pub use csv::read_csv_series;
 pub use demo::{
     DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_PAST_HOURS,

@@ -1,0 +1,243 @@
+//! `shelfwind verify`: the upwelling the tool computed for each segment against the sea
+//! temperature measured near it ([`crate::upwelling::check_segment`]).
+
+use crate::cli::{CliError, load_coast, write_output_pub};
+use crate::coast::{LatLon, distance_m};
+use crate::progress::Progress;
+use crate::sst::{SstSeries, read_sst_file};
+use crate::upwelling::{
+    CheckSettings, SegmentCheck, check_segment, daily_means, detect_events, index_series,
+};
+use crate::wind::{assign_wind_merged, load_sources};
+use clap::ValueEnum;
+use serde_json::{Value, json};
+use std::fmt::Write as _;
+use std::path::PathBuf;
+
+/// Output format of `verify`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, ValueEnum)]
+pub enum VerifyFormatArg {
+    /// Readable in a terminal.
+    Table,
+    /// One row per segment.
+    Csv,
+    /// Every number, with the correlation at each lag and each event.
+    Json,
+}
+
+/// Arguments of `shelfwind verify`.
+#[derive(Debug, clap::Args)]
+pub struct VerifyArgs {
+    /// The scenario (or a GeoJSON coast).
+    pub scenario: PathBuf,
+    /// Sea-temperature files: CSV series or NMEA 0183 logs; repeat for several.
+    #[arg(long, value_name = "FILE", num_args = 1.., required = true)]
+    pub sst: Vec<PathBuf>,
+    /// Wind files of the same period (joined in time); default: the scenario's.
+    #[arg(long, value_name = "FILE", num_args = 1..)]
+    pub wind: Vec<PathBuf>,
+    /// Numbers that mark a missing temperature in the files, comma-separated (e.g.
+    /// 99,999).
+    #[arg(long, value_name = "LIST", value_delimiter = ',')]
+    pub sst_missing: Vec<f64>,
+    /// Cooling that confirms an event, °C.
+    #[arg(long, default_value_t = 0.5)]
+    pub cooling_c: f64,
+    /// Output format.
+    #[arg(long, value_enum, default_value_t = VerifyFormatArg::Table)]
+    pub format: VerifyFormatArg,
+    /// Output file (written whole or not at all); standard output when absent.
+    #[arg(long, value_name = "FILE")]
+    pub out: Option<PathBuf>,
+}
+
+/// One segment's check, with its id.
+pub struct Verified {
+    /// Segment id.
+    pub segment_id: String,
+    /// The check.
+    pub check: SegmentCheck,
+}
+
+/// The series a segment takes, by the wind's rule: in the order given, the first that
+/// has no position (it applies everywhere) or is the nearest of the positioned ones.
+fn series_for(all: &[SstSeries], at: LatLon) -> Option<&SstSeries> {
+    let nearest = all
+        .iter()
+        .enumerate()
+        .filter_map(|(k, s)| s.position.map(|p| (k, distance_m(p, at))))
+        .min_by(|a, b| a.1.total_cmp(&b.1))
+        .map(|(k, _)| k);
+    all.iter()
+        .enumerate()
+        .find(|(k, s)| s.position.is_none() || Some(*k) == nearest)
+        .map(|(_, s)| s)
+}
+
+/// `shelfwind verify`.
+pub fn run_verify(args: &VerifyArgs) -> Result<(), CliError> {
+    if !(args.cooling_c.is_finite() && args.cooling_c > 0.0 && args.cooling_c <= 10.0) {
+        return Err(CliError::App(format!(
+            "--cooling-c {} is out of range: expected more than 0 and at most 10 °C",
+            args.cooling_c
+        )));
+    }
+    let coast = load_coast(&args.scenario, None)?;
+    let wind_paths: Vec<PathBuf> = if args.wind.is_empty() {
+        coast
+            .scenario
+            .as_ref()
+            .map(|s| s.wind_files.iter().map(|f| coast.dir.join(f)).collect())
+            .unwrap_or_default()
+    } else {
+        args.wind.clone()
+    };
+    let sources = load_sources(&wind_paths)?;
+    let settings = coast
+        .scenario
+        .as_ref()
+        .map(|s| s.settings.clone())
+        .unwrap_or_default();
+    let mut sst: Vec<SstSeries> = Vec::new();
+    for p in &args.sst {
+        let (series, warning) = read_sst_file(p, &args.sst_missing).map_err(CliError::App)?;
+        if let Some(w) = warning {
+            eprintln!("shelfwind: warning: {w}");
+        }
+        sst.push(series);
+    }
+    let winds = assign_wind_merged(&sources, &coast.segments, &Progress::new())?;
+    let check = CheckSettings {
+        cooling_c: args.cooling_c,
+        ..CheckSettings::default()
+    };
+    let mut out = Vec::new();
+    for (seg, wind) in coast.segments.iter().zip(&winds) {
+        let series = index_series(seg, wind, &settings.index)?;
+        let events = detect_events(&series.times, &series.index_m3s_per_100m, &settings.events);
+        let temp = series_for(&sst, seg.weighted_midpoint())
+            .map(|s| daily_means(&s.times, &s.temps_c))
+            .unwrap_or_default();
+        out.push(Verified {
+            segment_id: seg.id.clone(),
+            check: check_segment(
+                (&series.times, &series.index_m3s_per_100m),
+                &events,
+                &temp,
+                &check,
+            ),
+        });
+    }
+    out.sort_by(|a, b| a.segment_id.cmp(&b.segment_id));
+    let text = match args.format {
+        VerifyFormatArg::Table => table(&out, &check),
+        VerifyFormatArg::Csv => csv(&out),
+        VerifyFormatArg::Json => {
+            serde_json::to_string_pretty(&json_of(&out, &check)).unwrap_or_default() + "\n"
+        }
+    };
+    write_output_pub(args.out.as_deref(), text.as_bytes())
+}
+
+fn r3(x: f64) -> f64 {
+    (x * 1000.0).round() / 1000.0
+}
+
+fn opt(x: Option<f64>) -> String {
+    x.map(|v| format!("{}", r3(v))).unwrap_or_default()
+}
+
+/// CSV: `segment_id,days,best_lag_days,r_at_best_lag,r_lag0,events,events_confirmed`.
+#[must_use]
+pub fn csv(out: &[Verified]) -> String {
+    let mut s = String::from(
+        "segment_id,days,best_lag_days,r_at_best_lag,r_lag0,events,events_confirmed\n",
+    );
+    for v in out {
+        let c = &v.check;
+        let (told, confirmed) = c.hits();
+        let _ = writeln!(
+            s,
+            "{},{},{},{},{},{told},{confirmed}",
+            v.segment_id,
+            c.days,
+            c.best.map(|b| b.lag_days.to_string()).unwrap_or_default(),
+            opt(c.best.map(|b| b.r)),
+            opt(c.by_lag.first().and_then(|l| l.r)),
+        );
+    }
+    s
+}
+
+/// The check of one segment in a sentence.
+#[must_use]
+pub fn summary(c: &SegmentCheck, settings: &CheckSettings) -> String {
+    let (told, confirmed) = c.hits();
+    let events = if told == 0 {
+        "No upwelling event had sea-temperature data around it".to_string()
+    } else {
+        format!(
+            "{confirmed} of {told} upwelling events were followed by cooling of {} °C or more within {} days of their end",
+            settings.cooling_c, settings.days_after_event
+        )
+    };
+    let lag = match c.best {
+        Some(b) if b.interval.1 < 0.0 => format!(
+            "the sea responded best {} day{} after the wind (r = {:.2}, 95 % interval {:.2} to {:.2}, {} days)",
+            b.lag_days,
+            if b.lag_days == 1 { "" } else { "s" },
+            b.r,
+            b.interval.0,
+            b.interval.1,
+            b.pairs
+        ),
+        Some(b) => format!(
+            "no lag shows a clear cooling (most negative r = {:.2} at {} days, 95 % interval {:.2} to {:.2})",
+            b.r, b.lag_days, b.interval.0, b.interval.1
+        ),
+        None => "too few days with both wind and sea temperature to correlate them (fewer than 10)"
+            .to_string(),
+    };
+    format!("{events}; {lag}.")
+}
+
+fn table(out: &[Verified], settings: &CheckSettings) -> String {
+    let mut s = String::from(
+        "Did the sea agree? Upwelling index against the measured sea temperature (an estimate of how often the tool was right on this coast).\n\n",
+    );
+    for v in out {
+        let _ = writeln!(s, "{}: {}", v.segment_id, summary(&v.check, settings));
+    }
+    s
+}
+
+fn json_of(out: &[Verified], settings: &CheckSettings) -> Value {
+    json!({
+        "cooling_c": settings.cooling_c,
+        "segments": out.iter().map(|v| {
+            let c = &v.check;
+            let (told, confirmed) = c.hits();
+            json!({
+                "segment_id": v.segment_id,
+                "days": c.days,
+                "best_lag_days": c.best.map(|b| b.lag_days),
+                "r_at_best_lag": c.best.map(|b| r3(b.r)),
+                "r_at_best_lag_95": c.best.map(|b| [r3(b.interval.0), r3(b.interval.1)]),
+                "r_lag0": c.by_lag.first().and_then(|l| l.r).map(r3),
+                "r_by_lag": c.by_lag.iter().map(|l| l.r.map(r3)).collect::<Vec<_>>(),
+                "pairs_by_lag": c.by_lag.iter().map(|l| l.pairs).collect::<Vec<_>>(),
+                "events": told,
+                "events_confirmed": confirmed,
+                "event_list": c.events.iter().map(|e| json!({
+                    "onset": e.onset.to_string(),
+                    "end": e.end.to_string(),
+                    "before_c": e.before_c.map(r3),
+                    "cooling_c": e.cooling_c.map(r3),
+                    "seen_on": e.seen_on.map(|d| d.to_string()),
+                    "confirmed": e.confirmed,
+                })).collect::<Vec<_>>(),
+                "summary": summary(c, settings),
+            })
+        }).collect::<Vec<_>>(),
+    })
+}
