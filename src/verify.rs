@@ -59,19 +59,102 @@ pub struct Verified {
     pub check: SegmentCheck,
 }
 
-/// The series a segment takes, by the wind's rule: in the order given, the first that
-/// has no position (it applies everywhere) or is the nearest of the positioned ones.
-fn series_for(all: &[SstSeries], at: LatLon) -> Option<&SstSeries> {
+/// Where gridded sea temperature is taken for a segment: this far offshore of its
+/// length-weighted midpoint, along its mean offshore normal, metres.
+pub const PROBE_OFFSHORE_M: f64 = 10_000.0;
+
+/// A sea-temperature file as read: a point series, or a grid sampled at each
+/// segment's probe (`None` where the probe has no sea value at any time).
+enum Source {
+    Point(SstSeries),
+    Grid(Vec<Option<SstSeries>>),
+}
+
+/// The probe of a segment: [`PROBE_OFFSHORE_M`] off its midpoint along the
+/// length-weighted mean of its pieces' offshore bearings.
+#[must_use]
+pub fn probe(seg: &crate::coast::Segment) -> LatLon {
+    let (mut x, mut y) = (0.0, 0.0);
+    for p in seg.pieces() {
+        x += p.length_m * p.offshore_bearing_deg.to_radians().sin();
+        y += p.length_m * p.offshore_bearing_deg.to_radians().cos();
+    }
+    crate::coast::destination(
+        seg.weighted_midpoint(),
+        x.atan2(y).to_degrees().rem_euclid(360.0),
+        PROBE_OFFSHORE_M,
+    )
+}
+
+/// The series segment `k` takes: in the order given, the first source that covers it —
+/// a grid with a sea value at its probe, a point series without a position, or the
+/// nearest of the positioned point series (the wind's rule).
+fn series_for(all: &[Source], k: usize, at: LatLon) -> Option<&SstSeries> {
     let nearest = all
         .iter()
         .enumerate()
-        .filter_map(|(k, s)| s.position.map(|p| (k, distance_m(p, at))))
+        .filter_map(|(i, s)| match s {
+            Source::Point(p) => p.position.map(|p| (i, distance_m(p, at))),
+            Source::Grid(_) => None,
+        })
         .min_by(|a, b| a.1.total_cmp(&b.1))
-        .map(|(k, _)| k);
-    all.iter()
-        .enumerate()
-        .find(|(k, s)| s.position.is_none() || Some(*k) == nearest)
-        .map(|(_, s)| s)
+        .map(|(i, _)| i);
+    all.iter().enumerate().find_map(|(i, s)| match s {
+        Source::Point(p) if p.position.is_none() || Some(i) == nearest => Some(p),
+        Source::Grid(per) => per.get(k).and_then(Option::as_ref),
+        Source::Point(_) => None,
+    })
+}
+
+/// Reads a sea-temperature file: GRIB2 (by its first bytes) sampled at the probes, or
+/// a point series.
+fn read_source(
+    path: &std::path::Path,
+    missing: &[f64],
+    probes: &[LatLon],
+) -> Result<Source, String> {
+    let name = path.display();
+    let mut head = [0u8; 4];
+    let is_grib = std::fs::File::open(path)
+        .and_then(|mut f| std::io::Read::read_exact(&mut f, &mut head))
+        .is_ok()
+        && &head == b"GRIB";
+    if !is_grib {
+        let (series, warning) = read_sst_file(path, missing)?;
+        if let Some(w) = warning {
+            eprintln!("shelfwind: warning: {w}");
+        }
+        return Ok(Source::Point(series));
+    }
+    let file =
+        std::fs::File::open(path).map_err(|e| format!("{name}: cannot read the file: {e}"))?;
+    let samples = crate::wind::sample_sst_grib2(std::io::BufReader::new(file), probes)
+        .map_err(|e| format!("{name}: {e}"))?
+        .ok_or_else(|| {
+            format!(
+                "{name}: no sea temperature in the file: expected water temperature (discipline 10, category 3, number 0) or surface temperature (0, 0, 0) with a land-sea mask"
+            )
+        })?;
+    Ok(Source::Grid(
+        samples
+            .points
+            .into_iter()
+            .map(|temps| {
+                let (times, temps_c): (Vec<_>, Vec<_>) = samples
+                    .times
+                    .iter()
+                    .zip(temps)
+                    .filter(|(_, t)| t.is_finite())
+                    .map(|(a, b)| (*a, b))
+                    .unzip();
+                (!times.is_empty()).then_some(SstSeries {
+                    position: None,
+                    times,
+                    temps_c,
+                })
+            })
+            .collect(),
+    ))
 }
 
 /// `shelfwind verify`.
@@ -98,24 +181,23 @@ pub fn run_verify(args: &VerifyArgs) -> Result<(), CliError> {
         .as_ref()
         .map(|s| s.settings.clone())
         .unwrap_or_default();
-    let mut sst: Vec<SstSeries> = Vec::new();
-    for p in &args.sst {
-        let (series, warning) = read_sst_file(p, &args.sst_missing).map_err(CliError::App)?;
-        if let Some(w) = warning {
-            eprintln!("shelfwind: warning: {w}");
-        }
-        sst.push(series);
-    }
+    let probes: Vec<LatLon> = coast.segments.iter().map(probe).collect();
+    let sst: Vec<Source> = args
+        .sst
+        .iter()
+        .map(|p| read_source(p, &args.sst_missing, &probes))
+        .collect::<Result<_, _>>()
+        .map_err(CliError::App)?;
     let winds = assign_wind_merged(&sources, &coast.segments, &Progress::new())?;
     let check = CheckSettings {
         cooling_c: args.cooling_c,
         ..CheckSettings::default()
     };
     let mut out = Vec::new();
-    for (seg, wind) in coast.segments.iter().zip(&winds) {
+    for (k, (seg, wind)) in coast.segments.iter().zip(&winds).enumerate() {
         let series = index_series(seg, wind, &settings.index)?;
         let events = detect_events(&series.times, &series.index_m3s_per_100m, &settings.events);
-        let temp = series_for(&sst, seg.weighted_midpoint())
+        let temp = series_for(&sst, k, seg.weighted_midpoint())
             .map(|s| daily_means(&s.times, &s.temps_c))
             .unwrap_or_default();
         out.push(Verified {

@@ -4,7 +4,7 @@
 
 use serde_json::Value;
 use std::fmt::Write as _;
-use std::path::Path;
+use std::path::{Path, PathBuf};
 use std::process::Command;
 
 /// A small linear congruential generator (Knuth's MMIX constants): the same numbers on
@@ -214,5 +214,43 @@ fn a_sea_that_ignores_the_wind_shows_no_correlation() {
     assert!(
         err.contains("bad.csv: line 3: sst_c 999 is 999.00 °C, outside"),
         "{err}"
+    );
+}
+
+/// A gridded sea temperature (the ecCodes fixture of `tests/sst_grib.rs`, three daily
+/// fields) is taken 10 km offshore of the segment: three days with both, too few to
+/// correlate (fewer than 10), said so in the table.
+#[test]
+fn a_grib2_sea_temperature_is_read_at_the_probe() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut text = String::from("time,u_ms,v_ms\n");
+    for h in 0..72 {
+        let t = chrono::DateTime::parse_from_rfc3339("2027-06-01T00:00:00Z")
+            .expect("start")
+            .to_utc()
+            + chrono::Duration::hours(h);
+        let _ = writeln!(text, "{},0,-3", t.format("%Y-%m-%dT%H:%M:%SZ"));
+    }
+    let wind = dir.path().join("wind.csv");
+    std::fs::write(&wind, text).expect("wind");
+    let sst = PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/fixtures/grib2/sst_water_bitmap.grib2");
+    let coast = coast(dir.path());
+    let json = verify(&[
+        &coast,
+        "--wind",
+        &wind.display().to_string(),
+        "--sst",
+        &sst.display().to_string(),
+    ]);
+    let s = &json["segments"][0];
+    assert_eq!(s["days"], 3);
+    assert!(s["best_lag_days"].is_null());
+    assert!(
+        s["summary"]
+            .as_str()
+            .expect("summary")
+            .contains("too few days with both wind and sea temperature"),
+        "{s}"
     );
 }

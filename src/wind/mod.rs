@@ -16,6 +16,7 @@ mod grib2_writer;
 mod inspect;
 mod netcdf;
 mod projection;
+mod sst_grib;
 mod waves;
 
 pub use assign::{
@@ -44,6 +45,7 @@ pub use grib2_writer::{
 };
 pub use inspect::{FileSummary, TimeSpan, grib2_wind_grids, inspect_file, inspect_grib2};
 pub use projection::{Earth, Projection, RotatedPole, gaussian_latitudes, grid_to_earth};
+pub use sst_grib::{SstSamples, sample_sst_grib2};
 pub use waves::{
     Grib2Contents, Wave, WaveSamples, grib2_contents, sample_waves_grib2, sample_waves_grib2_sized,
 };
