@@ -114,12 +114,24 @@ fn read_source(
     probes: &[LatLon],
 ) -> Result<Source, String> {
     let name = path.display();
-    let mut head = [0u8; 4];
-    let is_grib = std::fs::File::open(path)
-        .and_then(|mut f| std::io::Read::read_exact(&mut f, &mut head))
-        .is_ok()
-        && &head == b"GRIB";
-    if !is_grib {
+    let mut head = [0u8; 8];
+    let read = std::fs::File::open(path)
+        .and_then(|mut f| std::io::Read::read(&mut f, &mut head))
+        .unwrap_or(0);
+    let head = &head[..read];
+    if crate::wind::is_netcdf(head) {
+        let at: Vec<(f64, f64)> = probes.iter().map(|p| (p.lat_deg, p.lon_deg)).collect();
+        let samples =
+            crate::wind::sample_netcdf_sst(path, &at).map_err(|e| format!("{name}: {e}"))?;
+        return Ok(Source::Grid(
+            samples
+                .points
+                .into_iter()
+                .map(|temps| series_of(&samples.times, temps))
+                .collect(),
+        ));
+    }
+    if !head.starts_with(b"GRIB") {
         let (series, warning) = read_sst_file(path, missing)?;
         if let Some(w) = warning {
             eprintln!("shelfwind: warning: {w}");
@@ -139,22 +151,25 @@ fn read_source(
         samples
             .points
             .into_iter()
-            .map(|temps| {
-                let (times, temps_c): (Vec<_>, Vec<_>) = samples
-                    .times
-                    .iter()
-                    .zip(temps)
-                    .filter(|(_, t)| t.is_finite())
-                    .map(|(a, b)| (*a, b))
-                    .unzip();
-                (!times.is_empty()).then_some(SstSeries {
-                    position: None,
-                    times,
-                    temps_c,
-                })
-            })
+            .map(|temps| series_of(&samples.times, temps))
             .collect(),
     ))
+}
+
+/// A probe's series from a grid's times and its values there (NaN: no sea value),
+/// `None` when it has no value at all.
+fn series_of(times: &[chrono::DateTime<chrono::Utc>], temps: Vec<f64>) -> Option<SstSeries> {
+    let (times, temps_c): (Vec<_>, Vec<_>) = times
+        .iter()
+        .zip(temps)
+        .filter(|(_, t)| t.is_finite())
+        .map(|(a, b)| (*a, b))
+        .unzip();
+    (!times.is_empty()).then_some(SstSeries {
+        position: None,
+        times,
+        temps_c,
+    })
 }
 
 /// `shelfwind verify`.

@@ -44,6 +44,7 @@ pub use grib2_writer::{
     GridField, Parameter, encode_member_message, encode_message, encode_wind_message,
 };
 pub use inspect::{FileSummary, TimeSpan, grib2_wind_grids, inspect_file, inspect_grib2};
+pub use netcdf::{is_netcdf, sample_netcdf_sst};
 pub use projection::{Earth, Projection, RotatedPole, gaussian_latitudes, grid_to_earth};
 pub use sst_grib::{SstSamples, sample_sst_grib2};
 pub use waves::{

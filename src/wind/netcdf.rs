@@ -648,6 +648,18 @@ fn vertical(file: &NcFile, coord: &NcVariable) -> Result<Option<f64>, String> {
 
 fn fit<'f>(file: &NcFile, vars: &'f [NcVariable], var: &'f NcVariable) -> Result<Fit<'f>, String> {
     let matched = wind_match(var).ok_or_else(|| format!("{} is not a wind variable", var.name))?;
+    fit_as(file, vars, var, matched, Some(10.0))
+}
+
+/// Fits a variable's dimensions to time, latitude and longitude (and dimensions of size
+/// 1); `height_m`: the height it must be at, where it says.
+fn fit_as<'f>(
+    file: &NcFile,
+    vars: &'f [NcVariable],
+    var: &'f NcVariable,
+    matched: Match,
+    wanted_height_m: Option<f64>,
+) -> Result<Fit<'f>, String> {
     let mut roles = Vec::with_capacity(var.dimensions.len());
     let (mut time, mut lat, mut lon) = (None, None, None);
     let mut height_m = None;
@@ -728,10 +740,10 @@ fn fit<'f>(file: &NcFile, vars: &'f [NcVariable], var: &'f NcVariable) -> Result
             }
         ));
     };
-    if let Some(h) = height_m
-        && (h - 10.0).abs() > 0.5
+    if let (Some(h), Some(wanted)) = (height_m, wanted_height_m)
+        && (h - wanted).abs() > 0.5
     {
-        return Err(format!("{} is at {h} m, not at 10 m", var.name));
+        return Err(format!("{} is at {h} m, not at {wanted} m", var.name));
     }
     Ok(Fit {
         var,
@@ -741,6 +753,136 @@ fn fit<'f>(file: &NcFile, vars: &'f [NcVariable], var: &'f NcVariable) -> Result
         lat,
         lon,
         height_m,
+    })
+}
+
+// ------------------------------------------------------------------ sea temperature
+
+const SST_STANDARD_NAMES: [&str; 3] = [
+    "sea_surface_temperature",
+    "sea_surface_foundation_temperature",
+    "sea_surface_subskin_temperature",
+];
+const SST_NAMES: [&str; 2] = ["sst", "analysed_sst"];
+
+/// Sea temperature of a NetCDF-CF file at points: the first variable with a sea-surface
+/// temperature `standard_name` (or named `sst` or `analysed_sst`, any case) on time,
+/// latitude and longitude; kelvin or °C by its `units`; packing and fill values applied.
+/// Each point is bilinear in the grid cell around it over the corners that have a value
+/// (land is a fill value: the weights of the sea corners are renormalised); NaN where no
+/// corner has one.
+pub fn sample_netcdf_sst(path: &Path, points: &[(f64, f64)]) -> Result<super::SstSamples, String> {
+    let file = open(path)?;
+    let vars = file
+        .variables()
+        .map_err(|e| format!("cannot read the variables: {e}"))?;
+    let is_sst = |v: &&NcVariable| {
+        let std = lower_attr(v, "standard_name");
+        std.as_deref()
+            .is_some_and(|s| SST_STANDARD_NAMES.contains(&s))
+            || SST_NAMES.contains(&v.name.to_ascii_lowercase().as_str())
+    };
+    let matched = Match {
+        component: Component::U,
+        by_name: true,
+        by_standard_name: true,
+    };
+    let mut rejected = Vec::new();
+    let mut found = None;
+    for var in vars.iter().filter(is_sst) {
+        match fit_as(&file, vars, var, matched, None) {
+            Ok(f) => {
+                found = Some(f);
+                break;
+            }
+            Err(e) => rejected.push(e),
+        }
+    }
+    let Some(f) = found else {
+        let why = if rejected.is_empty() {
+            String::new()
+        } else {
+            format!(" ({})", rejected.join("; "))
+        };
+        return Err(format!(
+            "no sea surface temperature in the file{why}: expected a variable with standard_name {} or named sst or analysed_sst; the file has: {}",
+            SST_STANDARD_NAMES.join(", "),
+            list_variables(vars)
+        ));
+    };
+    let units = text_attr(f.var, "units").unwrap_or_default();
+    let offset = match units.trim().to_ascii_lowercase().replace(' ', "_").as_str() {
+        "k" | "kelvin" | "kelvins" | "degree_kelvin" | "degrees_kelvin" => 273.15,
+        "degc" | "degreec" | "degreesc" | "degree_c" | "degrees_c" | "deg_c" | "c" | "celsius"
+        | "degree_celsius" | "degrees_celsius" | "°c" => 0.0,
+        _ => {
+            return Err(format!(
+                "{} has units \"{units}\": expected kelvin (K) or degrees Celsius (degC)",
+                f.var.name
+            ));
+        }
+    };
+    let times = read_times(&file, f.time)?;
+    let lat = Axis::new(&read_axis(&file, f.lat, "latitude")?, &f.lat.name)?;
+    let lon = LonAxis::new(&read_axis(&file, f.lon, "longitude")?, &f.lon.name)?;
+    let (Some(&first_time), Some(&last_time)) = (times.first(), times.last()) else {
+        return Err(format!("the time axis {} has no steps", f.time.name));
+    };
+    let grid = NetcdfWindGrid {
+        u_variable: f.var.name.clone(),
+        v_variable: f.var.name.clone(),
+        units,
+        time_variable: f.time.name.clone(),
+        latitude_variable: f.lat.name.clone(),
+        longitude_variable: f.lon.name.clone(),
+        n_lat: lat.values.len(),
+        n_lon: lon.axis.values.len(),
+        lat_range: (lat.first(), lat.last()),
+        lon_range: lon.range,
+        global: lon.wraps || lon.covers_all,
+        n_times: times.len(),
+        first_time,
+        last_time,
+        step: None,
+        notes: Vec::new(),
+    };
+    let source = || Source {
+        var: f.var,
+        decode: Decoder::new(f.var, 1.0),
+    };
+    let layout = Layout {
+        u: source(),
+        v: source(),
+        roles: f.roles.clone(),
+        lat,
+        lon,
+        times,
+        grid,
+    };
+    let stencils: Vec<Option<Stencil>> = points
+        .iter()
+        .map(|&(lat, lon)| layout.stencil(lat, lon))
+        .collect();
+    let mut out = vec![Vec::with_capacity(layout.times.len()); points.len()];
+    let block = Block::around(&stencils);
+    for t in 0..layout.times.len() {
+        let values = match &block {
+            Some(b) => Some((b, layout.read_block(&file, &layout.u, t, b)?)),
+            None => None,
+        };
+        for (stencil, series) in stencils.iter().zip(out.iter_mut()) {
+            let value = match (stencil, &values) {
+                (Some(s), Some((b, v))) => {
+                    interpolate(s, b, v, v).map_or(f64::NAN, |x| x.0 - offset)
+                }
+                _ => f64::NAN,
+            };
+            series.push(value);
+        }
+    }
+    Ok(super::SstSamples {
+        times: layout.times,
+        points: out,
     })
 }
 
