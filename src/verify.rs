@@ -40,9 +40,13 @@ pub struct VerifyArgs {
     /// 99,999).
     #[arg(long, value_name = "LIST", value_delimiter = ',')]
     pub sst_missing: Vec<f64>,
-    /// Cooling that confirms an event, °C.
-    #[arg(long, default_value_t = 0.5)]
-    pub cooling_c: f64,
+    /// Cooling that confirms an event, °C [default: the scenario's, else 0.5].
+    #[arg(long)]
+    pub cooling_c: Option<f64>,
+    /// How far offshore a gridded temperature is read, km [default: the scenario's,
+    /// else 10].
+    #[arg(long)]
+    pub probe_km: Option<f64>,
     /// Output format.
     #[arg(long, value_enum, default_value_t = VerifyFormatArg::Table)]
     pub format: VerifyFormatArg,
@@ -59,10 +63,6 @@ pub struct Verified {
     pub check: SegmentCheck,
 }
 
-/// Where gridded sea temperature is taken for a segment: this far offshore of its
-/// length-weighted midpoint, along its mean offshore normal, metres.
-pub const PROBE_OFFSHORE_M: f64 = 10_000.0;
-
 /// A sea-temperature file as read: a point series, or a grid sampled at each
 /// segment's probe (`None` where the probe has no sea value at any time).
 enum Source {
@@ -70,10 +70,10 @@ enum Source {
     Grid(Vec<Option<SstSeries>>),
 }
 
-/// The probe of a segment: [`PROBE_OFFSHORE_M`] off its midpoint along the
-/// length-weighted mean of its pieces' offshore bearings.
+/// The probe of a segment: `offshore_m` off its midpoint along the length-weighted
+/// mean of its pieces' offshore bearings.
 #[must_use]
-pub fn probe(seg: &crate::coast::Segment) -> LatLon {
+pub fn probe(seg: &crate::coast::Segment, offshore_m: f64) -> LatLon {
     let (mut x, mut y) = (0.0, 0.0);
     for p in seg.pieces() {
         x += p.length_m * p.offshore_bearing_deg.to_radians().sin();
@@ -82,7 +82,7 @@ pub fn probe(seg: &crate::coast::Segment) -> LatLon {
     crate::coast::destination(
         seg.weighted_midpoint(),
         x.atan2(y).to_degrees().rem_euclid(360.0),
-        PROBE_OFFSHORE_M,
+        offshore_m,
     )
 }
 
@@ -174,12 +174,6 @@ fn series_of(times: &[chrono::DateTime<chrono::Utc>], temps: Vec<f64>) -> Option
 
 /// `shelfwind verify`.
 pub fn run_verify(args: &VerifyArgs) -> Result<(), CliError> {
-    if !(args.cooling_c.is_finite() && args.cooling_c > 0.0 && args.cooling_c <= 10.0) {
-        return Err(CliError::App(format!(
-            "--cooling-c {} is out of range: expected more than 0 and at most 10 °C",
-            args.cooling_c
-        )));
-    }
     let coast = load_coast(&args.scenario, None)?;
     let wind_paths: Vec<PathBuf> = if args.wind.is_empty() {
         coast
@@ -196,7 +190,24 @@ pub fn run_verify(args: &VerifyArgs) -> Result<(), CliError> {
         .as_ref()
         .map(|s| s.settings.clone())
         .unwrap_or_default();
-    let probes: Vec<LatLon> = coast.segments.iter().map(probe).collect();
+    let sst_check = settings.sst_check;
+    let cooling_c = args.cooling_c.unwrap_or(sst_check.cooling_c);
+    let probe_km = args.probe_km.unwrap_or(sst_check.probe_offshore_km);
+    for (name, value, lo, hi, unit) in [
+        ("--cooling-c", cooling_c, 0.1, 10.0, "°C"),
+        ("--probe-km", probe_km, 1.0, 50.0, "km"),
+    ] {
+        if !(value.is_finite() && (lo..=hi).contains(&value)) {
+            return Err(CliError::App(format!(
+                "{name} {value} is out of range: expected {lo} to {hi} {unit}"
+            )));
+        }
+    }
+    let probes: Vec<LatLon> = coast
+        .segments
+        .iter()
+        .map(|s| probe(s, probe_km * 1000.0))
+        .collect();
     let sst: Vec<Source> = args
         .sst
         .iter()
@@ -205,7 +216,7 @@ pub fn run_verify(args: &VerifyArgs) -> Result<(), CliError> {
         .map_err(CliError::App)?;
     let winds = assign_wind_merged(&sources, &coast.segments, &Progress::new())?;
     let check = CheckSettings {
-        cooling_c: args.cooling_c,
+        cooling_c,
         ..CheckSettings::default()
     };
     let mut out = Vec::new();

@@ -28,6 +28,28 @@ pub struct ModelSettings {
     /// Data needed per day, month and season for season metrics.
     #[serde(default)]
     pub seasons: CoverageSettings,
+    /// The check against measured sea temperature (`shelfwind verify`).
+    #[serde(default)]
+    pub sst_check: SstCheckSettings,
+}
+
+/// Settings of the check against measured sea temperature.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
+#[serde(default)]
+pub struct SstCheckSettings {
+    /// How far offshore of a segment's midpoint a gridded temperature is read, km.
+    pub probe_offshore_km: f64,
+    /// Cooling that confirms an upwelling event, °C.
+    pub cooling_c: f64,
+}
+
+impl Default for SstCheckSettings {
+    fn default() -> Self {
+        Self {
+            probe_offshore_km: 10.0,
+            cooling_c: 0.5,
+        }
+    }
 }
 
 impl Default for ModelSettings {
@@ -39,6 +61,7 @@ impl Default for ModelSettings {
             response: ResponseSettings::default(),
             trip: TripSettings::default(),
             seasons: CoverageSettings::default(),
+            sst_check: SstCheckSettings::default(),
         }
     }
 }
@@ -227,6 +250,16 @@ fn check_settings(s: &ModelSettings) -> Result<(), String> {
     )?;
     check_response(&s.response)?;
     check_events(&s.events)?;
+    let what = "settings.sst_check";
+    check_range(
+        what,
+        "probe_offshore_km",
+        s.sst_check.probe_offshore_km,
+        1.0,
+        50.0,
+        "km",
+    )?;
+    check_range(what, "cooling_c", s.sst_check.cooling_c, 0.1, 10.0, "°C")?;
     s.trip.validate()
 }
 
