@@ -153,6 +153,19 @@ fn a_sea_that_answers_after_two_days_is_found_at_lag_two() {
     );
     assert_eq!(told as usize, count);
     assert_eq!(confirmed, told);
+    // Asking for 8 °C of cooling confirms none: the most a blow can cool the sea here is
+    // 0.05 × (144 − 4) + 0.4 = 7.4 °C.
+    let strict = verify(&[
+        &coast(dir.path()),
+        "--wind",
+        &dir.path().join("wind.csv").display().to_string(),
+        "--sst",
+        &dir.path().join("buoy.csv").display().to_string(),
+        "--cooling-c",
+        "8",
+    ]);
+    assert_eq!(strict["segments"][0]["events_confirmed"], 0);
+    assert_eq!(strict["cooling_c"], 8.0);
 }
 
 /// A sea that ignores the wind: the correlation at lag 0 is near 0 and its interval
