@@ -822,43 +822,9 @@ pub fn sample_netcdf_sst(path: &Path, points: &[(f64, f64)]) -> Result<super::Ss
             ));
         }
     };
-    let times = read_times(&file, f.time)?;
-    let lat = Axis::new(&read_axis(&file, f.lat, "latitude")?, &f.lat.name)?;
-    let lon = LonAxis::new(&read_axis(&file, f.lon, "longitude")?, &f.lon.name)?;
-    let (Some(&first_time), Some(&last_time)) = (times.first(), times.last()) else {
-        return Err(format!("the time axis {} has no steps", f.time.name));
-    };
-    let grid = NetcdfWindGrid {
-        u_variable: f.var.name.clone(),
-        v_variable: f.var.name.clone(),
-        units,
-        time_variable: f.time.name.clone(),
-        latitude_variable: f.lat.name.clone(),
-        longitude_variable: f.lon.name.clone(),
-        n_lat: lat.values.len(),
-        n_lon: lon.axis.values.len(),
-        lat_range: (lat.first(), lat.last()),
-        lon_range: lon.range,
-        global: lon.wraps || lon.covers_all,
-        n_times: times.len(),
-        first_time,
-        last_time,
-        step: None,
-        notes: Vec::new(),
-    };
-    let source = || Source {
-        var: f.var,
-        decode: Decoder::new(f.var, 1.0),
-    };
-    let layout = Layout {
-        u: source(),
-        v: source(),
-        roles: f.roles.clone(),
-        lat,
-        lon,
-        times,
-        grid,
-    };
+    // The temperature is read as both members of the pair (the second is not decoded).
+    let decode = || Decoder::new(f.var, 1.0);
+    let layout = layout_of(&file, (&f, &f), (decode(), decode()), units, Vec::new())?;
     let stencils: Vec<Option<Stencil>> = points
         .iter()
         .map(|&(lat, lon)| layout.stencil(lat, lon))
@@ -961,6 +927,32 @@ fn find_wind(file: &NcFile) -> Result<Layout<'_>, String> {
     let v_units = text_attr(v.var, "units");
     let u_decode = Decoder::new(u.var, speed_factor(u.var, u_units.as_deref(), &mut notes)?);
     let v_decode = Decoder::new(v.var, speed_factor(v.var, v_units.as_deref(), &mut notes)?);
+    if u.height_m.is_none() && !u.matched.by_name {
+        notes.push(format!(
+            "{} has no height coordinate: taken as the 10 m wind",
+            u.var.name
+        ));
+    }
+    let decode = (u_decode, v_decode);
+    layout_of(
+        file,
+        (u, v),
+        decode,
+        u_units.unwrap_or_else(|| "(none)".into()),
+        notes,
+    )
+}
+
+/// The layout of a pair of fitted variables (the wind's u and v, or a sea temperature
+/// twice): their time, latitude and longitude axes read and checked, and their
+/// description.
+fn layout_of<'f>(
+    file: &NcFile,
+    (u, v): (&Fit<'f>, &Fit<'f>),
+    (u_decode, v_decode): (Decoder, Decoder),
+    units: String,
+    notes: Vec<String>,
+) -> Result<Layout<'f>, String> {
     let times = read_times(file, u.time)?;
     let lat = Axis::new(&read_axis(file, u.lat, "latitude")?, &u.lat.name)?;
     let lon = LonAxis::new(&read_axis(file, u.lon, "longitude")?, &u.lon.name)?;
@@ -968,12 +960,6 @@ fn find_wind(file: &NcFile) -> Result<Layout<'_>, String> {
         return Err(format!(
             "the latitudes ({}) go beyond ±90°: expected degrees north",
             u.lat.name
-        ));
-    }
-    if u.height_m.is_none() && !u.matched.by_name {
-        notes.push(format!(
-            "{} has no height coordinate: taken as the 10 m wind",
-            u.var.name
         ));
     }
     let (Some(&first_time), Some(&last_time)) = (times.first(), times.last()) else {
@@ -987,7 +973,7 @@ fn find_wind(file: &NcFile) -> Result<Layout<'_>, String> {
     let grid = NetcdfWindGrid {
         u_variable: u.var.name.clone(),
         v_variable: v.var.name.clone(),
-        units: u_units.unwrap_or_else(|| "(none)".into()),
+        units,
         time_variable: u.time.name.clone(),
         latitude_variable: u.lat.name.clone(),
         longitude_variable: u.lon.name.clone(),
