@@ -407,13 +407,25 @@ impl DayRanker<'_> {
                 }),
             }
         }
+        self.day_plan(date, ranked, excluded, Vec::new())
+    }
+
+    /// A day's plan: the ranked stretches best first (ties to the earlier stretch),
+    /// ties marked.
+    fn day_plan(
+        &self,
+        date: NaiveDate,
+        mut ranked: Vec<RankedStretch>,
+        excluded: Vec<Excluded>,
+        odds: Vec<Option<Odds>>,
+    ) -> DayPlan {
         ranked.sort_by(|x, y| y.score.total_cmp(&x.score).then(x.stretch.cmp(&y.stretch)));
         self.mark_ties(&mut ranked);
         DayPlan {
             date,
             ranked,
             excluded,
-            odds: Vec::new(),
+            odds,
         }
     }
 
@@ -478,14 +490,7 @@ impl DayRanker<'_> {
                 (None, None) => {}
             }
         }
-        ranked.sort_by(|x, y| y.score.total_cmp(&x.score).then(x.stretch.cmp(&y.stretch)));
-        self.mark_ties(&mut ranked);
-        DayPlan {
-            date,
-            ranked,
-            excluded,
-            odds,
-        }
+        self.day_plan(date, ranked, excluded, odds)
     }
 
     /// A tie group is measured from its first member, so that a slow slide of scores
