@@ -692,14 +692,8 @@ pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
     write_output(args.out.as_deref(), &bytes)
 }
 
-/// Writes to a file atomically, or to standard output (for the other commands'
-/// modules).
-pub fn write_output_pub(out: Option<&Path>, bytes: &[u8]) -> Result<(), CliError> {
-    write_output(out, bytes)
-}
-
 /// Writes to a file atomically, or to standard output.
-fn write_output(out: Option<&Path>, bytes: &[u8]) -> Result<(), CliError> {
+pub(crate) fn write_output(out: Option<&Path>, bytes: &[u8]) -> Result<(), CliError> {
     match out {
         Some(path) => write_atomic(path, bytes).map_err(|source| CliError::Output {
             path: path.into(),

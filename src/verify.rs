@@ -1,7 +1,7 @@
 //! `shelfwind verify`: the upwelling the tool computed for each segment against the sea
 //! temperature measured near it ([`crate::upwelling::check_segment`]).
 
-use crate::cli::{CliError, load_coast, write_output_pub};
+use crate::cli::{CliError, load_coast, write_output};
 use crate::coast::{LatLon, distance_m};
 use crate::progress::Progress;
 use crate::sst::{SstSeries, read_sst_file};
@@ -244,7 +244,7 @@ pub fn run_verify(args: &VerifyArgs) -> Result<(), CliError> {
             serde_json::to_string_pretty(&json_of(&out, &check)).unwrap_or_default() + "\n"
         }
     };
-    write_output_pub(args.out.as_deref(), text.as_bytes())
+    write_output(args.out.as_deref(), text.as_bytes())
 }
 
 fn r3(x: f64) -> f64 {

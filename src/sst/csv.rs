@@ -9,6 +9,7 @@
 
 use super::{SST_RANGE_C, SstError, SstSeries};
 use crate::coast::LatLon;
+use crate::wind::find_column as find;
 
 const TIME: &[&str] = &["time", "time_utc", "datetime", "timestamp"];
 const CELSIUS: &[&str] = &["sst_c", "water_temp_c", "wtmp_c"];
@@ -21,10 +22,6 @@ fn err(line: u64, problem: impl Into<String>) -> SstError {
         line,
         problem: problem.into(),
     }
-}
-
-fn find(names: &[String], wanted: &[&str]) -> Option<usize> {
-    names.iter().position(|h| wanted.contains(&h.as_str()))
 }
 
 /// Reads a CSV sea-temperature series (see the module documentation).
@@ -150,14 +147,7 @@ pub fn read_sst_csv(text: &str, missing: &[f64]) -> Result<SstSeries, SstError> 
 }
 
 fn csv_error(e: &::csv::Error) -> SstError {
-    let line = e.position().map_or(0, ::csv::Position::line);
-    let problem = match e.kind() {
-        ::csv::ErrorKind::UnequalLengths {
-            expected_len, len, ..
-        } => format!("expected {expected_len} fields like the header, found {len}"),
-        ::csv::ErrorKind::Utf8 { .. } => "not UTF-8 text".to_string(),
-        _ => e.to_string(),
-    };
+    let (line, problem) = crate::wind::csv_problem(e);
     err(line, problem)
 }
 

@@ -159,7 +159,8 @@ pub(crate) fn parse_time(s: &str) -> Result<DateTime<Utc>, String> {
     }
 }
 
-fn find(headers: &[String], names: &[&str]) -> Option<usize> {
+/// The column of a header (names lower-cased) with one of `names`.
+pub(crate) fn find(headers: &[String], names: &[&str]) -> Option<usize> {
     headers.iter().position(|h| names.contains(&h.as_str()))
 }
 
@@ -498,6 +499,12 @@ pub fn read_csv_series(text: &str) -> Result<PointSeries, WindFileError> {
 }
 
 fn csv_error(e: &csv::Error) -> WindFileError {
+    let (line, problem) = csv_problem(e);
+    err(line, problem)
+}
+
+/// A CSV reader's error as the line it is on and what is wrong, in words.
+pub(crate) fn csv_problem(e: &csv::Error) -> (u64, String) {
     let line = e.position().map_or(0, csv::Position::line);
     let problem = match e.kind() {
         csv::ErrorKind::UnequalLengths {
@@ -508,7 +515,7 @@ fn csv_error(e: &csv::Error) -> WindFileError {
         csv::ErrorKind::Utf8 { .. } => "not UTF-8 text".to_string(),
         _ => e.to_string(),
     };
-    err(line, problem)
+    (line, problem)
 }
 
 #[cfg(test)]

@@ -28,8 +28,8 @@ pub use conditions::{
     SourceSpan, check_source, forecast_runs, groups_fingerprint, sample_conditions, sample_merged,
     sample_run, sample_waves,
 };
-pub(crate) use csv::parse_time;
 pub use csv::read_csv_series;
+pub(crate) use csv::{csv_problem, find as find_column, parse_time};
 pub use demo::{
     DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_PAST_HOURS,
     DEMO_STEP_DEG, demo_forecast_grib2, demo_reference_time, demo_wave_height_m, demo_waves_grib2,
