@@ -6,7 +6,6 @@ use shelfwind::coast::LatLon;
 use shelfwind::wind::{
     inspect_grib2, sample_grib2, sample_grib2_member_with, sample_grib2_members,
 };
-use std::fmt::Write as _;
 use std::path::PathBuf;
 
 fn fixture(name: &str) -> PathBuf {
@@ -115,47 +114,15 @@ fn a_deterministic_forecast_has_no_member() {
 //   all 10 (working hours start at 05).
 // ---------------------------------------------------------------------------------
 
-use shelfwind::coast::{CoastSegment, Land, SeaSide, resolve_segments};
-use shelfwind::plan::{Plan, PlanNote, Port, Vessel};
+#[path = "common/ten_runs.rs"]
+mod ten_runs;
+
+use shelfwind::coast::{Land, resolve_segments};
+use shelfwind::plan::{Plan, PlanNote};
 use shelfwind::progress::Progress;
 use shelfwind::scenario::{PlanChoice, Scenario, plan_scenario};
 use shelfwind::wind::{RunRule, forecast_runs, load_sources};
-
-fn ten_run_scenario(wind: Vec<PathBuf>) -> Scenario {
-    let vessel = |id: &str, limit: f64| Vessel {
-        id: id.into(),
-        name: id.into(),
-        cruise_speed_kt: 20.0,
-        fuel_l_per_h: 20.0,
-        wind_limit_kt: limit,
-        wave_limit_m: None,
-        steepness_limit_m_s2: None,
-        range_nm: 30.0,
-    };
-    Scenario {
-        name: "Ten runs".into(),
-        time_zone: "UTC".into(),
-        segments: vec![CoastSegment {
-            id: "reach".into(),
-            name: "Reach".into(),
-            points: vec![LatLon::new(37.0, -123.0), LatLon::new(37.1, -123.0)],
-            sea: Some(SeaSide::Left),
-            notes: String::new(),
-            closure: None,
-        }],
-        ports: vec![Port {
-            id: "home".into(),
-            name: "Home".into(),
-            position: LatLon::new(37.05, -123.05),
-        }],
-        vessels: vec![vessel("skiff", 20.0), vessel("cutter", 30.0)],
-        wind_files: wind,
-        coast_pack: None,
-        wind_files_are_runs: false,
-        settings: shelfwind::scenario::ModelSettings::default(),
-        notes: String::new(),
-    }
-}
+use ten_runs::{ten_run_scenario, three_centres};
 
 fn plan_for(sc: &Scenario, vessel: &str) -> Plan {
     let segments = resolve_segments(&sc.segments, Land::bundled()).expect("sides");
@@ -316,28 +283,7 @@ fn one_file_per_member_gives_the_same_odds() {
 #[test]
 fn each_file_a_run_when_asked_and_a_single_forecast_otherwise() {
     let dir = tempfile::tempdir().expect("temp dir");
-    let files: Vec<PathBuf> = [12.0, 12.0, 2.0]
-        .iter()
-        .enumerate()
-        .map(|(k, strong)| {
-            let path = dir.path().join(format!("centre_{k}.csv"));
-            let mut text = String::from("time,u_ms,v_ms\n");
-            for h in 0..72 {
-                let t = chrono::DateTime::parse_from_rfc3339("2027-06-01T00:00:00Z")
-                    .expect("time")
-                    .to_utc()
-                    + chrono::Duration::hours(h);
-                let v = if (24..=48).contains(&h) { -strong } else { 0.0 };
-                let _ = writeln!(
-                    text,
-                    "{},0,{v}",
-                    t.to_rfc3339_opts(chrono::SecondsFormat::Secs, true)
-                );
-            }
-            std::fs::write(&path, text).expect("write");
-            path
-        })
-        .collect();
+    let files = three_centres(dir.path());
     let mut sc = ten_run_scenario(files);
     let single = plan_for(&sc, "skiff");
     assert!(single.runs.is_empty());

@@ -4,17 +4,17 @@
 //! The odds are those worked by hand in `tests/ensemble.rs`.
 
 mod common;
+#[path = "common/ten_runs.rs"]
+mod ten_runs;
 
 use common::wait_for_plan;
 use eframe::egui;
 use egui_kittest::Harness;
 use egui_kittest::kittest::Queryable;
 use shelfwind::app::{AppOptions, Colouring, Remembered, ShelfwindApp};
-use shelfwind::coast::{CoastSegment, LatLon, SeaSide};
-use shelfwind::plan::{Port, Vessel};
-use shelfwind::scenario::{Scenario, save_scenario};
-use std::fmt::Write as _;
+use shelfwind::scenario::save_scenario;
 use std::path::{Path, PathBuf};
+use ten_runs::{ten_run_scenario, three_centres};
 
 fn fixture(rel: &str) -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
@@ -22,43 +22,11 @@ fn fixture(rel: &str) -> PathBuf {
         .join(rel)
 }
 
-/// A scenario at 37 N, 123 W (UTC days, a 20 kt skiff) with these wind files, saved in
-/// `dir`.
+/// The constructed scenario (`tests/common/ten_runs.rs`) with these wind files, saved
+/// in `dir`.
 fn scenario_file(dir: &Path, wind: Vec<PathBuf>) -> PathBuf {
-    let sc = Scenario {
-        name: "Ten runs".into(),
-        time_zone: "UTC".into(),
-        segments: vec![CoastSegment {
-            id: "reach".into(),
-            name: "Long Reach".into(),
-            points: vec![LatLon::new(37.0, -123.0), LatLon::new(37.1, -123.0)],
-            sea: Some(SeaSide::Left),
-            notes: String::new(),
-            closure: None,
-        }],
-        ports: vec![Port {
-            id: "home".into(),
-            name: "Home".into(),
-            position: LatLon::new(37.05, -123.05),
-        }],
-        vessels: vec![Vessel {
-            id: "skiff".into(),
-            name: "Skiff".into(),
-            cruise_speed_kt: 20.0,
-            fuel_l_per_h: 20.0,
-            wind_limit_kt: 20.0,
-            wave_limit_m: None,
-            steepness_limit_m_s2: None,
-            range_nm: 30.0,
-        }],
-        wind_files: wind,
-        coast_pack: None,
-        wind_files_are_runs: false,
-        settings: shelfwind::scenario::ModelSettings::default(),
-        notes: String::new(),
-    };
     let path = dir.join("runs.shelfwind.json");
-    save_scenario(&path, &sc).expect("saved");
+    save_scenario(&path, &ten_run_scenario(wind)).expect("saved");
     path
 }
 
@@ -122,30 +90,9 @@ fn the_list_the_map_and_the_plots_show_how_many_runs_agree() {
 #[test]
 fn each_file_is_one_run_when_ticked_and_undo_takes_it_back() {
     let dir = tempfile::tempdir().expect("temp dir");
-    // Three forecasts from "different centres", station series covering every point:
-    // two blow 12 m/s from the north all of 2 June, the third 2 m/s.
-    let files: Vec<PathBuf> = [12.0, 12.0, 2.0]
-        .iter()
-        .enumerate()
-        .map(|(k, strong)| {
-            let path = dir.path().join(format!("centre_{k}.csv"));
-            let mut text = String::from("time,u_ms,v_ms\n");
-            for h in 0..72 {
-                let t = chrono::DateTime::parse_from_rfc3339("2027-06-01T00:00:00Z")
-                    .expect("time")
-                    .to_utc()
-                    + chrono::Duration::hours(h);
-                let v = if (24..=48).contains(&h) { -strong } else { 0.0 };
-                let _ = writeln!(
-                    text,
-                    "{},0,{v}",
-                    t.to_rfc3339_opts(chrono::SecondsFormat::Secs, true)
-                );
-            }
-            std::fs::write(&path, text).expect("write");
-            path
-        })
-        .collect();
+    // Three forecasts from "different centres": two blow 12 m/s from the north all of
+    // 2 June, the third 2 m/s.
+    let files = three_centres(dir.path());
     let path = scenario_file(dir.path(), files);
     let mut harness = open(dir.path(), path);
     harness.get_by_label("Single forecast: no odds");
