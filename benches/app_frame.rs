@@ -2,10 +2,14 @@
 //! frame (outside rendering) with about 2,000 stretches on the map. Run with
 //! `cargo bench --bench app_frame`.
 
+#[path = "common/long_coast.rs"]
+mod long_coast;
+
 use eframe::egui;
 use egui_kittest::Harness;
+use long_coast::long_demo_scenario;
 use shelfwind::app::{AppOptions, ShelfwindApp};
-use shelfwind::scenario::{demo_scenario, save_scenario, write_demo};
+use shelfwind::scenario::{save_scenario, write_demo};
 use std::time::{Duration, Instant};
 
 fn wait(harness: &mut Harness<'static, ShelfwindApp>) -> Duration {
@@ -43,21 +47,8 @@ fn main() {
         plan_ready.as_secs_f64() * 1e3
     );
 
-    // About 2,000 stretches: the demo coast cut into stretches of 0.065 nm.
-    let mut scenario = demo_scenario().expect("demo");
-    scenario.settings.stretch_length_nm = 0.5;
-    scenario.segments = scenario
-        .segments
-        .iter()
-        .flat_map(|s| {
-            // Densify every segment to short pieces so stretches stay short.
-            (0..8).map(move |k| {
-                let mut c = s.clone();
-                c.id = format!("{}-{k}", s.id);
-                c
-            })
-        })
-        .collect();
+    // The demo coast cut into 2,328 stretches (benches/common/long_coast.rs).
+    let scenario = long_demo_scenario();
     let (scenario_path, _) = write_demo(&dir.path().join("big")).expect("demo files");
     save_scenario(&scenario_path, &scenario).expect("save");
     let o = options.clone();

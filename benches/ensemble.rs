@@ -5,13 +5,17 @@
 //! and to rank with the odds, the peak memory, and the same for the control alone.
 //! Run with `cargo bench --bench ensemble`.
 
+#[path = "common/long_coast.rs"]
+mod long_coast;
+
+use long_coast::long_demo_scenario;
 use shelfwind::coast::{Land, resolve_segments};
 use shelfwind::plan::{rank_plan, sample_forecast_conditions};
 use shelfwind::progress::Progress;
-use shelfwind::scenario::{PlanChoice, demo_scenario};
+use shelfwind::scenario::PlanChoice;
 use shelfwind::wind::{
     DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_STEP_DEG, GridField,
-    Parameter, RunRule, demo_reference_time, demo_wind, encode_member_message, load_sources,
+    Parameter, RunRule, demo_reference_time, demo_wind_field, encode_member_message, load_sources,
 };
 use std::path::Path;
 use std::time::Instant;
@@ -43,16 +47,9 @@ fn write_ensemble(path: &Path, members: u8) {
         for m in 0..members {
             let scale = 0.75 + 0.025 * f64::from(m);
             let shift = f64::from(m % 5) - 2.0;
-            let mut u = Vec::with_capacity(DEMO_NI * DEMO_NJ);
-            let mut v = Vec::with_capacity(DEMO_NI * DEMO_NJ);
-            for j in 0..DEMO_NJ {
-                for i in 0..DEMO_NI {
-                    let lat = DEMO_LAT_NORTH_DEG - DEMO_STEP_DEG * j as f64;
-                    let lon = DEMO_LON_WEST_DEG + DEMO_STEP_DEG * i as f64;
-                    let w = demo_wind(lat, lon, f64::from(step) + shift);
-                    u.push(w.u_m_s * scale);
-                    v.push(w.v_m_s * scale);
-                }
+            let (mut u, mut v) = demo_wind_field(f64::from(step) + shift);
+            for x in u.iter_mut().chain(v.iter_mut()) {
+                *x *= scale;
             }
             let kind = if m == 0 { 1 } else { 3 };
             for (parameter, values) in [(2, &u), (3, &v)] {
@@ -79,19 +76,8 @@ fn write_ensemble(path: &Path, members: u8) {
 
 fn main() {
     let dir = tempfile::tempdir().expect("temp dir");
-    let mut scenario = demo_scenario().expect("demo");
-    scenario.settings.stretch_length_nm = 0.5;
-    scenario.segments = scenario
-        .segments
-        .iter()
-        .flat_map(|s| {
-            (0..8).map(move |k| {
-                let mut c = s.clone();
-                c.id = format!("{}-{k}", s.id);
-                c
-            })
-        })
-        .collect();
+    // The demo coast cut into 2,328 stretches (benches/common/long_coast.rs).
+    let scenario = long_demo_scenario();
     let segments = resolve_segments(&scenario.segments, Land::bundled()).expect("sides");
     let tz = scenario.tz().expect("zone");
     let ports = scenario.port_positions();

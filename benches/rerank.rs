@@ -4,10 +4,14 @@
 //! conditions (a change of model settings), and ranking again for another boat or
 //! port (no file read, nothing recomputed). Run with `cargo bench --bench rerank`.
 
+#[path = "common/long_coast.rs"]
+mod long_coast;
+
+use long_coast::long_demo_scenario;
 use shelfwind::coast::{Land, resolve_segments};
 use shelfwind::plan::{rank_plan, sample_forecast_conditions};
 use shelfwind::progress::Progress;
-use shelfwind::scenario::{PlanChoice, demo_scenario, write_demo};
+use shelfwind::scenario::{PlanChoice, write_demo};
 use shelfwind::wind::load_sources;
 use std::time::Instant;
 
@@ -18,21 +22,8 @@ fn ms(t: Instant) -> f64 {
 fn main() {
     let dir = tempfile::tempdir().expect("temp dir");
     let (_, forecast) = write_demo(dir.path()).expect("demo files");
-    // The demo coast, each segment eight times over, cut into 0.5 nm stretches (as the
-    // app_frame benchmark does).
-    let mut scenario = demo_scenario().expect("demo");
-    scenario.settings.stretch_length_nm = 0.5;
-    scenario.segments = scenario
-        .segments
-        .iter()
-        .flat_map(|s| {
-            (0..8).map(move |k| {
-                let mut c = s.clone();
-                c.id = format!("{}-{k}", s.id);
-                c
-            })
-        })
-        .collect();
+    // The demo coast cut into 2,328 stretches (benches/common/long_coast.rs).
+    let scenario = long_demo_scenario();
     let segments = resolve_segments(&scenario.segments, Land::bundled()).expect("sides");
     let tz = scenario.tz().expect("zone");
     let ports = scenario.port_positions();

@@ -88,6 +88,24 @@ pub fn demo_wind(lat_deg: f64, lon_deg: f64, hour: f64) -> Wind {
     )
 }
 
+/// The demo wind over the demo grid at `hour`: u and v, m/s, row by row from the north
+/// and west.
+#[must_use]
+pub fn demo_wind_field(hour: f64) -> (Vec<f64>, Vec<f64>) {
+    let mut u = Vec::with_capacity(DEMO_NI * DEMO_NJ);
+    let mut v = Vec::with_capacity(DEMO_NI * DEMO_NJ);
+    for j in 0..DEMO_NJ {
+        for i in 0..DEMO_NI {
+            let lat = DEMO_LAT_NORTH_DEG - DEMO_STEP_DEG * j as f64;
+            let lon = DEMO_LON_WEST_DEG + DEMO_STEP_DEG * i as f64;
+            let w = demo_wind(lat, lon, hour);
+            u.push(w.u_m_s);
+            v.push(w.v_m_s);
+        }
+    }
+    (u, v)
+}
+
 /// The demo wind as a GRIB2 file of 10 m u and v on a 0.25° grid around the demo coast:
 /// hourly analyses of the past week (each its own reference time, step 0), then the
 /// forecast issued at [`demo_reference_time`], hourly for seven days.
@@ -100,17 +118,7 @@ pub fn demo_forecast_grib2() -> Vec<u8> {
         .map(|h| (h, issued + chrono::Duration::hours(h), 0))
         .chain((0..=DEMO_HOURS).map(|step| (i64::from(step), issued, step)));
     for (hour, reference, step) in hours {
-        let mut u = Vec::with_capacity(DEMO_NI * DEMO_NJ);
-        let mut v = Vec::with_capacity(DEMO_NI * DEMO_NJ);
-        for j in 0..DEMO_NJ {
-            for i in 0..DEMO_NI {
-                let lat = DEMO_LAT_NORTH_DEG - DEMO_STEP_DEG * j as f64;
-                let lon = DEMO_LON_WEST_DEG + DEMO_STEP_DEG * i as f64;
-                let w = demo_wind(lat, lon, hour as f64);
-                u.push(w.u_m_s);
-                v.push(w.v_m_s);
-            }
-        }
+        let (u, v) = demo_wind_field(hour as f64);
         for (parameter, values) in [(2, &u), (3, &v)] {
             out.extend(encode_wind_message(&GridField {
                 lat_north_deg: DEMO_LAT_NORTH_DEG,

@@ -33,7 +33,7 @@ pub(crate) use csv::{csv_problem, find as find_column, parse_time};
 pub use demo::{
     DEMO_HOURS, DEMO_LAT_NORTH_DEG, DEMO_LON_WEST_DEG, DEMO_NI, DEMO_NJ, DEMO_PAST_HOURS,
     DEMO_STEP_DEG, demo_forecast_grib2, demo_reference_time, demo_wave_height_m, demo_waves_grib2,
-    demo_wind,
+    demo_wind, demo_wind_field,
 };
 pub use grib2::{
     EnsembleMember, Grib2Samples, MemberSamples, sample_grib2, sample_grib2_member_with,
