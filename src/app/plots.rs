@@ -8,6 +8,8 @@ use eframe::egui::{self, Color32, RichText};
 use egui_plot::{
     Bar, BarChart, HLine, Legend, Line, Plot, PlotPoints, Points, Polygon, Span, VLine,
 };
+use std::collections::HashMap;
+use std::sync::Arc;
 
 const PALETTE: [Color32; 4] = [
     Color32::from_rgb(0, 90, 181),
@@ -43,6 +45,66 @@ struct PlotFrame<'a> {
     height: f64,
     /// The wind's factor from knots and its unit.
     wind_scale: (f64, &'static str),
+    /// For an ensemble: per chosen stretch (by place in `chosen`) and hourly value, the
+    /// runs' spread.
+    bands: HashMap<(usize, Hourly), Arc<[Spread]>>,
+}
+
+/// An hourly value the plots draw, in the units it is kept in.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub(super) enum Hourly {
+    /// Wind speed, knots.
+    WindKt,
+    /// Alongshore wind stress, N/m².
+    StressPa,
+    /// Upwelling index, m³/s per 100 m.
+    Index,
+    /// Ekman pumping, m/day.
+    PumpingMDay,
+}
+
+impl Hourly {
+    const ALL: [Hourly; 4] = [
+        Hourly::WindKt,
+        Hourly::StressPa,
+        Hourly::Index,
+        Hourly::PumpingMDay,
+    ];
+
+    fn of(self, h: &StretchHour) -> Option<f64> {
+        match self {
+            Hourly::WindKt => Some(m_s_to_knots(h.wind.speed_m_s())),
+            Hourly::StressPa => Some(h.alongshore_stress_pa),
+            Hourly::Index => Some(h.index_m3s_per_100m),
+            Hourly::PumpingMDay => h.pumping_m_s.map(|w| w * 86_400.0),
+        }
+    }
+}
+
+/// One hour of the runs' spread: the hour, and the 10th, 50th and 90th percentiles.
+pub(super) type Spread = (chrono::DateTime<chrono::Utc>, f64, f64, f64);
+
+/// The runs' spread of the plotted stretches, kept while the plan is the same: worked
+/// out once per stretch and value, not every frame.
+#[derive(Debug, Clone, Default, PartialEq)]
+pub struct RunBands {
+    /// The plan the bands are for (held, so it is never mistaken for a newer one).
+    plan: Option<Arc<Plan>>,
+    bands: HashMap<(usize, Hourly), Arc<[Spread]>>,
+}
+
+impl RunBands {
+    /// The spread of stretch `k` of `plan` for `what`, made now if it is not kept.
+    fn get(&mut self, plan: &Arc<Plan>, k: usize, what: Hourly) -> Arc<[Spread]> {
+        if !self.plan.as_ref().is_some_and(|p| Arc::ptr_eq(p, plan)) {
+            self.plan = Some(plan.clone());
+            self.bands.clear();
+        }
+        self.bands
+            .entry((k, what))
+            .or_insert_with(|| run_spread(&plan.stretches[k], what).into())
+            .clone()
+    }
 }
 
 impl PlotFrame<'_> {
@@ -79,18 +141,21 @@ impl PlotFrame<'_> {
         }
     }
 
-    /// One line per chosen stretch of an hourly value (hours without it are skipped);
-    /// for an ensemble, the runs' median and their 10–90 % band instead.
-    fn hourly_lines(&self, p: &mut egui_plot::PlotUi<'_>, f: &dyn Fn(&StretchHour) -> Option<f64>) {
+    /// One line per chosen stretch of an hourly value times `scale` (hours without it
+    /// are skipped); for an ensemble, the runs' median and their 10–90 % band instead.
+    fn hourly_lines(&self, p: &mut egui_plot::PlotUi<'_>, what: Hourly, scale: f64) {
         for (k, s) in self.chosen.iter().enumerate() {
-            if !s.runs.is_empty() {
-                self.band(p, k, s, f);
+            if let Some(spread) = self.bands.get(&(k, what)) {
+                self.band(p, k, s, spread, scale);
                 continue;
             }
             let pts: Vec<[f64; 2]> = s
                 .hours
                 .iter()
-                .filter_map(|h| f(h).map(|v| [hours_since(self.t0, h.time), v]))
+                .filter_map(|h| {
+                    what.of(h)
+                        .map(|v| [hours_since(self.t0, h.time), v * scale])
+                })
                 .collect();
             p.line(Line::new(s.name.clone(), PlotPoints::from(pts)).color(PALETTE[k]));
         }
@@ -103,9 +168,14 @@ impl PlotFrame<'_> {
         p: &mut egui_plot::PlotUi<'_>,
         k: usize,
         s: &StretchInfo,
-        f: &dyn Fn(&StretchHour) -> Option<f64>,
+        spread: &[Spread],
+        scale: f64,
     ) {
-        let spread = run_spread(s, f, self.t0);
+        // Quantiles commute with a positive factor: the band is scaled as it is drawn.
+        let spread: Vec<[f64; 4]> = spread
+            .iter()
+            .map(|&(t, lo, mid, hi)| [hours_since(self.t0, t), lo * scale, mid * scale, hi * scale])
+            .collect();
         let band_name = format!("{}: 10–90 % of {} runs", s.name, s.runs.len());
         let fill = PALETTE[k].gamma_multiply(0.25);
         for w in spread.windows(2) {
@@ -143,7 +213,7 @@ impl PlotFrame<'_> {
                 HLine::new(format!("boat's limit {limit:.0} {unit}"), limit)
                     .color(Color32::from_rgb(197, 27, 125)),
             );
-            self.hourly_lines(p, &|h| Some(m_s_to_knots(h.wind.speed_m_s()) * factor));
+            self.hourly_lines(p, Hourly::WindKt, factor);
         });
     }
 
@@ -207,7 +277,7 @@ impl PlotFrame<'_> {
         self.plot(ui, "stress", "Alongshore wind stress (N/m²)")
             .show(ui, |p| {
                 self.decorate(p, false);
-                self.hourly_lines(p, &|h| Some(h.alongshore_stress_pa));
+                self.hourly_lines(p, Hourly::StressPa, 1.0);
             });
     }
 
@@ -216,7 +286,7 @@ impl PlotFrame<'_> {
             .show(ui, |p| {
                 self.decorate(p, true);
                 p.hline(HLine::new("0", 0.0).color(Color32::from_gray(120)));
-                self.hourly_lines(p, &|h| Some(h.index_m3s_per_100m));
+                self.hourly_lines(p, Hourly::Index, 1.0);
             });
     }
 
@@ -225,7 +295,7 @@ impl PlotFrame<'_> {
             .show(ui, |p| {
                 self.decorate(p, false);
                 p.hline(HLine::new("0", 0.0).color(Color32::from_gray(120)));
-                self.hourly_lines(p, &|h| h.pumping_m_s.map(|w| w * 86_400.0));
+                self.hourly_lines(p, Hourly::PumpingMDay, 1.0);
             });
     }
 
@@ -323,7 +393,16 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
         .iter()
         .filter_map(|c| plan.stretches.iter().position(|s| s.id == c.id))
         .collect();
+    let mut bands = HashMap::new();
+    for (place, &k) in indices.iter().enumerate() {
+        if !plan.stretches[k].runs.is_empty() {
+            for what in Hourly::ALL {
+                bands.insert((place, what), app.view.run_bands.get(&plan, k, what));
+            }
+        }
+    }
     let frame = PlotFrame {
+        bands,
         plan: &plan,
         unsafe_spans: unsafe_runs(&plan, chosen[0], t0),
         chosen,
@@ -365,18 +444,14 @@ pub(super) fn plots_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, _commands: &mu
     }
 }
 
-/// Per hour that some run has, `[x, 10th, 50th, 90th percentile]` of `f` over the runs
-/// of an ensemble (x in hours since `t0`).
-fn run_spread(
-    s: &StretchInfo,
-    f: &dyn Fn(&StretchHour) -> Option<f64>,
-    t0: chrono::DateTime<chrono::Utc>,
-) -> Vec<[f64; 4]> {
+/// Per hour that some run has, the hour and the 10th, 50th and 90th percentiles of
+/// `what` over the runs of an ensemble.
+fn run_spread(s: &StretchInfo, what: Hourly) -> Vec<Spread> {
     let mut by_time: std::collections::BTreeMap<chrono::DateTime<chrono::Utc>, Vec<f64>> =
         std::collections::BTreeMap::new();
     for run in &s.runs {
         for h in &run.hours {
-            if let Some(v) = f(h) {
+            if let Some(v) = what.of(h) {
                 by_time.entry(h.time).or_default().push(v);
             }
         }
@@ -385,7 +460,7 @@ fn run_spread(
         .iter()
         .filter_map(|(t, v)| {
             let q = |p: f64| crate::plan::quantile(v, p);
-            Some([hours_since(t0, *t), q(0.1)?, q(0.5)?, q(0.9)?])
+            Some((*t, q(0.1)?, q(0.5)?, q(0.9)?))
         })
         .collect()
 }

@@ -193,6 +193,8 @@ pub struct View {
     pub units: crate::export::units::Units,
     /// The words of the plan's day, kept between frames.
     pub plan_words: super::panels::PlanWords,
+    /// The runs' spread of the plotted stretches, kept between frames.
+    pub run_bands: super::plots::RunBands,
 }
 
 /// Dialogs and messages.
