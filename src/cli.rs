@@ -398,6 +398,14 @@ pub fn run_demo(args: &DemoArgs) -> Result<(), CliError> {
         scenario.display(),
         forecast.display()
     );
+    let at = |name: &str| args.out.join(name).display().to_string();
+    println!(
+        "check it against the sea (invented spring and buoys): shelfwind verify {} --wind {} --sst {} {}",
+        scenario.display(),
+        at(crate::sst::DEMO_RECORD_WIND_FILE),
+        at(crate::sst::DEMO_BUOY_FILES[0]),
+        at(crate::sst::DEMO_BUOY_FILES[1])
+    );
     Ok(())
 }
 

@@ -2,15 +2,18 @@
 //! temperature measured near it ([`crate::upwelling::check_segment`]).
 
 use crate::cli::{CliError, load_coast, write_output};
-use crate::coast::{LatLon, distance_m};
+use crate::coast::{LatLon, Segment, distance_m};
 use crate::progress::Progress;
+use crate::scenario::ModelSettings;
 use crate::sst::{SstSeries, read_sst_file};
 use crate::upwelling::{
     CheckSettings, SegmentCheck, check_segment, daily_means, detect_events, index_series,
 };
-use crate::wind::{assign_wind_merged, load_sources};
+use crate::wind::{WindSource, assign_wind_merged, load_sources};
+use chrono::NaiveDate;
 use clap::ValueEnum;
 use serde_json::{Value, json};
+use std::collections::BTreeMap;
 use std::fmt::Write as _;
 use std::path::PathBuf;
 
@@ -55,12 +58,114 @@ pub struct VerifyArgs {
     pub out: Option<PathBuf>,
 }
 
-/// One segment's check, with its id.
+/// One segment's check, with its id and the daily series behind it.
+#[derive(Debug, Clone)]
 pub struct Verified {
     /// Segment id.
     pub segment_id: String,
+    /// Daily mean index over UTC days, m³/s per 100 m of coast.
+    pub index_daily: BTreeMap<NaiveDate, f64>,
+    /// Daily mean sea temperature the segment took, °C (empty: none covers it).
+    pub temp_daily: BTreeMap<NaiveDate, f64>,
     /// The check.
     pub check: SegmentCheck,
+}
+
+/// Every segment's check, in the segments' order, and what the readers warned of.
+#[derive(Debug, Clone, Default)]
+pub struct Verification {
+    /// One per segment.
+    pub segments: Vec<Verified>,
+    /// Warnings from the sea-temperature readers (bad lines skipped), each naming its
+    /// file.
+    pub warnings: Vec<String>,
+    /// The settings the check ran with.
+    pub settings: CheckSettings,
+}
+
+/// What the check reads besides the coast and the wind.
+#[derive(Debug, Clone)]
+pub struct VerifyInput {
+    /// Sea-temperature files, in order of preference.
+    pub sst_files: Vec<PathBuf>,
+    /// Numbers that mark a missing temperature in point series.
+    pub missing: Vec<f64>,
+    /// How far offshore a gridded temperature is read, km.
+    pub probe_km: f64,
+    /// Cooling that confirms an event, °C.
+    pub cooling_c: f64,
+}
+
+/// Checks every segment's upwelling, computed from `wind` with the model `settings`,
+/// against the sea temperature the input's files give it. Errors name the file.
+pub fn verify_coast(
+    segments: &[Segment],
+    wind: &[WindSource],
+    input: &VerifyInput,
+    settings: &ModelSettings,
+    progress: &Progress,
+) -> Result<Verification, String> {
+    for (name, value, lo, hi, unit) in [
+        (
+            "the cooling that confirms an event",
+            input.cooling_c,
+            0.1,
+            10.0,
+            "°C",
+        ),
+        (
+            "the probe's distance offshore",
+            input.probe_km,
+            1.0,
+            50.0,
+            "km",
+        ),
+    ] {
+        if !(value.is_finite() && (lo..=hi).contains(&value)) {
+            return Err(format!(
+                "{name} ({value} {unit}) is out of range: expected {lo} to {hi} {unit}"
+            ));
+        }
+    }
+    let probes: Vec<LatLon> = segments
+        .iter()
+        .map(|s| probe(s, input.probe_km * 1000.0))
+        .collect();
+    let mut warnings = Vec::new();
+    let sst: Vec<Source> = input
+        .sst_files
+        .iter()
+        .map(|p| read_source(p, &input.missing, &probes, &mut warnings))
+        .collect::<Result<_, _>>()?;
+    let winds = assign_wind_merged(wind, segments, progress).map_err(|e| e.to_string())?;
+    let check = CheckSettings {
+        cooling_c: input.cooling_c,
+        ..CheckSettings::default()
+    };
+    let mut out = Vec::with_capacity(segments.len());
+    for (k, (seg, wind)) in segments.iter().zip(&winds).enumerate() {
+        let series = index_series(seg, wind, &settings.index).map_err(|e| e.to_string())?;
+        let events = detect_events(&series.times, &series.index_m3s_per_100m, &settings.events);
+        let temp_daily = series_for(&sst, k, seg.weighted_midpoint())
+            .map(|s| daily_means(&s.times, &s.temps_c))
+            .unwrap_or_default();
+        out.push(Verified {
+            segment_id: seg.id.clone(),
+            index_daily: daily_means(&series.times, &series.index_m3s_per_100m),
+            check: check_segment(
+                (&series.times, &series.index_m3s_per_100m),
+                &events,
+                &temp_daily,
+                &check,
+            ),
+            temp_daily,
+        });
+    }
+    Ok(Verification {
+        segments: out,
+        warnings,
+        settings: check,
+    })
 }
 
 /// A sea-temperature file as read: a point series, or a grid sampled at each
@@ -73,7 +178,7 @@ enum Source {
 /// The probe of a segment: `offshore_m` off its midpoint along the length-weighted
 /// mean of its pieces' offshore bearings.
 #[must_use]
-pub fn probe(seg: &crate::coast::Segment, offshore_m: f64) -> LatLon {
+pub fn probe(seg: &Segment, offshore_m: f64) -> LatLon {
     let (mut x, mut y) = (0.0, 0.0);
     for p in seg.pieces() {
         x += p.length_m * p.offshore_bearing_deg.to_radians().sin();
@@ -112,6 +217,7 @@ fn read_source(
     path: &std::path::Path,
     missing: &[f64],
     probes: &[LatLon],
+    warnings: &mut Vec<String>,
 ) -> Result<Source, String> {
     let name = path.display();
     let mut head = [0u8; 8];
@@ -133,9 +239,7 @@ fn read_source(
     }
     if !head.starts_with(b"GRIB") {
         let (series, warning) = read_sst_file(path, missing)?;
-        if let Some(w) = warning {
-            eprintln!("shelfwind: warning: {w}");
-        }
+        warnings.extend(warning);
         return Ok(Source::Point(series));
     }
     let file =
@@ -190,12 +294,17 @@ pub fn run_verify(args: &VerifyArgs) -> Result<(), CliError> {
         .as_ref()
         .map(|s| s.settings.clone())
         .unwrap_or_default();
-    let sst_check = settings.sst_check;
-    let cooling_c = args.cooling_c.unwrap_or(sst_check.cooling_c);
-    let probe_km = args.probe_km.unwrap_or(sst_check.probe_offshore_km);
+    let input = VerifyInput {
+        sst_files: args.sst.clone(),
+        missing: args.sst_missing.clone(),
+        probe_km: args
+            .probe_km
+            .unwrap_or(settings.sst_check.probe_offshore_km),
+        cooling_c: args.cooling_c.unwrap_or(settings.sst_check.cooling_c),
+    };
     for (name, value, lo, hi, unit) in [
-        ("--cooling-c", cooling_c, 0.1, 10.0, "°C"),
-        ("--probe-km", probe_km, 1.0, 50.0, "km"),
+        ("--cooling-c", input.cooling_c, 0.1, 10.0, "°C"),
+        ("--probe-km", input.probe_km, 1.0, 50.0, "km"),
     ] {
         if !(value.is_finite() && (lo..=hi).contains(&value)) {
             return Err(CliError::App(format!(
@@ -203,40 +312,20 @@ pub fn run_verify(args: &VerifyArgs) -> Result<(), CliError> {
             )));
         }
     }
-    let probes: Vec<LatLon> = coast
-        .segments
-        .iter()
-        .map(|s| probe(s, probe_km * 1000.0))
-        .collect();
-    let sst: Vec<Source> = args
-        .sst
-        .iter()
-        .map(|p| read_source(p, &args.sst_missing, &probes))
-        .collect::<Result<_, _>>()
-        .map_err(CliError::App)?;
-    let winds = assign_wind_merged(&sources, &coast.segments, &Progress::new())?;
-    let check = CheckSettings {
-        cooling_c,
-        ..CheckSettings::default()
-    };
-    let mut out = Vec::new();
-    for (k, (seg, wind)) in coast.segments.iter().zip(&winds).enumerate() {
-        let series = index_series(seg, wind, &settings.index)?;
-        let events = detect_events(&series.times, &series.index_m3s_per_100m, &settings.events);
-        let temp = series_for(&sst, k, seg.weighted_midpoint())
-            .map(|s| daily_means(&s.times, &s.temps_c))
-            .unwrap_or_default();
-        out.push(Verified {
-            segment_id: seg.id.clone(),
-            check: check_segment(
-                (&series.times, &series.index_m3s_per_100m),
-                &events,
-                &temp,
-                &check,
-            ),
-        });
+    let checked = verify_coast(
+        &coast.segments,
+        &sources,
+        &input,
+        &settings,
+        &Progress::new(),
+    )
+    .map_err(CliError::App)?;
+    for w in &checked.warnings {
+        eprintln!("shelfwind: warning: {w}");
     }
+    let mut out = checked.segments;
     out.sort_by(|a, b| a.segment_id.cmp(&b.segment_id));
+    let check = checked.settings;
     let text = match args.format {
         VerifyFormatArg::Table => table(&out, &check),
         VerifyFormatArg::Csv => csv(&out),

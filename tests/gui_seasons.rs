@@ -7,7 +7,7 @@
 
 mod common;
 
-use common::{app_harness, wait_until_within};
+use common::{app_harness, type_into, wait_until_within};
 use eframe::egui;
 use egui::accesskit::Role;
 use egui_kittest::Harness;
@@ -29,17 +29,6 @@ fn wait_until(
     done: impl Fn(&ShelfwindApp) -> bool,
 ) {
     wait_until_within(harness, what, Duration::from_mins(3), done);
-}
-
-/// Focuses a labelled field, selects what it holds, types `text`, and steps two frames
-/// so that what was typed can be checked.
-fn type_into(harness: &mut Harness<'static, ShelfwindApp>, role: Role, label: &str, text: &str) {
-    harness.get_by_role_and_label(role, label).focus();
-    harness.run_steps(2);
-    harness.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::A);
-    harness.run_steps(1);
-    harness.get_by_role_and_label(role, label).type_text(text);
-    harness.run_steps(2);
 }
 
 /// Two years of hourly northerlies at 10 m/s (no position: the record covers every

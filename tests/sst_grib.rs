@@ -31,12 +31,19 @@ fn dump_value(message: usize, lat: f64, lon: f64) -> Option<f64> {
     })?
 }
 
-/// A point on a grid node takes ecCodes' value there (in °C); a point among the masked
-/// (land) columns takes the nearest sea value, 1.2 grid steps west, as ecCodes gives it.
+/// A point on a grid node takes ecCodes' value there (in °C); a point in a cell with a
+/// masked (land) corner takes the nearest sea value within one grid step (README,
+/// "Checking against the sea temperature"): at 237.7 E, 0.8 steps from the sea node at
+/// 237.5 E, that node's value as ecCodes gives it; at 237.8 E, among the land columns
+/// and 1.2 steps from the sea, none.
 #[test]
 fn water_temperature_at_sea_and_next_to_the_land_matches_eccodes() {
     let file = std::fs::File::open(fixture("sst_water_bitmap.grib2")).expect("fixture");
-    let points = [LatLon::new(37.0, -123.0), LatLon::new(37.0, -122.2)];
+    let points = [
+        LatLon::new(37.0, -123.0),
+        LatLon::new(37.0, -122.3),
+        LatLon::new(37.0, -122.2),
+    ];
     let s = sample_sst_grib2(std::io::BufReader::new(file), &points)
         .expect("read")
         .expect("a sea temperature");
@@ -60,5 +67,6 @@ fn water_temperature_at_sea_and_next_to_the_land_matches_eccodes() {
             "{} vs {nearest}",
             s.points[1][step]
         );
+        assert!(s.points[2][step].is_nan(), "{}", s.points[2][step]);
     }
 }

@@ -38,8 +38,10 @@ fn the_real_noaa_analysis_gives_netcdf4s_values_at_its_nodes() {
 }
 
 /// Kelvin to °C, unpacked as netCDF4 unpacks it; between two nodes, linear; next to the
-/// land, the sea corners' weights renormalised: at -122.4 E (0.4 of the way from the
-/// -122.50 node to the land node at -122.25) the value is the -122.50 node's.
+/// land, the nearest sea node within one grid step (README, "Checking against the sea
+/// temperature"): at -122.4 E (0.4 of the way from the -122.50 node to the land node at
+/// -122.25) the -122.50 node's value; at -122.2 E, between two land nodes and 1.2 steps
+/// from the sea, none.
 #[test]
 #[allow(clippy::needless_range_loop)] // k indexes the times of three series
 fn a_packed_compressed_netcdf4_file_in_kelvin() {
@@ -66,7 +68,12 @@ fn a_packed_compressed_netcdf4_file_in_kelvin() {
     };
     let s = sample_netcdf_sst(
         &fixture("sst_nc4_packed.nc"),
-        &[(37.0, -123.0), (37.0, -122.875), (37.0, -122.4)],
+        &[
+            (37.0, -123.0),
+            (37.0, -122.875),
+            (37.0, -122.4),
+            (37.0, -122.2),
+        ],
     )
     .expect("read");
     let (times, per_point) = (s.times, s.points);
@@ -77,5 +84,6 @@ fn a_packed_compressed_netcdf4_file_in_kelvin() {
         let mid = f64::midpoint(at(k, -123.0), at(k, -122.75));
         assert!((between - mid).abs() < 1e-4, "{between} vs {mid}");
         assert!((by_land - at(k, -122.5)).abs() < 1e-4, "{by_land}");
+        assert!(per_point[3][k].is_nan(), "{}", per_point[3][k]);
     }
 }

@@ -16,6 +16,9 @@ pub(super) fn windows_ui(app: &mut ShelfwindApp, ctx: &egui::Context, commands: 
     if app.season.open || app.season.pending_png_or_job() {
         super::season_view::season_window(app, ctx);
     }
+    if app.check.open || app.check.busy() {
+        super::check_view::check_window(app, ctx, commands);
+    }
     super::help::help_window(app, ctx);
     if app.view.boats.open {
         super::boats::boats_window(app, ctx, commands);

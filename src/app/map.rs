@@ -69,14 +69,20 @@ fn day_statuses(plan: &Plan, day: usize) -> Vec<Option<DayStatus>> {
 }
 
 /// The colour of a stretch under the chosen colouring; `odds` is what an ensemble's
-/// runs say of it on the chosen day.
+/// runs say of it on the chosen day, `hit` its segment's hit rate in the sea check.
 fn stretch_colour(
     s: &StretchInfo,
     colouring: Colouring,
-    (date, status, odds): (Option<chrono::NaiveDate>, Option<DayStatus>, Option<Odds>),
+    (date, status, odds, hit): (
+        Option<chrono::NaiveDate>,
+        Option<DayStatus>,
+        Option<Odds>,
+        Option<f64>,
+    ),
     time: Option<chrono::DateTime<chrono::Utc>>,
 ) -> Option<Color32> {
     let rgb = match colouring {
+        Colouring::HitRate => colour::productivity_colour(hit?),
         Colouring::UpwellingOdds => colour::productivity_colour(odds?.p_upwelling()),
         Colouring::IndexNow => colour::index_colour(s.hour_at(time?)?.index_m3s_per_100m),
         Colouring::Productivity => colour::productivity_colour(s.day(date?)?.response.productivity),
@@ -290,6 +296,8 @@ struct CoastLayer<'a> {
     plan: Option<&'a Plan>,
     segments: &'a [CoastSegment],
     colouring: Colouring,
+    /// Per segment id, the share of its events the sea check confirmed.
+    hit_rates: Option<&'a std::collections::HashMap<String, f64>>,
     day: usize,
     /// The units words are given in.
     units: crate::export::units::Units,
@@ -396,8 +404,14 @@ impl CoastLayer<'_> {
                 }
             }
             let these = odds.get(k).copied().flatten();
-            let colour = stretch_colour(s, self.colouring, (date, statuses[k], these), self.time)
-                .unwrap_or(Color32::from_gray(160));
+            let hit = self.hit_rates.and_then(|h| h.get(&s.segment_id)).copied();
+            let colour = stretch_colour(
+                s,
+                self.colouring,
+                (date, statuses[k], these, hit),
+                self.time,
+            )
+            .unwrap_or(Color32::from_gray(160));
             // A dark edge keeps near-zero (light) stretches visible on the land.
             painter.add(Shape::line(
                 line.clone(),
@@ -461,7 +475,19 @@ impl CoastLayer<'_> {
         let Some(k) = nearest_stretch(p, lines, STRETCH_PICK_PX) else {
             return;
         };
-        let text = stretch_hover_text(plan, self.day, k, self.units);
+        let mut text = stretch_hover_text(plan, self.day, k, self.units);
+        if self.colouring == Colouring::HitRate {
+            let segment = &plan.stretches[k].segment_id;
+            let line = match self.hit_rates.and_then(|h| h.get(segment)) {
+                Some(rate) => format!(
+                    "Sea check: {:.0} % of its upwelling events were followed by cooling",
+                    rate * 100.0
+                ),
+                None => "Sea check: no result (Seasons > Check against measured sea temperature…)"
+                    .to_string(),
+            };
+            text = format!("{text}\n{line}");
+        }
         // Towards the middle of the map, so the box is not cut off at an edge.
         let (left, up) = (p.x > map.center().x, p.y > map.center().y);
         let end = |far: bool| {
@@ -1097,6 +1123,7 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
             plan: plan.as_deref(),
             segments: &app.doc.scenario.segments,
             colouring: app.view.colouring,
+            hit_rates: app.check.hit_rates(),
             day: app.view.day,
             units: app.view.units,
             time,
@@ -1279,6 +1306,22 @@ fn legend_stops(colouring: Colouring) -> (&'static str, Vec<(String, Color32)>) 
                     )
                 })
                 .chain([("single forecast: no odds".into(), Color32::from_gray(160))])
+                .collect(),
+        ),
+        Colouring::HitRate => (
+            "Sea check: events followed by cooling",
+            [1.0, 0.75, 0.5, 0.25, 0.0]
+                .iter()
+                .map(|v: &f64| {
+                    (
+                        format!("{:.0} % of events", v * 100.0),
+                        c32(colour::productivity_colour(*v)),
+                    )
+                })
+                .chain([(
+                    "no check run, or no event to tell".into(),
+                    Color32::from_gray(160),
+                )])
                 .collect(),
         ),
         Colouring::SafeForBoat => (

@@ -6,6 +6,7 @@
 
 mod base_map;
 mod boats;
+mod check_view;
 mod coast_pack;
 mod commands;
 mod compare;

@@ -92,6 +92,13 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
                 app.season.open = true;
                 ui.close();
             }
+            if ui
+                .button("Check against measured sea temperature…")
+                .clicked()
+            {
+                app.open_check();
+                ui.close();
+            }
         });
         ui.menu_button("Help", |ui| {
             if ui.button("Guide").clicked() {
@@ -318,6 +325,7 @@ fn map_toolbar_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<
             (Colouring::Productivity, "Expected productivity"),
             (Colouring::SafeForBoat, "Safe for this boat"),
             (Colouring::UpwellingOdds, "Chance of upwelling"),
+            (Colouring::HitRate, "Sea check: hit rate"),
         ] {
             if ui
                 .selectable_label(app.view.colouring == c, label)

@@ -10,7 +10,7 @@
 
 use super::settings_window::SEASONS_SECTION;
 use super::state::ShelfwindApp;
-use super::tasks::Task;
+use super::tasks::{PROBLEM_COLOUR, Task, paths_field, start_row};
 use crate::atomic::write_atomic;
 use crate::coast::{Land, resolve_segments};
 use crate::export::{SeasonFormat, flag_text, render_seasons};
@@ -35,9 +35,6 @@ const PALETTE: [Color32; 6] = [
     Color32::from_rgb(230, 140, 0),
     Color32::from_rgb(90, 90, 90),
 ];
-
-/// Colour of messages that say something went wrong.
-const PROBLEM_COLOUR: Color32 = Color32::from_rgb(150, 40, 0);
 
 /// Height of each plot, points.
 const PLOT_HEIGHT_PT: f32 = 260.0;
@@ -561,34 +558,18 @@ pub(super) fn season_window(app: &mut ShelfwindApp, ctx: &egui::Context) {
 
 /// The record's files, and the button that analyses them; true when clicked.
 fn record_ui(v: &mut SeasonView, ui: &mut egui::Ui) -> bool {
-    let label = ui.label("Wind record files (GRIB2, NetCDF or CSV), one path per line");
-    ui.add(
-        egui::TextEdit::multiline(&mut v.files_text)
-            .desired_rows(3)
-            .desired_width(f32::INFINITY),
+    paths_field(
+        ui,
+        "Wind record files (GRIB2, NetCDF or CSV), one path per line",
+        &mut v.files_text,
+        3,
+    );
+    start_row(
+        ui,
+        "Analyse the record",
+        (v.job.as_ref().map(|(p, _)| &**p), "reading the record"),
+        v.record_message.as_deref(),
     )
-    .labelled_by(label.id);
-    let mut analyse = false;
-    ui.horizontal(|ui| {
-        if v.job.is_none() && ui.button("Analyse the record").clicked() {
-            analyse = true;
-        }
-        if let Some((p, _)) = &v.job {
-            ui.spinner();
-            ui.add(
-                egui::ProgressBar::new(p.fraction())
-                    .desired_width(200.0)
-                    .text("reading the record"),
-            );
-            if ui.button("Cancel").clicked() {
-                p.cancel();
-            }
-        }
-    });
-    if let Some(m) = &v.record_message {
-        ui.label(RichText::new(m).color(PROBLEM_COLOUR));
-    }
-    analyse
 }
 
 /// The segments to show in the plots.

@@ -1,5 +1,5 @@
-//! The model settings window: every setting of the index, events, response, trips and
-//! seasons with its unit and default, edited as a draft and applied as one undoable step.
+//! The model settings window: every setting of the index, events, response, trips,
+//! seasons and the sea check with its unit and default, edited as a draft and applied as one undoable step.
 
 use super::commands::Command;
 use super::edit::Edit;
@@ -289,6 +289,33 @@ fn seasons_grid(ui: &mut egui::Ui, c: &mut CoverageSettings, d: &CoverageSetting
     });
 }
 
+/// How the sea check reads a grid and when it calls an event confirmed.
+fn sea_check_grid(
+    ui: &mut egui::Ui,
+    c: &mut crate::scenario::SstCheckSettings,
+    d: &crate::scenario::SstCheckSettings,
+) {
+    ui.label(RichText::new("Sea-temperature check").strong());
+    egui::Grid::new("sea check").num_columns(3).show(ui, |ui| {
+        number(
+            ui,
+            "Cooling that confirms an event",
+            &mut c.cooling_c,
+            0.1..=10.0,
+            "°C",
+            d.cooling_c,
+        );
+        number(
+            ui,
+            "Grid read offshore of each segment",
+            &mut c.probe_offshore_km,
+            1.0..=50.0,
+            "km",
+            d.probe_offshore_km,
+        );
+    });
+}
+
 /// The model settings window: edits a draft, applied as one undoable step.
 pub(super) fn settings_window(
     app: &mut ShelfwindApp,
@@ -316,6 +343,8 @@ pub(super) fn settings_window(
             trip_grid(ui, &mut draft.trip, &d.trip);
             ui.separator();
             seasons_grid(ui, &mut draft.seasons, &d.seasons);
+            ui.separator();
+            sea_check_grid(ui, &mut draft.sst_check, &d.sst_check);
             ui.separator();
             ui.horizontal(|ui| {
                 if ui.button("Apply").clicked() {

@@ -28,6 +28,9 @@ pub enum Colouring {
     SafeForBoat,
     /// The share of an ensemble's runs with upwelling at the stretch on the chosen day.
     UpwellingOdds,
+    /// The share of the segment's upwelling events the sea check found followed by
+    /// cooling.
+    HitRate,
 }
 
 /// The map's base layer.
@@ -285,6 +288,8 @@ pub struct ShelfwindApp {
     pub(super) commands: Vec<Command>,
     /// The season view (co-op managers).
     pub season: super::season_view::SeasonView,
+    /// The check against measured sea temperature.
+    pub check: super::check_view::CheckView,
 }
 
 impl ShelfwindApp {
@@ -375,6 +380,7 @@ impl ShelfwindApp {
             last_autosave_s: 0.0,
             commands: Vec::new(),
             season: super::season_view::SeasonView::default(),
+            check: super::check_view::CheckView::default(),
         };
         let _ = app.map_memory.set_zoom(9.0);
         if let Some((lat, lon, zoom)) = app.remembered.map_view {

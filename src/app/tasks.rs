@@ -53,3 +53,47 @@ impl<T: Send + 'static> Task<T> {
         }
     }
 }
+
+/// Colour of messages that say something went wrong.
+pub(super) const PROBLEM_COLOUR: egui::Color32 = egui::Color32::from_rgb(150, 40, 0);
+
+/// A labelled field of file paths, one per line.
+pub(super) fn paths_field(ui: &mut egui::Ui, label: &str, text: &mut String, rows: usize) {
+    let label = ui.label(label);
+    ui.add(
+        egui::TextEdit::multiline(text)
+            .desired_rows(rows)
+            .desired_width(f32::INFINITY),
+    )
+    .labelled_by(label.id);
+}
+
+/// The button that starts background work, or, while `running` goes, its progress
+/// (`working` says what it does) and Cancel; under them, why the last start failed.
+/// True when the button is clicked.
+pub(super) fn start_row(
+    ui: &mut egui::Ui,
+    button: &str,
+    (running, working): (Option<&crate::progress::Progress>, &str),
+    message: Option<&str>,
+) -> bool {
+    let mut start = false;
+    ui.horizontal(|ui| match running {
+        None => start = ui.button(button).clicked(),
+        Some(p) => {
+            ui.spinner();
+            ui.add(
+                egui::ProgressBar::new(p.fraction())
+                    .desired_width(200.0)
+                    .text(working),
+            );
+            if ui.button("Cancel").clicked() {
+                p.cancel();
+            }
+        }
+    });
+    if let Some(m) = message {
+        ui.label(egui::RichText::new(m).color(PROBLEM_COLOUR));
+    }
+    start
+}

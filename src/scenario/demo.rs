@@ -21,14 +21,22 @@ pub fn demo_scenario() -> Result<Scenario, ScenarioError> {
     parse_scenario(DEMO_SCENARIO_JSON)
 }
 
-/// Writes the demo scenario and its forecast into `dir` (created if needed); returns
-/// the two paths.
+/// Writes the demo scenario, its forecast and the record of its sea-temperature check
+/// (a spring of wind and two buoys, [`crate::sst::demo_record_wind_csv`]) into `dir`
+/// (created if needed); returns the scenario's and the forecast's paths.
 pub fn write_demo(dir: &Path) -> std::io::Result<(PathBuf, PathBuf)> {
     std::fs::create_dir_all(dir)?;
     let scenario = dir.join(DEMO_SCENARIO_FILE);
     let forecast = dir.join(DEMO_FORECAST_FILE);
     write_atomic(&forecast, &demo_forecast_grib2())?;
     write_atomic(&dir.join(DEMO_WAVES_FILE), &demo_waves_grib2())?;
+    write_atomic(
+        &dir.join(crate::sst::DEMO_RECORD_WIND_FILE),
+        crate::sst::demo_record_wind_csv().as_bytes(),
+    )?;
+    for (name, north) in crate::sst::DEMO_BUOY_FILES.iter().zip([true, false]) {
+        write_atomic(&dir.join(name), crate::sst::demo_buoy_csv(north).as_bytes())?;
+    }
     write_atomic(&scenario, DEMO_SCENARIO_JSON.as_bytes())?;
     Ok((scenario, forecast))
 }

@@ -256,7 +256,11 @@ fn check_event(
         before_c,
         cooling_c,
         seen_on,
-        confirmed: cooling_c.map(|c| c >= settings.cooling_c),
+        // Not seen yet, with the record ending before the last day it could show:
+        // nothing to tell.
+        confirmed: cooling_c
+            .map(|c| c >= settings.cooling_c)
+            .filter(|&seen| seen || temp.range(last..).next().is_some()),
     }
 }
 
@@ -275,6 +279,41 @@ mod tests {
             "{lo} {hi}"
         );
         assert_eq!(fisher_interval(0.3, 3), None);
+    }
+
+    /// An event near the end of the temperature record: cooling seen in time confirms
+    /// it; no cooling with the record ending before its last day (3 days after its end)
+    /// cannot be told; no cooling over a record that goes on is a miss.
+    #[test]
+    fn an_event_cut_off_by_the_end_of_the_record() {
+        let day = |d: u32| NaiveDate::from_ymd_opt(2027, 6, d).expect("day");
+        let at = |d: u32, h: u32| day(d).and_hms_opt(h, 0, 0).expect("time").and_utc();
+        let event = UpwellingEvent {
+            onset: at(10, 0),
+            end: at(11, 12),
+            duration_h: 36.0,
+            peak_m3s_per_100m: 200.0,
+            peak_time: at(11, 0),
+            integrated_m3s_per_100m_days: 200.0,
+            ongoing: false,
+        };
+        let settings = CheckSettings::default();
+        let record = |last: u32, dip: f64| -> BTreeMap<NaiveDate, f64> {
+            (1..=last)
+                .map(|d| (day(d), if d >= 11 { 14.0 - dip } else { 14.0 }))
+                .collect()
+        };
+        let cooled = check_event(&event, &record(12, 1.0), &settings);
+        assert_eq!(cooled.confirmed, Some(true));
+        assert_eq!(cooled.seen_on, Some(day(11)));
+        assert_eq!(
+            check_event(&event, &record(13, 0.0), &settings).confirmed,
+            None
+        );
+        assert_eq!(
+            check_event(&event, &record(14, 0.0), &settings).confirmed,
+            Some(false)
+        );
     }
 
     /// Pearson's r of a line is 1, of its mirror −1, of no spread none.

@@ -699,6 +699,11 @@ const TIE_CELLS: f64 = 1e-6;
 /// bilinear corner is missing (land in a wave field, a masked point in any field).
 pub const NEAREST_CELLS: f64 = 1.5;
 
+/// How far (in grid steps) a sea-temperature probe that falls on masked land looks for
+/// the nearest sea value, in every gridded reader (README, "Checking against the sea
+/// temperature").
+pub const SEA_PROBE_CELLS: f64 = 1.0;
+
 /// The grid points within [`NEAREST_CELLS`] of `p`, as distances in grid steps and data
 /// positions, nearest first.
 pub(super) fn nearby_points(grid: &GribGrid, p: LatLon) -> Vec<(f64, usize)> {
@@ -751,6 +756,12 @@ impl PointRule {
     /// of those equally near, so that the answer does not depend on the scan order);
     /// NaN when there is none.
     pub(super) fn sample(&self, values: &[f32]) -> f32 {
+        self.sample_within(values, NEAREST_CELLS)
+    }
+
+    /// As [`Self::sample`], looking no further than `max_cells` grid steps for the
+    /// nearest value.
+    pub(super) fn sample_within(&self, values: &[f32], max_cells: f64) -> f32 {
         let Some(weights) = &self.bilinear else {
             return f32::NAN;
         };
@@ -768,6 +779,7 @@ impl PointRule {
         let mut valued = self
             .nearby
             .iter()
+            .take_while(|&&(d, _)| d <= max_cells + 1e-9)
             .map(|&(d, k)| (d, value(k)))
             .filter(|(_, v)| v.is_finite());
         let Some((nearest, first)) = valued.next() else {

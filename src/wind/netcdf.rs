@@ -825,6 +825,10 @@ pub fn sample_netcdf_sst(path: &Path, points: &[(f64, f64)]) -> Result<super::Ss
     // The temperature is read as both members of the pair (the second is not decoded).
     let decode = || Decoder::new(f.var, 1.0);
     let layout = layout_of(&file, (&f, &f), (decode(), decode()), units, Vec::new())?;
+    let corners: Vec<Option<Corners>> = points
+        .iter()
+        .map(|&(lat, lon)| layout.corners(lat, lon))
+        .collect();
     let stencils: Vec<Option<Stencil>> = points
         .iter()
         .map(|&(lat, lon)| layout.stencil(lat, lon))
@@ -836,11 +840,9 @@ pub fn sample_netcdf_sst(path: &Path, points: &[(f64, f64)]) -> Result<super::Ss
             Some(b) => Some((b, layout.read_block(&file, &layout.u, t, b)?)),
             None => None,
         };
-        for (stencil, series) in stencils.iter().zip(out.iter_mut()) {
-            let value = match (stencil, &values) {
-                (Some(s), Some((b, v))) => {
-                    interpolate(s, b, v, v).map_or(f64::NAN, |x| x.0 - offset)
-                }
+        for (corners, series) in corners.iter().zip(out.iter_mut()) {
+            let value = match (corners, &values) {
+                (Some(c), Some((b, v))) => sea_value(c, b, v) - offset,
                 _ => f64::NAN,
             };
             series.push(value);
@@ -1527,16 +1529,31 @@ impl LonAxis {
 /// Up to four grid nodes (file lat index, file lon index) and their bilinear weights.
 type Stencil = Vec<(usize, usize, f64)>;
 
+/// A cell's weighted corners: row, column, bilinear weight, distance in grid steps.
+type Corners = Vec<(usize, usize, f64, f64)>;
+
 impl Layout<'_> {
     fn stencil(&self, lat: f64, lon: f64) -> Option<Stencil> {
+        Some(
+            self.corners(lat, lon)?
+                .into_iter()
+                .map(|(j, i, w, _)| (j, i, w))
+                .collect(),
+        )
+    }
+
+    /// The weighted corners of the cell holding a point, each with its bilinear weight
+    /// and its distance from the point in grid steps.
+    fn corners(&self, lat: f64, lon: f64) -> Option<Corners> {
         let rows = self.lat.bracket(lat)?;
         let cols = self.lon.bracket(lon)?;
-        let mut nodes: Stencil = Vec::with_capacity(4);
+        let mut nodes = Vec::with_capacity(4);
         for &(j, wj) in &rows {
             for &(i, wi) in &cols {
                 let w = wj * wi;
                 if w > 0.0 {
-                    nodes.push((j, i, w));
+                    // A bracket's weight is one less the distance to its node.
+                    nodes.push((j, i, w, (1.0 - wj).hypot(1.0 - wi)));
                 }
             }
         }
@@ -1634,6 +1651,31 @@ impl Block {
 
 /// Bilinear (u, v) at one point from decoded blocks; nodes with a missing u or v are
 /// left out and the remaining weights renormalised.
+/// A sea temperature at a probe: bilinear where every weighted corner of its cell has a
+/// value, else the nearest corner with one within [`super::SEA_PROBE_CELLS`] grid step
+/// (the mean of those equally near), as the GRIB2 reader does; NaN when none.
+fn sea_value(corners: &Corners, block: &Block, values: &[f64]) -> f64 {
+    let value = |j: usize, i: usize| values.get(block.index(j, i)).copied().unwrap_or(f64::NAN);
+    if corners.iter().all(|&(j, i, _, _)| value(j, i).is_finite()) {
+        return corners.iter().map(|&(j, i, w, _)| w * value(j, i)).sum();
+    }
+    let mut sea: Vec<(f64, f64)> = corners
+        .iter()
+        .map(|&(j, i, _, d)| (d, value(j, i)))
+        .filter(|&(d, v)| v.is_finite() && d <= super::SEA_PROBE_CELLS + 1e-9)
+        .collect();
+    sea.sort_by(|a, b| a.0.total_cmp(&b.0));
+    let Some(&(nearest, _)) = sea.first() else {
+        return f64::NAN;
+    };
+    let tied: Vec<f64> = sea
+        .iter()
+        .take_while(|(d, _)| d - nearest < 1e-6)
+        .map(|&(_, v)| v)
+        .collect();
+    tied.iter().sum::<f64>() / tied.len() as f64
+}
+
 fn interpolate(stencil: &Stencil, block: &Block, u: &[f64], v: &[f64]) -> Option<(f64, f64)> {
     let (mut sum_u, mut sum_v, mut sum_w) = (0.0, 0.0, 0.0);
     for &(row, col, weight) in stencil {

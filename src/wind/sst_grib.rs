@@ -4,7 +4,7 @@
 //! water surface, first fixed surface 1) at points its land–sea mask (discipline 2,
 //! category 0, number 0, in the same file) or its bit-map says are sea. A point that
 //! falls on land takes the nearest sea value among the grid points around it (within
-//! [`super::NEAREST_CELLS`] grid steps, as the wave reader does), else has none.
+//! [`super::SEA_PROBE_CELLS`] grid step, as the NetCDF reader does), else has none.
 
 use super::WindFileError;
 use super::grib2::{
@@ -133,7 +133,7 @@ pub fn sample_sst_grib2(
         }
         out.times.push(t);
         for (series, rule) in out.points.iter_mut().zip(&rules[&grid]) {
-            let k = rule.sample(&values);
+            let k = rule.sample_within(&values, super::SEA_PROBE_CELLS);
             series.push(if k.is_finite() {
                 f64::from(k) - 273.15
             } else {

@@ -74,3 +74,19 @@ pub fn wait_until_within(
     }
     harness.run_steps(2);
 }
+
+/// Focuses a labelled field, selects what it holds, types `text`, and steps two frames
+/// so that what was typed can be checked.
+pub fn type_into(
+    harness: &mut Harness<'static, ShelfwindApp>,
+    role: eframe::egui::accesskit::Role,
+    label: &str,
+    text: &str,
+) {
+    harness.get_by_role_and_label(role, label).focus();
+    harness.run_steps(2);
+    harness.key_press_modifiers(eframe::egui::Modifiers::COMMAND, eframe::egui::Key::A);
+    harness.run_steps(1);
+    harness.get_by_role_and_label(role, label).type_text(text);
+    harness.run_steps(2);
+}
