@@ -60,6 +60,8 @@ pub enum Command {
     CoastPack(CoastPackArgs),
     /// Check the upwelling computed from the wind against measured sea temperature.
     Verify(crate::verify::VerifyArgs),
+    /// Fit the response model to a catch log, and say whether the log supports it.
+    Calibrate(crate::calibrate::CalibrateArgs),
 }
 
 /// Arguments of `shelfwind coast-pack`.

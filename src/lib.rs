@@ -20,6 +20,7 @@
 #[cfg(feature = "gui")]
 pub mod app;
 pub mod atomic;
+pub mod calibrate;
 pub mod cli;
 pub mod coast;
 pub mod export;
@@ -29,6 +30,7 @@ pub mod plan;
 pub mod progress;
 pub mod scenario;
 pub mod sst;
+pub mod synthetic;
 #[cfg(feature = "gui")]
 pub mod tilepack;
 pub mod upwelling;

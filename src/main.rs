@@ -35,6 +35,7 @@ fn main() -> ExitCode {
         Some(Command::Inspect { file }) => run_inspect(file),
         Some(Command::CoastPack(args)) => run_coast_pack(args),
         Some(Command::Verify(args)) => shelfwind::verify::run_verify(args),
+        Some(Command::Calibrate(args)) => shelfwind::calibrate::run_calibrate(args),
         None => run_app(None),
     };
     match result {

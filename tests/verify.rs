@@ -3,23 +3,10 @@
 //! wind (README, "Checking against the sea temperature").
 
 use serde_json::Value;
+use shelfwind::synthetic::Lcg;
 use std::fmt::Write as _;
 use std::path::{Path, PathBuf};
 use std::process::Command;
-
-/// A small linear congruential generator (Knuth's MMIX constants): the same numbers on
-/// every run, no dependency.
-struct Lcg(u64);
-
-impl Lcg {
-    fn next(&mut self) -> f64 {
-        self.0 = self
-            .0
-            .wrapping_mul(6_364_136_223_846_793_005)
-            .wrapping_add(1_442_695_040_888_963_407);
-        (self.0 >> 11) as f64 / (1u64 << 53) as f64
-    }
-}
 
 const DAYS: usize = 120;
 
@@ -37,7 +24,7 @@ fn coast(dir: &Path) -> String {
 /// Each day's northerly wind, m/s: calm (2), moderate (6) or a blow (12), at random.
 fn northerlies(rng: &mut Lcg) -> Vec<f64> {
     (0..DAYS)
-        .map(|_| match rng.next() {
+        .map(|_| match rng.next_unit() {
             x if x < 0.5 => 2.0,
             x if x < 0.75 => 6.0,
             _ => 12.0,
@@ -55,12 +42,12 @@ fn blows(rng: &mut Lcg) -> (Vec<f64>, usize) {
         let in_block = d >= 3 && (d - 3) % 8 < 2;
         let first = d >= 3 && (d - 3) % 8 == 0;
         let second_blows =
-            in_block && !first && speeds.last().is_some_and(|s| *s > 5.0) && rng.next() < 0.5;
+            in_block && !first && speeds.last().is_some_and(|s| *s > 5.0) && rng.next_unit() < 0.5;
         if first || second_blows {
             count += usize::from(first);
-            speeds.push(if rng.next() < 0.5 { 9.0 } else { 12.0 });
+            speeds.push(if rng.next_unit() < 0.5 { 9.0 } else { 12.0 });
         } else {
-            speeds.push(if rng.next() < 0.5 { 2.0 } else { 4.0 });
+            speeds.push(if rng.next_unit() < 0.5 { 2.0 } else { 4.0 });
         }
     }
     (speeds, count)
@@ -128,7 +115,7 @@ fn a_sea_that_answers_after_two_days_is_found_at_lag_two() {
     let temps: Vec<f64> = (0..DAYS)
         .map(|d| {
             let blown = if d >= 2 { speeds[d - 2] } else { 2.0 };
-            14.0 - 0.05 * blown * blown + 0.4 * (rng.next() - 0.5)
+            14.0 - 0.05 * blown * blown + 0.4 * (rng.next_unit() - 0.5)
         })
         .collect();
     let json = verify(&[
@@ -177,7 +164,7 @@ fn a_sea_that_ignores_the_wind_shows_no_correlation() {
     let speeds = northerlies(&mut rng);
     let mut other = Lcg(99);
     let temps: Vec<f64> = (0..DAYS)
-        .map(|_| 14.0 + 2.0 * (other.next() - 0.5))
+        .map(|_| 14.0 + 2.0 * (other.next_unit() - 0.5))
         .collect();
     let coast = coast(dir.path());
     let wind = wind_csv(dir.path(), &speeds);

@@ -31,6 +31,29 @@ pub struct ModelSettings {
     /// The check against measured sea temperature (`shelfwind verify`).
     #[serde(default)]
     pub sst_check: SstCheckSettings,
+    /// Where the response settings came from, when a catch log calibrated them.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub calibration: Option<Box<CalibrationRecord>>,
+}
+
+/// A record of the calibration that set the response settings (`shelfwind calibrate`).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CalibrationRecord {
+    /// The catch log's file name.
+    pub log: String,
+    /// Landings used.
+    pub landings: usize,
+    /// Species kept, if the log was filtered.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub species: Option<String>,
+    /// When it was calibrated (UTC day, YYYY-MM-DD).
+    pub calibrated_on: String,
+    /// Spearman's ρ of the default settings on the left-out folds.
+    pub rho_default: f64,
+    /// Cross-validated ρ of the calibrated settings.
+    pub rho_cross_validated: f64,
+    /// Permutation p-value of that ρ.
+    pub p_value: f64,
 }
 
 /// Settings of the check against measured sea temperature.
@@ -62,6 +85,7 @@ impl Default for ModelSettings {
             trip: TripSettings::default(),
             seasons: CoverageSettings::default(),
             sst_check: SstCheckSettings::default(),
+            calibration: None,
         }
     }
 }

@@ -11,7 +11,7 @@ pub use demo::{
     DEMO_FORECAST_FILE, DEMO_SCENARIO_FILE, DEMO_SCENARIO_JSON, DEMO_WAVES_FILE, demo_scenario,
     write_demo,
 };
-pub use document::{ModelSettings, Port, Scenario, SstCheckSettings, Vessel};
+pub use document::{CalibrationRecord, ModelSettings, Port, Scenario, SstCheckSettings, Vessel};
 pub use file::{
     FORMAT_NAME, FORMAT_VERSION, ScenarioError, is_scenario_text, load_scenario, parse_scenario,
     save_scenario, scenario_to_json,

@@ -4,6 +4,7 @@
 //! after each northerly blow; the south buoy's sea answers weakly, three days after, with
 //! more noise and a gap of ten days in its record. Nothing here was measured.
 
+use crate::synthetic::Lcg;
 use chrono::{DateTime, Duration, TimeZone, Utc};
 use std::fmt::Write as _;
 
@@ -27,19 +28,6 @@ fn day(d: usize) -> Duration {
     Duration::days(i64::try_from(d).unwrap_or(0))
 }
 
-/// A linear congruential generator (Knuth's MMIX constants): the same record every time.
-struct Lcg(u64);
-
-impl Lcg {
-    fn next(&mut self) -> f64 {
-        self.0 = self
-            .0
-            .wrapping_mul(6_364_136_223_846_793_005)
-            .wrapping_add(1_442_695_040_888_963_407);
-        (self.0 >> 11) as f64 / (1u64 << 53) as f64
-    }
-}
-
 /// Each day's wind: speed (m/s) and the direction it blows from (degrees true). Calm
 /// spells of 2–5 days from the south-west alternate with northerly blows of 1–4 days.
 fn daily_wind() -> Vec<(f64, f64)> {
@@ -48,12 +36,20 @@ fn daily_wind() -> Vec<(f64, f64)> {
     let mut blowing = false;
     while out.len() < DAYS {
         let (len, speed, from) = if blowing {
-            (1.0 + 4.0 * rng.next(), 8.0 + 5.0 * rng.next(), 330.0)
+            (
+                1.0 + 4.0 * rng.next_unit(),
+                8.0 + 5.0 * rng.next_unit(),
+                330.0,
+            )
         } else {
-            (2.0 + 4.0 * rng.next(), 2.0 + 2.5 * rng.next(), 220.0)
+            (
+                2.0 + 4.0 * rng.next_unit(),
+                2.0 + 2.5 * rng.next_unit(),
+                220.0,
+            )
         };
         for _ in 0..(len as usize) {
-            out.push((speed * (0.9 + 0.2 * rng.next()), from));
+            out.push((speed * (0.9 + 0.2 * rng.next_unit()), from));
         }
         blowing = !blowing;
     }
@@ -104,7 +100,7 @@ pub fn demo_buoy_csv(north: bool) -> String {
         for h in [6, 18] {
             let t = start() + day(d) + Duration::hours(h);
             let gap = !north && (60..70).contains(&d);
-            let value = 12.0 + 0.025 * d as f64 - cooled + noise * (rng.next() - 0.5);
+            let value = 12.0 + 0.025 * d as f64 - cooled + noise * (rng.next_unit() - 0.5);
             if gap {
                 let _ = writeln!(text, "{},{lat},{lon},", t.format("%Y-%m-%dT%H:%MZ"));
             } else {

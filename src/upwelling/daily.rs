@@ -76,6 +76,41 @@ fn mean(values: impl Iterator<Item = f64>) -> Option<f64> {
     (n > 0).then(|| sum / n as f64)
 }
 
+/// What the response model takes from a day: its mean index and pumping (0 without
+/// them) and where it stands in `events`.
+#[must_use]
+pub fn day_input(
+    (mean_index, mean_pumping): (Option<f64>, Option<f64>),
+    phase: EventPhase,
+    events: &[UpwellingEvent],
+) -> DayInput {
+    let length_days = |k: usize| events.get(k).map_or(0.0, |e| e.duration_h / 24.0);
+    DayInput {
+        index_m3s_per_100m: mean_index.unwrap_or(0.0),
+        pumping_m_s: mean_pumping.unwrap_or(0.0),
+        event_length_days: match phase {
+            EventPhase::During { event, .. } => Some(length_days(event)),
+            _ => None,
+        },
+        after_event: match phase {
+            EventPhase::After { event, days_since } => Some((days_since, length_days(event))),
+            _ => None,
+        },
+    }
+}
+
+impl UpwellingDay {
+    /// What the response model took from this day, given the events of its place.
+    #[must_use]
+    pub fn input(&self, events: &[UpwellingEvent]) -> DayInput {
+        day_input(
+            (self.mean_index_m3s_per_100m, self.mean_pumping_m_s),
+            self.phase,
+            events,
+        )
+    }
+}
+
 /// An hourly-or-coarser series of one place, times increasing.
 #[derive(Debug, Clone, Copy)]
 pub struct HourlySeries<'a> {
@@ -114,19 +149,7 @@ pub fn daily_upwelling(
         let mean_pumping = mean(series.pumping_m_s[a..b].iter().filter_map(|p| *p));
         depth.push(mean(series.ekman_depth_m[a..b].iter().filter_map(|p| *p)));
         let phase = phase_at(events, local_noon(tz, day));
-        let length_days = |k: usize| events[k].duration_h / 24.0;
-        inputs.push(DayInput {
-            index_m3s_per_100m: mean_index.unwrap_or(0.0),
-            pumping_m_s: mean_pumping.unwrap_or(0.0),
-            event_length_days: match phase {
-                EventPhase::During { event, .. } => Some(length_days(event)),
-                _ => None,
-            },
-            after_event: match phase {
-                EventPhase::After { event, days_since } => Some((days_since, length_days(event))),
-                _ => None,
-            },
-        });
+        inputs.push(day_input((mean_index, mean_pumping), phase, events));
         means.push(mean_index);
         pumping.push(mean_pumping);
         phases.push(phase);
