@@ -404,9 +404,15 @@ pub fn run_demo(args: &DemoArgs) -> Result<(), CliError> {
     println!(
         "check it against the sea (invented spring and buoys): shelfwind verify {} --wind {} --sst {} {}",
         scenario.display(),
-        at(crate::sst::DEMO_RECORD_WIND_FILE),
-        at(crate::sst::DEMO_BUOY_FILES[0]),
-        at(crate::sst::DEMO_BUOY_FILES[1])
+        at(crate::scenario::DEMO_RECORD_WIND_FILE),
+        at(crate::scenario::DEMO_BUOY_FILES[0]),
+        at(crate::scenario::DEMO_BUOY_FILES[1])
+    );
+    println!(
+        "calibrate on an invented catch log: shelfwind calibrate {} --catch {} --wind {}",
+        scenario.display(),
+        at(crate::scenario::DEMO_CATCH_LOG_FILE),
+        at(crate::scenario::DEMO_RECORD_WIND_FILE)
     );
     Ok(())
 }

@@ -7,9 +7,10 @@
 
 use super::commands::Command;
 use super::state::{Colouring, ShelfwindApp};
-use super::tasks::{PROBLEM_COLOUR, Task, paths_field, start_row};
+use super::tasks::{
+    PROBLEM_COLOUR, ProgressJob, finished, paths_field, start_job, start_row, tool_window_size,
+};
 use crate::coast::{Land, resolve_segments};
-use crate::progress::Progress;
 use crate::scenario::segment_names;
 use crate::upwelling::{CheckSettings, EventCheck};
 use crate::verify::{Verification, Verified, VerifyInput, summary, verify_coast};
@@ -74,7 +75,7 @@ impl CheckResult {
 }
 
 /// A running check: its progress and its task.
-type CheckJob = (Arc<Progress>, Task<Result<CheckResult, String>>);
+type CheckJob = ProgressJob<CheckResult>;
 
 /// The state of the sea-check window.
 #[derive(Default)]
@@ -123,11 +124,10 @@ impl CheckView {
     }
 
     fn poll(&mut self) {
-        let Some(result) = self.job.as_ref().and_then(|(_, task)| task.poll()) else {
+        let Some(result) = finished(&mut self.job) else {
             return;
         };
-        self.job = None;
-        match result.and_then(|r| r) {
+        match result {
             Ok(r) => {
                 let keep = self
                     .selected
@@ -180,6 +180,22 @@ fn missing_codes(text: &str) -> Result<Vec<f64>, String> {
 }
 
 impl ShelfwindApp {
+    /// The wind of a past period, as the tool windows fill it in: the season window's
+    /// record, else the scenario's wind files.
+    pub(super) fn record_wind_text(&self) -> String {
+        if self.season.files_text.trim().is_empty() {
+            self.doc
+                .scenario
+                .wind_files
+                .iter()
+                .map(|p| p.display().to_string())
+                .collect::<Vec<_>>()
+                .join("\n")
+        } else {
+            self.season.files_text.clone()
+        }
+    }
+
     /// Opens the sea-check window; empty file lists are filled in: with the demo's
     /// invented spring and buoys when they lie beside the scenario, else with the season
     /// window's record (or the scenario's forecast) for the wind.
@@ -190,30 +206,21 @@ impl ShelfwindApp {
             return;
         }
         let dir = self.doc.base_dir.clone();
-        let demo_wind = dir.join(crate::sst::DEMO_RECORD_WIND_FILE);
+        let demo_wind = dir.join(crate::scenario::DEMO_RECORD_WIND_FILE);
         if demo_wind.is_file()
-            && crate::sst::DEMO_BUOY_FILES
+            && crate::scenario::DEMO_BUOY_FILES
                 .iter()
                 .all(|f| dir.join(f).is_file())
         {
-            v.wind_text = crate::sst::DEMO_RECORD_WIND_FILE.to_string();
-            v.sst_text = crate::sst::DEMO_BUOY_FILES.join("\n");
+            v.wind_text = crate::scenario::DEMO_RECORD_WIND_FILE.to_string();
+            v.sst_text = crate::scenario::DEMO_BUOY_FILES.join("\n");
             v.filled_from = Some(
                 "Filled in with the demo's invented spring of wind and two invented buoys (synthetic, not measured)."
                     .into(),
             );
-        } else if !self.season.files_text.trim().is_empty() {
-            v.wind_text.clone_from(&self.season.files_text);
-            v.filled_from = Some("Wind filled in from the season window's record.".into());
         } else {
-            v.wind_text = self
-                .doc
-                .scenario
-                .wind_files
-                .iter()
-                .map(|p| p.display().to_string())
-                .collect::<Vec<_>>()
-                .join("\n");
+            let wind = self.record_wind_text();
+            self.check.wind_text = wind;
         }
     }
 
@@ -246,24 +253,21 @@ impl ShelfwindApp {
             cooling_c: settings.sst_check.cooling_c,
         };
         let wind = self.wind_paths(&wind);
-        let progress = Arc::new(Progress::new());
-        let worker = progress.clone();
         let land_model = self.land_model();
-        let task = Task::spawn("sea check", ctx, move || {
-            let land = land_model.as_deref().unwrap_or_else(|| Land::bundled());
-            let segments = resolve_segments(&scenario.segments, land).map_err(|e| e.to_string())?;
-            let sources = load_sources(&wind).map_err(|e| e.to_string())?;
-            let names = segment_names(Some(&scenario), &segments);
-            let checked = verify_coast(&segments, &sources, &input, &settings, &worker)?;
-            Ok(CheckResult::new(checked, names))
-        });
-        match task {
-            Ok(task) => {
-                self.check.message = None;
-                self.check.job = Some((progress, task));
-            }
-            Err(e) => self.check.message = Some(e),
-        }
+        let v = &mut self.check;
+        start_job(
+            (&mut v.job, &mut v.message),
+            ("sea check", ctx),
+            move |progress| {
+                let land = land_model.as_deref().unwrap_or_else(|| Land::bundled());
+                let segments =
+                    resolve_segments(&scenario.segments, land).map_err(|e| e.to_string())?;
+                let sources = load_sources(&wind).map_err(|e| e.to_string())?;
+                let names = segment_names(Some(&scenario), &segments);
+                let checked = verify_coast(&segments, &sources, &input, &settings, progress)?;
+                Ok(CheckResult::new(checked, names))
+            },
+        );
     }
 }
 
@@ -279,14 +283,9 @@ pub(super) fn check_window(
     let mut run = false;
     let settings = app.doc.scenario.settings.sst_check;
     let mut to_map = false;
-    // Room for the map beside it on a large screen; most of a small one.
-    let screen = ctx.content_rect().size();
     egui::Window::new("Sea check: did the sea cool after upwelling?")
         .open(&mut open)
-        .default_size([
-            (screen.x * 0.7).min(980.0),
-            (screen.y - 140.0).clamp(300.0, 700.0),
-        ])
+        .default_size(tool_window_size(ctx, 980.0))
         .vscroll(true)
         .show(ctx, |ui| {
             let v = &mut app.check;
@@ -483,7 +482,7 @@ fn segment_ui(v: &CheckView, result: &CheckResult, ui: &mut egui::Ui) {
 }
 
 /// A plot with no pan or zoom, so the window scrolls over it.
-fn still_plot<'a>(id: &str, height: f32) -> Plot<'a> {
+pub(super) fn still_plot<'a>(id: &str, height: f32) -> Plot<'a> {
     Plot::new(id)
         .height(height)
         .allow_drag(false)
@@ -496,13 +495,15 @@ fn still_plot<'a>(id: &str, height: f32) -> Plot<'a> {
 
 /// How a legend entry is drawn.
 #[derive(Clone, Copy)]
-enum Swatch {
+pub(super) enum Swatch {
+    /// A short line.
     Line,
+    /// A filled square.
     Fill,
 }
 
 /// A legend above a plot, so that it hides no data: a painted swatch and a name each.
-fn legend_row(ui: &mut egui::Ui, entries: &[(Swatch, &str, Color32)]) {
+pub(super) fn legend_row(ui: &mut egui::Ui, entries: &[(Swatch, &str, Color32)]) {
     ui.horizontal_wrapped(|ui| {
         for (swatch, name, colour) in entries {
             let (rect, _) = ui.allocate_exact_size(egui::vec2(16.0, 10.0), egui::Sense::hover());

@@ -19,6 +19,9 @@ pub(super) fn windows_ui(app: &mut ShelfwindApp, ctx: &egui::Context, commands: 
     if app.check.open || app.check.busy() {
         super::check_view::check_window(app, ctx, commands);
     }
+    if app.calibrate.open || app.calibrate.busy() {
+        super::calibrate_view::calibrate_window(app, ctx, commands);
+    }
     super::help::help_window(app, ctx);
     if app.view.boats.open {
         super::boats::boats_window(app, ctx, commands);

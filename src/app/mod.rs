@@ -6,6 +6,7 @@
 
 mod base_map;
 mod boats;
+mod calibrate_view;
 mod check_view;
 mod coast_pack;
 mod commands;

@@ -99,6 +99,10 @@ fn menu_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
                 app.open_check();
                 ui.close();
             }
+            if ui.button("Calibrate on a catch log…").clicked() {
+                app.open_calibrate();
+                ui.close();
+            }
         });
         ui.menu_button("Help", |ui| {
             if ui.button("Guide").clicked() {

@@ -290,6 +290,8 @@ pub struct ShelfwindApp {
     pub season: super::season_view::SeasonView,
     /// The check against measured sea temperature.
     pub check: super::check_view::CheckView,
+    /// The calibration on a catch log.
+    pub calibrate: super::calibrate_view::CalibrateView,
 }
 
 impl ShelfwindApp {
@@ -381,6 +383,7 @@ impl ShelfwindApp {
             commands: Vec::new(),
             season: super::season_view::SeasonView::default(),
             check: super::check_view::CheckView::default(),
+            calibrate: super::calibrate_view::CalibrateView::default(),
         };
         let _ = app.map_memory.set_zoom(9.0);
         if let Some((lat, lon, zoom)) = app.remembered.map_view {

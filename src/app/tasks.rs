@@ -97,3 +97,46 @@ pub(super) fn start_row(
     }
     start
 }
+
+/// Background work with its progress, for a bar and Cancel.
+pub(super) type ProgressJob<T> = (
+    std::sync::Arc<crate::progress::Progress>,
+    Task<Result<T, String>>,
+);
+
+/// Starts `work` in the background with a progress of its own, into `job`; why it could
+/// not start goes to `message`, which is cleared otherwise.
+pub(super) fn start_job<T: Send + 'static>(
+    (job, message): (&mut Option<ProgressJob<T>>, &mut Option<String>),
+    (name, ctx): (&str, &egui::Context),
+    work: impl FnOnce(&crate::progress::Progress) -> Result<T, String> + Send + 'static,
+) {
+    let progress = std::sync::Arc::new(crate::progress::Progress::new());
+    let worker = progress.clone();
+    match Task::spawn(name, ctx, move || work(&worker)) {
+        Ok(task) => {
+            *message = None;
+            *job = Some((progress, task));
+        }
+        Err(e) => *message = Some(e),
+    }
+}
+
+/// The outcome of `job` once it has ended (the job is then gone).
+pub(super) fn finished<T: Send + 'static>(
+    job: &mut Option<ProgressJob<T>>,
+) -> Option<Result<T, String>> {
+    let outcome = job.as_ref().and_then(|(_, task)| task.poll())?;
+    *job = None;
+    Some(outcome.and_then(|r| r))
+}
+
+/// The default size of a tool window: most of a small screen, room for the map beside
+/// it on a large one.
+pub(super) fn tool_window_size(ctx: &egui::Context, widest: f32) -> [f32; 2] {
+    let screen = ctx.content_rect().size();
+    [
+        (screen.x * 0.7).min(widest),
+        (screen.y - 140.0).clamp(300.0, 700.0),
+    ]
+}

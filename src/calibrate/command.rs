@@ -1,7 +1,7 @@
 //! `shelfwind calibrate`: the response model fitted to a catch log, the skill reported,
 //! and a calibrated scenario written only when the log supports it.
 
-use super::{CalibrateOptions, Calibration, FoldKind, calibrate, read_catch_log};
+use super::{CalibrateOptions, Calibration, calibrate, read_catch_log};
 use crate::cli::{CliError, load_coast, write_output};
 use crate::coast::Land;
 use crate::progress::Progress;
@@ -209,38 +209,10 @@ fn table(c: &Calibration) -> String {
     if c.skipped.len() > 10 {
         let _ = writeln!(s, "  … and {} more", c.skipped.len() - 10);
     }
-    let folds = match c.fold_kind {
-        FoldKind::Seasons => "seasons",
-        FoldKind::Months => "months (one season only)",
-    };
-    let _ = writeln!(s, "\nSkill (ρ)                                   value");
-    let _ = writeln!(
-        s,
-        "current settings, whole log                  {:.3}",
-        f.default_rho
-    );
-    let _ = writeln!(
-        s,
-        "current settings, left-out {folds:<17} {}",
-        opt(f.default_rho_folds, 3)
-    );
-    let _ = writeln!(
-        s,
-        "fitted settings, whole log (in-sample)      {:.3}",
-        f.best_rho
-    );
-    let _ = writeln!(
-        s,
-        "fitted, cross-validated ({} folds)           {}",
-        f.folds,
-        opt(f.cv_rho, 3)
-    );
-    let _ = writeln!(
-        s,
-        "permutation p-value ({} shuffles)          {}",
-        f.permutations,
-        opt(f.p_value, 3)
-    );
+    let _ = writeln!(s, "\nSkill (Spearman's ρ)");
+    for (what, value) in c.skill_rows() {
+        let _ = writeln!(s, "  {:>6}  {what}", opt(value, 3));
+    }
     let _ = writeln!(
         s,
         "\nParameter                      current   fitted   range within {} of the best ρ",
@@ -302,7 +274,7 @@ fn json_of(c: &Calibration) -> Value {
         "skipped": c.skipped.iter().map(|(line, why)| json!({"line": line, "why": why})).collect::<Vec<_>>(),
         "filtered_out": c.filtered_out,
         "folds": f.folds,
-        "fold_kind": match c.fold_kind { FoldKind::Seasons => "seasons", FoldKind::Months => "months" },
+        "fold_kind": c.fold_kind.plural(),
         "rho_default": f.default_rho,
         "rho_default_folds": f.default_rho_folds,
         "rho_fitted_in_sample": f.best_rho,

@@ -62,6 +62,17 @@ pub enum FoldKind {
     Months,
 }
 
+impl FoldKind {
+    /// The folds' name, plural.
+    #[must_use]
+    pub fn plural(self) -> &'static str {
+        match self {
+            Self::Seasons => "seasons",
+            Self::Months => "months",
+        }
+    }
+}
+
 /// One landing used, as the results show it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Landing {
@@ -103,21 +114,47 @@ impl Calibration {
             .then(|| self.fit.best.apply(&self.base))
     }
 
+    /// The skill, as lines of a table: what, and its value (`None`: not measured).
+    #[must_use]
+    pub fn skill_rows(&self) -> Vec<(String, Option<f64>)> {
+        let f = &self.fit;
+        let folds = self.fold_kind.plural();
+        vec![
+            (
+                "Current settings, whole log".to_string(),
+                Some(f.default_rho),
+            ),
+            (
+                format!("Current settings, left-out {folds}"),
+                f.default_rho_folds,
+            ),
+            (
+                "Fitted settings, whole log (in-sample)".to_string(),
+                Some(f.best_rho),
+            ),
+            (
+                format!("Fitted settings, cross-validated over {} {folds}", f.folds),
+                f.cv_rho,
+            ),
+            (
+                format!("Permutation p-value ({} shuffles)", f.permutations),
+                f.p_value,
+            ),
+        ]
+    }
+
     /// The verdict in one sentence.
     #[must_use]
     pub fn verdict(&self) -> String {
         let f = &self.fit;
+        let folds = self.fold_kind.plural();
         match (f.cv_rho, f.default_rho_folds, f.p_value) {
             (Some(cv), Some(default), Some(p)) if f.supported() => format!(
-                "The log supports a change: the fitted settings order this log's catch rates with ρ = {cv:.2} on seasons they were not fitted to, against {default:.2} for the current settings, and only {:.1} % of shuffled logs did as well (p = {p:.3}).",
+                "The log supports a change: the fitted settings order this log's catch rates with ρ = {cv:.2} on {folds} they were not fitted to, against {default:.2} for the current settings, and only {:.1} % of shuffled logs did as well (p = {p:.3}).",
                 p * 100.0
             ),
             (Some(cv), Some(default), Some(p)) => format!(
-                "The log does not support a change; nothing is changed: the fitted settings reach ρ = {cv:.2} on left-out {} against {default:.2} for the current settings (a change needs a gain of {MIN_GAIN} or more), and shuffled logs did as well {:.0} % of the time (p = {p:.2}; a change needs p < {MAX_P}).",
-                match self.fold_kind {
-                    FoldKind::Seasons => "seasons",
-                    FoldKind::Months => "months",
-                },
+                "The log does not support a change; nothing is changed: the fitted settings reach ρ = {cv:.2} on left-out {folds} against {default:.2} for the current settings (a change needs a gain of {MIN_GAIN} or more), and shuffled logs did as well {:.0} % of the time (p = {p:.2}; a change needs p < {MAX_P}).",
                 p * 100.0
             ),
             _ => format!(

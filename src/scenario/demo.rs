@@ -22,7 +22,7 @@ pub fn demo_scenario() -> Result<Scenario, ScenarioError> {
 }
 
 /// Writes the demo scenario, its forecast and the record of its sea-temperature check
-/// (a spring of wind and two buoys, [`crate::sst::demo_record_wind_csv`]) into `dir`
+/// (a spring of wind and two buoys, [`crate::scenario::demo_record_wind_csv`]) into `dir`
 /// (created if needed); returns the scenario's and the forecast's paths.
 pub fn write_demo(dir: &Path) -> std::io::Result<(PathBuf, PathBuf)> {
     std::fs::create_dir_all(dir)?;
@@ -31,12 +31,21 @@ pub fn write_demo(dir: &Path) -> std::io::Result<(PathBuf, PathBuf)> {
     write_atomic(&forecast, &demo_forecast_grib2())?;
     write_atomic(&dir.join(DEMO_WAVES_FILE), &demo_waves_grib2())?;
     write_atomic(
-        &dir.join(crate::sst::DEMO_RECORD_WIND_FILE),
-        crate::sst::demo_record_wind_csv().as_bytes(),
+        &dir.join(crate::scenario::DEMO_RECORD_WIND_FILE),
+        crate::scenario::demo_record_wind_csv().as_bytes(),
     )?;
-    for (name, north) in crate::sst::DEMO_BUOY_FILES.iter().zip([true, false]) {
-        write_atomic(&dir.join(name), crate::sst::demo_buoy_csv(north).as_bytes())?;
+    for (name, north) in crate::scenario::DEMO_BUOY_FILES.iter().zip([true, false]) {
+        write_atomic(
+            &dir.join(name),
+            crate::scenario::demo_buoy_csv(north).as_bytes(),
+        )?;
     }
+    let demo = demo_scenario().map_err(std::io::Error::other)?;
+    let ids: Vec<&str> = demo.segments.iter().map(|s| s.id.as_str()).collect();
+    write_atomic(
+        &dir.join(crate::scenario::DEMO_CATCH_LOG_FILE),
+        crate::scenario::demo_catch_log_csv(&ids).as_bytes(),
+    )?;
     write_atomic(&scenario, DEMO_SCENARIO_JSON.as_bytes())?;
     Ok((scenario, forecast))
 }

@@ -3,6 +3,7 @@
 
 mod compose;
 mod demo;
+mod demo_record;
 mod document;
 mod file;
 
@@ -10,6 +11,10 @@ pub use compose::{PlanChoice, plan_scenario, record_settings, segment_names};
 pub use demo::{
     DEMO_FORECAST_FILE, DEMO_SCENARIO_FILE, DEMO_SCENARIO_JSON, DEMO_WAVES_FILE, demo_scenario,
     write_demo,
+};
+pub use demo_record::{
+    DEMO_BUOY_FILES, DEMO_CATCH_LOG_FILE, DEMO_RECORD_WIND_FILE, demo_buoy_csv, demo_catch_log_csv,
+    demo_record_wind_csv,
 };
 pub use document::{CalibrationRecord, ModelSettings, Port, Scenario, SstCheckSettings, Vessel};
 pub use file::{

@@ -6,11 +6,9 @@
 //! nearest-station rule; one without a position applies to every segment.
 
 mod csv;
-mod demo;
 mod nmea;
 
 pub use csv::read_sst_csv;
-pub use demo::{DEMO_BUOY_FILES, DEMO_RECORD_WIND_FILE, demo_buoy_csv, demo_record_wind_csv};
 pub use nmea::{NmeaReport, read_nmea_log};
 
 use crate::coast::LatLon;

@@ -1,8 +1,10 @@
-//! The demo's record for the sea-temperature check: an invented spring of wind on the
-//! demo coast (120 days, hourly, one series for the whole coast) and the sea temperature
-//! of two invented buoys. Both are synthetic: the north buoy's sea cools clearly two days
-//! after each northerly blow; the south buoy's sea answers weakly, three days after, with
-//! more noise and a gap of ten days in its record. Nothing here was measured.
+//! The demo's record of the past: an invented spring of wind on the demo coast (120
+//! days, hourly, one series for the whole coast), the sea temperature of two invented
+//! buoys, and an invented catch log. All synthetic, nothing measured:
+//! - the north buoy's sea cools clearly two days after each northerly blow; the south
+//!   buoy's sea answers weakly, three days after, with more noise and a gap of ten days;
+//! - the catch per hour at each segment follows the blows of 6 to 10 days before, with
+//!   noise: a log with some signal to calibrate on (not the tool's own model).
 
 use crate::synthetic::Lcg;
 use chrono::{DateTime, Duration, TimeZone, Utc};
@@ -12,6 +14,9 @@ use std::fmt::Write as _;
 pub const DEMO_RECORD_WIND_FILE: &str = "north-reach-spring-wind.csv";
 /// File names of the demo's two buoys, north first.
 pub const DEMO_BUOY_FILES: [&str; 2] = ["north-reach-buoy-north.csv", "north-reach-buoy-south.csv"];
+
+/// File name of the demo's catch log.
+pub const DEMO_CATCH_LOG_FILE: &str = "north-reach-catch-log.csv";
 
 /// Days in the record.
 const DAYS: usize = 120;
@@ -110,6 +115,32 @@ pub fn demo_buoy_csv(north: bool) -> String {
                     t.format("%Y-%m-%dT%H:%MZ")
                 );
             }
+        }
+    }
+    text
+}
+
+/// The catch log as CSV (`date,segment_id,catch_kg,effort_h,species`): every third day
+/// from 15 March at each of `segments`, catch per hour rising with the northerly blows
+/// of 6 to 10 days before, times log-normal noise.
+#[must_use]
+pub fn demo_catch_log_csv(segments: &[&str]) -> String {
+    let winds = daily_wind();
+    let push: Vec<f64> = winds
+        .iter()
+        .map(|(s, from)| (s * from.to_radians().cos()).max(0.0).powi(2))
+        .collect();
+    let mut noise = Lcg(4);
+    let mut text = String::from(
+        "# Invented landings for the Shelfwind demo (synthetic, not a real fleet's)\ndate,segment_id,catch_kg,effort_h,species\n",
+    );
+    for d in (14..DAYS).step_by(3) {
+        let drive = (6..=10).map(|k| push[d - k]).sum::<f64>() / 5.0 / 100.0;
+        for id in segments {
+            let hours = 4.0 + (noise.next_unit() * 5.0).floor();
+            let per_hour = 12.0 * (0.3 + drive.min(1.5)) * (0.2 * noise.normal()).exp();
+            let date = (start() + day(d)).date_naive();
+            let _ = writeln!(text, "{date},{id},{:.1},{hours},rockfish", per_hour * hours);
         }
     }
     text
