@@ -590,6 +590,18 @@ pub struct LoadedCoast {
 /// Reads a coast: a scenario file or a GeoJSON file; sea sides not given come from
 /// `land`.
 pub fn load_coast(path: &Path, land: Option<&Land>) -> Result<LoadedCoast, CliError> {
+    // A scenario or a coast is small: a bigger file is refused unread.
+    let limit = crate::scenario::MAX_SCENARIO_BYTES;
+    if let Ok(m) = std::fs::metadata(path)
+        && m.len() > limit
+    {
+        return Err(CliError::App(format!(
+            "{}: the file is {:.1} MB, larger than the {} MB a scenario or a coast may be",
+            path.display(),
+            m.len() as f64 / 1_048_576.0,
+            limit / 1_048_576
+        )));
+    }
     let bytes = std::fs::read(path).map_err(|source| CliError::CoastIo {
         path: path.into(),
         source,

@@ -97,20 +97,24 @@ fn migrate_v0(mut v: Value) -> Value {
             .collect();
         v["segments"] = Value::Array(segments);
     }
+    // Entries that are not objects are left as they are, for validation to name.
     if let Some(Value::Array(ports)) = v.get_mut("ports") {
         for p in ports.iter_mut() {
-            let lat = p.get("lat").cloned().unwrap_or(Value::Null);
-            let lon = p.get("lon").cloned().unwrap_or(Value::Null);
-            p["position"] = json!({"lat_deg": lat, "lon_deg": lon});
+            if let Value::Object(port) = p {
+                let lat = port.get("lat").cloned().unwrap_or(Value::Null);
+                let lon = port.get("lon").cloned().unwrap_or(Value::Null);
+                port.insert("position".into(), json!({"lat_deg": lat, "lon_deg": lon}));
+            }
         }
     }
     if let Some(Value::Array(boats)) = v.get_mut("boats").map(Value::take) {
         let vessels: Vec<Value> = boats
             .into_iter()
             .map(|mut b| {
-                b["cruise_speed_kt"] = b.get("speed_kt").cloned().unwrap_or(Value::Null);
-                if b.get("fuel_l_per_h").is_none() {
-                    b["fuel_l_per_h"] = json!(0.0);
+                if let Value::Object(boat) = &mut b {
+                    let speed = boat.get("speed_kt").cloned().unwrap_or(Value::Null);
+                    boat.insert("cruise_speed_kt".into(), speed);
+                    boat.entry("fuel_l_per_h").or_insert(json!(0.0));
                 }
                 b
             })
@@ -120,9 +124,24 @@ fn migrate_v0(mut v: Value) -> Value {
     v
 }
 
+/// The largest scenario file read, bytes: a co-op's coast of a thousand segments with
+/// long notes takes well under a megabyte.
+pub const MAX_SCENARIO_BYTES: u64 = 16 * 1024 * 1024;
+
+fn too_large(len: u64) -> ScenarioError {
+    ScenarioError::Invalid(format!(
+        "the file is {:.1} MB, larger than the {} MB a scenario may be",
+        len as f64 / 1_048_576.0,
+        MAX_SCENARIO_BYTES / 1_048_576
+    ))
+}
+
 /// Parses scenario text: checks the format and version, migrates older versions and
-/// validates every value.
+/// validates every value. Text over [`MAX_SCENARIO_BYTES`] is refused unread.
 pub fn parse_scenario(text: &str) -> Result<Scenario, ScenarioError> {
+    if text.len() as u64 > MAX_SCENARIO_BYTES {
+        return Err(too_large(text.len() as u64));
+    }
     let value: Value = serde_json::from_str(text).map_err(|e| json_error(&e))?;
     if value.get("format").and_then(Value::as_str) != Some(FORMAT_NAME) {
         return Err(ScenarioError::NotScenario);
@@ -165,6 +184,10 @@ pub fn load_scenario(path: &Path) -> Result<Scenario, ScenarioError> {
         path: path.to_path_buf(),
         source: Box::new(source),
     };
+    let len = std::fs::metadata(path).map_err(|e| wrap(e.into()))?.len();
+    if len > MAX_SCENARIO_BYTES {
+        return Err(wrap(too_large(len)));
+    }
     let bytes = std::fs::read(path).map_err(|e| wrap(e.into()))?;
     let text = String::from_utf8(bytes)
         .map_err(|_| wrap(ScenarioError::Invalid("not UTF-8 text".into())))?;

@@ -18,6 +18,6 @@ pub use demo_record::{
 };
 pub use document::{CalibrationRecord, ModelSettings, Port, Scenario, SstCheckSettings, Vessel};
 pub use file::{
-    FORMAT_NAME, FORMAT_VERSION, ScenarioError, is_scenario_text, load_scenario, parse_scenario,
-    save_scenario, scenario_to_json,
+    FORMAT_NAME, FORMAT_VERSION, MAX_SCENARIO_BYTES, ScenarioError, is_scenario_text,
+    load_scenario, parse_scenario, save_scenario, scenario_to_json,
 };

@@ -491,6 +491,9 @@ pub(super) fn decode_field(msg: &[u8], h: &FieldHeader) -> Result<Vec<f32>, Stri
     }
     let (s5, s6, s7) = (bytes(s5), bytes(s6), bytes(s7));
     check_counts(&s5, points)?;
+    check_group_lengths(&s5, &s7)?;
+    check_jpeg2000(&s5, &s7)?;
+    check_png(&s5, &s7)?;
     std::panic::catch_unwind(move || {
         let decoder =
             grib::Grib2SubmessageDecoder::new(points, s5, s6, s7).map_err(|e| one_line(&e))?;
@@ -531,6 +534,118 @@ fn check_counts(s5: &[u8], grid_points: usize) -> Result<(), String> {
                 "complex packing declares {groups} groups (the last of {last} values) for {encoded} packed values (damaged data?)"
             ));
         }
+    }
+    Ok(())
+}
+
+/// `width` bits (at most 32) at bit `at` of `bytes`, big-endian; `None` past the end.
+fn bits_at(bytes: &[u8], at: usize, width: usize) -> Option<u64> {
+    let mut v = 0u64;
+    for k in at..at + width {
+        let byte = *bytes.get(k / 8)?;
+        v = (v << 1) | u64::from((byte >> (7 - k % 8)) & 1);
+    }
+    Some(v)
+}
+
+/// Complex packing (templates 5.2, 5.3): every group's length, read from the data
+/// section, must be within the packed values, and all of them together too. The decoder
+/// sizes a buffer by each group's length: a damaged length would otherwise ask for
+/// gigabytes.
+fn check_group_lengths(s5: &[u8], s7: &[u8]) -> Result<(), String> {
+    let template = u16_at(s5, 9);
+    if !matches!(template, 2 | 3) || s5.len() < 47 {
+        return Ok(());
+    }
+    let encoded = u64::from(u32_at(s5, 5));
+    let groups = u32_at(s5, 31) as usize;
+    let (value_bits, width_bits) = (usize::from(s5[19]), usize::from(s5[36]));
+    let (reference, increment) = (u64::from(u32_at(s5, 37)), u64::from(s5[41]));
+    let (last, length_bits) = (u64::from(u32_at(s5, 42)), usize::from(s5[46]));
+    let damaged = |what: String| Err(format!("complex packing {what} (damaged data?)"));
+    if value_bits > 32 || width_bits > 32 || length_bits > 32 {
+        return damaged(format!(
+            "uses fields of {value_bits}, {width_bits} and {length_bits} bits (32 at most)"
+        ));
+    }
+    // Where the group lengths start: after the spatial differencing's extra values
+    // (template 5.3), the group references and the group widths, each padded to a byte.
+    let extra = if template == 3 && s5.len() >= 49 {
+        (usize::from(s5[47]) + 1) * usize::from(s5[48])
+    } else {
+        0
+    };
+    let padded = |bits: usize| bits.div_ceil(8) * 8;
+    let start = (5 + extra) * 8 + padded(groups * value_bits) + padded(groups * width_bits);
+    let mut total = last;
+    for k in 0..groups.saturating_sub(1) {
+        let Some(scaled) = bits_at(s7, start + k * length_bits, length_bits) else {
+            return damaged(format!(
+                "data section is cut short in its {groups} group lengths"
+            ));
+        };
+        let length = reference + scaled * increment;
+        total += length;
+        if length > encoded || total > encoded {
+            return damaged(format!(
+                "declares groups of {total} values or more for {encoded} packed values"
+            ));
+        }
+    }
+    Ok(())
+}
+
+/// JPEG 2000 packing (template 5.40): the codestream's image (its SIZ marker) must be
+/// one component of no more pixels than the values packed, in no more tiles. The
+/// decoder sizes its buffers by the image: a damaged size would otherwise take
+/// gigabytes and minutes.
+fn check_jpeg2000(s5: &[u8], s7: &[u8]) -> Result<(), String> {
+    if s5.len() < 11 || u16_at(s5, 9) != 40 {
+        return Ok(());
+    }
+    let encoded = u64::from(u32_at(s5, 5));
+    let damaged = |what: &str| Err(format!("JPEG 2000 packing {what} (damaged data?)"));
+    // The codestream: SOC (FF 4F), then SIZ (FF 51) with its sizes.
+    let cs = s7.get(5..).unwrap_or_default();
+    if cs.len() < 4 + 38 || cs[0..4] != [0xFF, 0x4F, 0xFF, 0x51] {
+        return damaged("does not start with an image header");
+    }
+    let at = |k: usize| u64::from(u32_at(cs, 8 + 4 * k));
+    let (x, y, x0, y0) = (at(0), at(1), at(2), at(3));
+    let (tx, ty, tx0, ty0) = (at(4), at(5), at(6), at(7));
+    let components = u16_at(cs, 40);
+    let pixels = x.saturating_sub(x0).saturating_mul(y.saturating_sub(y0));
+    let tiles = if tx == 0 || ty == 0 {
+        u64::MAX
+    } else {
+        x.saturating_sub(tx0)
+            .div_ceil(tx)
+            .saturating_mul(y.saturating_sub(ty0).div_ceil(ty))
+    };
+    if components != 1 || pixels > encoded.max(1) || tiles > encoded.max(1) {
+        return Err(format!(
+            "JPEG 2000 packing holds an image of {pixels} pixels in {tiles} tiles and {components} components for {encoded} packed values (damaged data?)"
+        ));
+    }
+    Ok(())
+}
+
+/// PNG packing (template 5.41): the image (its IHDR chunk) must have no more pixels
+/// than the values packed; the decoder allocates the whole image first.
+fn check_png(s5: &[u8], s7: &[u8]) -> Result<(), String> {
+    if s5.len() < 11 || u16_at(s5, 9) != 41 {
+        return Ok(());
+    }
+    let encoded = u64::from(u32_at(s5, 5));
+    let png = s7.get(5..).unwrap_or_default();
+    if png.len() < 24 || &png[12..16] != b"IHDR" {
+        return Err("PNG packing does not start with an image header (damaged data?)".into());
+    }
+    let (width, height) = (u64::from(u32_at(png, 16)), u64::from(u32_at(png, 20)));
+    if width.saturating_mul(height) > encoded.max(1) {
+        return Err(format!(
+            "PNG packing holds an image of {width} × {height} pixels for {encoded} packed values (damaged data?)"
+        ));
     }
     Ok(())
 }

@@ -1,0 +1,10 @@
+//! Text through the scenario reader (versions, migration, validation).
+#![no_main]
+
+use libfuzzer_sys::fuzz_target;
+
+fuzz_target!(|data: &[u8]| {
+    if let Ok(text) = std::str::from_utf8(data) {
+        let _ = shelfwind::scenario::parse_scenario(text);
+    }
+});

@@ -1,0 +1,77 @@
+//! Every input the fuzzers (`fuzz/`, cargo fuzz) ever found a crash, a timeout or an
+//! out-of-memory with, run through the same readers as the fuzz target that found it.
+//! Each must now end in a clear error, quickly and in bounded memory.
+
+use shelfwind::coast::LatLon;
+use shelfwind::progress::Progress;
+use std::io::Cursor;
+use std::path::PathBuf;
+
+fn fixture(name: &str) -> Vec<u8> {
+    let p = PathBuf::from(env!("CARGO_MANIFEST_DIR"))
+        .join("tests/fixtures/fuzz")
+        .join(name);
+    std::fs::read(p).expect("fixture")
+}
+
+/// Found by the `grib2` target: a complex-packed field (template 5.3) whose group
+/// lengths in the data section add up to far more values than the message packs. The
+/// GRIB2 decoder sized a buffer by one such length and asked for 31 GB; the lengths are
+/// now checked before decoding.
+#[test]
+fn complex_packing_with_impossible_group_lengths_is_refused() {
+    let data = fixture("grib2_complex_group_length.grib2");
+    let points = [LatLon::new(37.0, -123.0), LatLon::new(38.5, -123.4)];
+    let e =
+        shelfwind::wind::sample_grib2(Cursor::new(&data), &points).expect_err("a damaged field");
+    assert!(e.to_string().contains("damaged"), "{e}");
+    let _ = shelfwind::wind::sample_grib2_members(Cursor::new(&data), &points);
+    let _ = shelfwind::wind::sample_waves_grib2(data.as_slice(), &points, &Progress::new());
+    let _ = shelfwind::wind::sample_sst_grib2(data.as_slice(), &points);
+    let _ = shelfwind::wind::inspect_grib2(data.as_slice());
+}
+
+/// Found by the `scenario` target: a version-0 scenario whose `boats` list holds a
+/// string where a boat should be; the migration indexed it as an object and panicked.
+/// Entries that are not objects are now left for the reading to refuse.
+#[test]
+fn a_version_0_boat_that_is_not_an_object_is_named() {
+    let data = fixture("scenario_v0_boat_not_an_object.json");
+    let text = String::from_utf8(data).expect("text");
+    let e = shelfwind::scenario::parse_scenario(&text).expect_err("refused");
+    assert!(
+        e.to_string().contains("after migrating from version 0"),
+        "{e}"
+    );
+}
+
+/// Found by the `grib2` target (a timeout): a JPEG 2000 packed field (template 5.40)
+/// whose codestream declares an image of millions of pixels for a grid of a few dozen
+/// points; the JPEG 2000 decoder spent seconds and gigabytes on it. The image header is
+/// now checked against the packed values first.
+#[test]
+fn jpeg2000_packing_with_an_impossible_image_is_refused_quickly() {
+    let data = fixture("grib2_jpeg2000_huge_image.grib2");
+    let points = [LatLon::new(37.0, -123.0)];
+    let start = std::time::Instant::now();
+    let e = shelfwind::wind::sample_grib2(Cursor::new(&data), &points).expect_err("damaged");
+    assert!(e.to_string().contains("damaged"), "{e}");
+    let _ = shelfwind::wind::sample_waves_grib2(data.as_slice(), &points, &Progress::new());
+    let _ = shelfwind::wind::sample_sst_grib2(data.as_slice(), &points);
+    assert!(start.elapsed() < std::time::Duration::from_secs(5));
+}
+
+/// Found by the `grib2` target: a PNG packed field (template 5.41) whose image header
+/// declares far more pixels than the grid; the decoder allocated the whole image (an
+/// exabyte). The image header is now checked against the packed values first.
+#[test]
+fn png_packing_with_an_impossible_image_is_refused() {
+    let data = fixture("grib2_png_huge_image.grib2");
+    let points = [LatLon::new(37.0, -123.0)];
+    let e = shelfwind::wind::sample_grib2(Cursor::new(&data), &points).expect_err("damaged");
+    assert!(e.to_string().contains("PNG packing"), "{e}");
+    let _ = shelfwind::wind::sample_grib2_members(Cursor::new(&data), &points);
+    let _ = shelfwind::wind::sample_waves_grib2(data.as_slice(), &points, &Progress::new());
+    let _ = shelfwind::wind::sample_sst_grib2(data.as_slice(), &points);
+    let _ = shelfwind::wind::inspect_grib2(data.as_slice());
+}
