@@ -131,6 +131,17 @@ fn read_scenario_file(path: PathBuf) -> FileResult {
 
 /// Reads a GeoJSON coast.
 fn read_coast_file(path: &Path) -> FileResult {
+    let limit = crate::scenario::MAX_SCENARIO_BYTES;
+    if let Ok(m) = std::fs::metadata(path)
+        && m.len() > limit
+    {
+        return Err(format!(
+            "The coast was not imported; nothing changed.\n\nthe file is {:.1} MB, larger than the {} MB a coast may be: {}",
+            m.len() as f64 / 1_048_576.0,
+            limit / 1_048_576,
+            path.display()
+        ));
+    }
     let text = std::fs::read_to_string(path)
         .map_err(|e| format!("The coast was not imported: {e}: {}", path.display()))?;
     read_coast_geojson(&text)
