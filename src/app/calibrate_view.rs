@@ -10,7 +10,8 @@ use super::commands::Command;
 use super::edit::Edit;
 use super::state::ShelfwindApp;
 use super::tasks::{
-    PROBLEM_COLOUR, ProgressJob, finished, paths_field, start_job, start_row, tool_window_size,
+    PROBLEM_COLOUR, ProgressJob, finished, paths_field, paths_in, start_job, start_row,
+    tool_window_size,
 };
 use crate::calibrate::{
     CalibrateOptions, Calibration, Params, RANGE_RHO, calibrate_scenario, calibrated_scenario,
@@ -125,14 +126,7 @@ impl ShelfwindApp {
 
     fn start_calibrate_job(&mut self, ctx: &egui::Context) {
         let log = self.calibrate.log_text.trim().to_string();
-        let wind: Vec<PathBuf> = self
-            .calibrate
-            .wind_text
-            .lines()
-            .map(str::trim)
-            .filter(|l| !l.is_empty())
-            .map(PathBuf::from)
-            .collect();
+        let wind = paths_in(&self.calibrate.wind_text);
         if log.is_empty() || wind.is_empty() {
             self.calibrate.message = Some(
                 "Give the catch log and at least one wind file of its period, one path per line."

@@ -8,7 +8,8 @@
 use super::commands::Command;
 use super::state::{Colouring, ShelfwindApp};
 use super::tasks::{
-    PROBLEM_COLOUR, ProgressJob, finished, paths_field, start_job, start_row, tool_window_size,
+    PROBLEM_COLOUR, ProgressJob, finished, paths_field, paths_in, start_job, start_row,
+    tool_window_size,
 };
 use crate::coast::{Land, resolve_segments};
 use crate::scenario::segment_names;
@@ -21,7 +22,6 @@ use egui_plot::{
     AxisHints, Bar, BarChart, GridMark, HPlacement, HoverPosition, Line, Plot, PlotPoints, Polygon,
 };
 use std::collections::HashMap;
-use std::path::PathBuf;
 use std::sync::Arc;
 
 const INDEX_COLOUR: Color32 = Color32::from_rgb(0, 90, 181);
@@ -153,14 +153,6 @@ impl CheckView {
     }
 }
 
-fn lines(text: &str) -> Vec<PathBuf> {
-    text.lines()
-        .map(str::trim)
-        .filter(|l| !l.is_empty())
-        .map(PathBuf::from)
-        .collect()
-}
-
 /// Numbers typed comma-separated; the first that is not a number is named.
 fn missing_codes(text: &str) -> Result<Vec<f64>, String> {
     text.split(',')
@@ -225,7 +217,10 @@ impl ShelfwindApp {
     }
 
     fn start_check_job(&mut self, ctx: &egui::Context) {
-        let (wind, sst) = (lines(&self.check.wind_text), lines(&self.check.sst_text));
+        let (wind, sst) = (
+            paths_in(&self.check.wind_text),
+            paths_in(&self.check.sst_text),
+        );
         let problem = if wind.is_empty() {
             Some("Give at least one wind file of the period, one path per line.".to_string())
         } else if sst.is_empty() {

@@ -427,14 +427,7 @@ fn has_extension(path: &Path, ext: &str) -> bool {
 
 impl ShelfwindApp {
     fn start_season_job(&mut self, ctx: &egui::Context) {
-        let files: Vec<PathBuf> = self
-            .season
-            .files_text
-            .lines()
-            .map(str::trim)
-            .filter(|l| !l.is_empty())
-            .map(PathBuf::from)
-            .collect();
+        let files = super::tasks::paths_in(&self.season.files_text);
         if files.is_empty() {
             self.season.record_message =
                 Some("Give at least one wind file of the record, one path per line.".into());

@@ -57,6 +57,15 @@ impl<T: Send + 'static> Task<T> {
 /// Colour of messages that say something went wrong.
 pub(super) const PROBLEM_COLOUR: egui::Color32 = egui::Color32::from_rgb(150, 40, 0);
 
+/// The paths in a field of file paths, one per line (blank lines skipped).
+pub(super) fn paths_in(text: &str) -> Vec<std::path::PathBuf> {
+    text.lines()
+        .map(str::trim)
+        .filter(|l| !l.is_empty())
+        .map(std::path::PathBuf::from)
+        .collect()
+}
+
 /// A labelled field of file paths, one per line.
 pub(super) fn paths_field(ui: &mut egui::Ui, label: &str, text: &mut String, rows: usize) {
     let label = ui.label(label);
