@@ -11,6 +11,7 @@ mkdir -p "$work"
 case $target in
   grib2|land_file|any_file) dict=dict/binary.dict ;;
   coast_geojson|scenario) dict=dict/json.dict ;;
+  tilepack) dict=dict/tilepack.dict ;;
   *) dict=dict/text.dict ;;
 esac
 RUSTC_BOOTSTRAP=1 cargo fuzz run -O "$target" "$work" "corpus/$target" -- \

@@ -11,7 +11,7 @@
 //! - [`upwelling`]: the index per segment over time;
 //! - [`export`]: tables for other tools;
 //! - [`cli`]: the command line;
-//! - `tilepack` (feature `gui`): offline map packs (tile folder, MBTiles, PMTiles) read
+//! - `tilepack` (feature `map-packs`, part of `gui`): offline map packs (tile folder, MBTiles, PMTiles) read
 //!   tile by tile;
 //! - `app` (feature `gui`): the desktop app.
 //!
@@ -31,7 +31,7 @@ pub mod progress;
 pub mod scenario;
 pub mod sst;
 pub mod synthetic;
-#[cfg(feature = "gui")]
+#[cfg(feature = "map-packs")]
 pub mod tilepack;
 pub mod upwelling;
 pub mod verify;

@@ -65,8 +65,14 @@ fn timed(mut command: Command) -> Duration {
     start.elapsed()
 }
 
+/// The kill tests time their kills by how long a run takes: they run one at a time.
+static ONE_AT_A_TIME: std::sync::Mutex<()> = std::sync::Mutex::new(());
+
 #[test]
 fn a_kill_at_any_moment_leaves_the_old_file_or_the_new_one() {
+    let _one = ONE_AT_A_TIME
+        .lock()
+        .unwrap_or_else(std::sync::PoisonError::into_inner);
     let dir = tempfile::tempdir().expect("temp dir");
     // The outputs, whole, and how long each run takes.
     let whole = dir.path().join("whole");
@@ -154,4 +160,91 @@ fn a_write_that_runs_out_of_room_keeps_the_old_file() {
         .filter(|e| e.file_name().to_string_lossy().starts_with(".shelfwind-"))
         .count();
     assert_eq!(strays, 0, "the failed write cleans up after itself");
+}
+
+/// The directory a child copy of this test binary saves into (see below).
+const SAVE_LOOP_DIR: &str = "SHELFWIND_TEST_SAVE_LOOP_DIR";
+
+/// Two different scenarios as the app saves them.
+fn two_scenarios() -> [shelfwind::scenario::Scenario; 2] {
+    let a = shelfwind::scenario::demo_scenario().expect("demo");
+    let mut b = a.clone();
+    b.name = "A renamed co-op plan".into();
+    b.segments.truncate(b.segments.len() / 2);
+    [a, b]
+}
+
+/// Not a test of its own: run by `a_kill_while_the_app_saves_leaves_whole_files` as a
+/// child process (this binary again, with `SAVE_LOOP_DIR` set), it saves the two
+/// scenarios in turn through the app's save (`save_scenario`, keeping a backup) and its
+/// recovery writer until it is killed. Without the variable it returns at once.
+#[test]
+fn saves_scenarios_until_killed() {
+    let Some(dir) = std::env::var_os(SAVE_LOOP_DIR) else {
+        return;
+    };
+    let dir = Path::new(&dir);
+    let scenarios = two_scenarios();
+    let start = Instant::now();
+    for k in 0usize.. {
+        let s = &scenarios[k % 2];
+        shelfwind::scenario::save_scenario(&dir.join("plan.shelfwind.json"), s).expect("save");
+        shelfwind::app::write_recovery(&dir.join("recovery.shelfwind.json"), s).expect("recovery");
+        // A guard should the parent fail to kill it.
+        if start.elapsed() > Duration::from_secs(20) {
+            break;
+        }
+    }
+}
+
+/// The app's scenario save (with its backup) and its recovery file, killed (SIGKILL) at
+/// random moments 200 times while saving two different scenarios in turn: the saved
+/// file, its backup and the recovery file are each absent or one of the two scenarios
+/// whole, never a mix, and each reads back as a scenario.
+#[test]
+fn a_kill_while_the_app_saves_leaves_whole_files() {
+    let _one = ONE_AT_A_TIME
+        .lock()
+        .unwrap_or_else(std::sync::PoisonError::into_inner);
+    let dir = tempfile::tempdir().expect("temp dir");
+    let whole: Vec<String> = two_scenarios()
+        .iter()
+        .map(|s| shelfwind::scenario::scenario_to_json(s).expect("json"))
+        .collect();
+    let mut rng = Lcg(7);
+    let mut saves_seen = 0;
+    for k in 0..200 {
+        let mut child = Command::new(std::env::current_exe().expect("this test binary"));
+        child
+            .args([
+                "saves_scenarios_until_killed",
+                "--exact",
+                "--test-threads=1",
+            ])
+            .env(SAVE_LOOP_DIR, dir.path())
+            .stdout(Stdio::null())
+            .stderr(Stdio::null());
+        // Long enough to start and save a few times, at a different moment each time.
+        let killed = run_or_kill(child, &mut rng, Duration::from_millis(60));
+        assert!(killed, "run {k} ended by itself");
+        for name in [
+            "plan.shelfwind.json",
+            "plan.shelfwind.json.bak",
+            "recovery.shelfwind.json",
+        ] {
+            if let Ok(text) = std::fs::read_to_string(dir.path().join(name)) {
+                assert!(
+                    whole.contains(&text),
+                    "after kill {k}, {name} is neither scenario whole ({} bytes)",
+                    text.len()
+                );
+                shelfwind::scenario::parse_scenario(&text).expect("reads back");
+                saves_seen += 1;
+            }
+        }
+    }
+    assert!(
+        saves_seen > 300,
+        "only {saves_seen} files seen in 200 kills"
+    );
 }

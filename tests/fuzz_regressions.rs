@@ -75,3 +75,19 @@ fn png_packing_with_an_impossible_image_is_refused() {
     let _ = shelfwind::wind::sample_sst_grib2(data.as_slice(), &points);
     let _ = shelfwind::wind::inspect_grib2(data.as_slice());
 }
+
+/// Found by the `tilepack` target: a PMTiles header whose metadata offset and length add
+/// up past 2^64, so the sum wrapped round to within the file and the reader asked for a
+/// buffer of 2^64 bytes (capacity overflow). Every part is now checked against the
+/// file's length, without wrapping, before anything is allocated for it.
+#[cfg(feature = "map-packs")]
+#[test]
+fn a_map_pack_part_past_the_end_of_the_file_is_refused() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("pack.pmtiles");
+    std::fs::write(&path, fixture("tilepack_metadata_past_end.pmtiles")).expect("write");
+    let e = shelfwind::tilepack::open_pack(&path)
+        .err()
+        .expect("a damaged pack");
+    assert!(e.to_string().starts_with("damaged PMTiles file"), "{e}");
+}

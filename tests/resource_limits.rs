@@ -122,3 +122,35 @@ fn a_netcdf_dimension_of_two_to_the_63_is_refused() {
         "{summary:?}"
     );
 }
+
+/// A PMTiles map pack whose root directory is 70 KB of gzip that unpacks to 70 MB: the
+/// reader stops at 64 MB and says so, rather than unpacking whatever a file claims.
+#[cfg(feature = "map-packs")]
+#[test]
+fn a_map_pack_directory_that_unpacks_beyond_64_megabytes_is_refused() {
+    use std::io::Write;
+    let mut gz = flate2::write::GzEncoder::new(Vec::new(), flate2::Compression::best());
+    gz.write_all(&vec![0u8; 70 << 20]).expect("gzip");
+    let root = gz.finish().expect("gzip");
+    // PMTiles v3 header (127 bytes, little-endian): root directory right after it, no
+    // metadata, leaves or tiles; internal compression gzip (2), PNG tiles (2).
+    let mut file = b"PMTiles\x03".to_vec();
+    file.resize(127, 0);
+    let mut put = |at: usize, v: u64| file[at..at + 8].copy_from_slice(&v.to_le_bytes());
+    put(8, 127);
+    put(16, root.len() as u64);
+    for at in [24, 40, 56] {
+        put(at, 127 + root.len() as u64);
+    }
+    file[97] = 2;
+    file[98] = 1;
+    file[99] = 2;
+    file.extend_from_slice(&root);
+    let dir = tempfile::tempdir().expect("temp dir");
+    let path = dir.path().join("bomb.pmtiles");
+    std::fs::write(&path, &file).expect("write");
+    let e = quickly("the gzip bomb", || shelfwind::tilepack::open_pack(&path))
+        .err()
+        .expect("refused");
+    assert!(e.to_string().contains("more than 64 MB"), "{e}");
+}

@@ -476,8 +476,9 @@ impl ShelfwindApp {
     }
 }
 
-/// Writes the recovery file.
-fn write_recovery(path: &Path, scenario: &Scenario) -> Result<(), String> {
+/// Writes `scenario` as the recovery file at `path`, whole or not at all (public for the
+/// kill test in `tests/crash_safe.rs`).
+pub fn write_recovery(path: &Path, scenario: &Scenario) -> Result<(), String> {
     let text = scenario_to_json(scenario).map_err(|e| e.to_string())?;
     if let Some(dir) = path.parent() {
         std::fs::create_dir_all(dir)

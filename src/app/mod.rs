@@ -32,6 +32,7 @@ mod tasks;
 mod wind_files;
 
 pub use commands::{Command, FileAction};
+pub use files::write_recovery;
 pub use messages::{Message, Subject};
 pub use state::{AppOptions, BaseLayer, Colouring, Remembered, SavedPack, ShelfwindApp, Tool};
 

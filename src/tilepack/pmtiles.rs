@@ -32,10 +32,16 @@ struct Header {
 /// A PMTiles file.
 pub struct PmTilesPack {
     file: File,
+    /// The file's length in bytes: no part is read past it.
+    size: u64,
     header: Header,
     root: Vec<Entry>,
     info: PackInfo,
 }
+
+/// The most a compressed part (a directory, the metadata or a tile) may unpack to: far
+/// above any real one, and a bound on what a small damaged file can make the app allocate.
+const MAX_UNPACKED_BYTES: u64 = 64 << 20;
 
 fn damaged(what: impl Into<String>) -> PackError {
     PackError::Pmtiles(what.into())
@@ -60,8 +66,15 @@ fn decompress(code: u8, bytes: Vec<u8>) -> Result<Vec<u8>, PackError> {
         2 => {
             let mut out = Vec::new();
             flate2::read::GzDecoder::new(bytes.as_slice())
+                .take(MAX_UNPACKED_BYTES + 1)
                 .read_to_end(&mut out)
                 .map_err(|e| damaged(format!("gzip data cannot be read: {e}")))?;
+            if out.len() as u64 > MAX_UNPACKED_BYTES {
+                return Err(damaged(format!(
+                    "a part unpacks to more than {} MB",
+                    MAX_UNPACKED_BYTES >> 20
+                )));
+            }
             Ok(out)
         }
         3 => Err(PackError::Compression("brotli")),
@@ -129,7 +142,7 @@ fn parse_directory(mut b: &[u8]) -> Result<Vec<Entry>, PackError> {
     for k in 0..n {
         let v = varint(&mut b)?;
         entries[k].offset = match (k, v) {
-            (k, 0) if k > 0 => entries[k - 1].offset + entries[k - 1].length,
+            (k, 0) if k > 0 => entries[k - 1].offset.saturating_add(entries[k - 1].length),
             _ => v.saturating_sub(1),
         };
     }
@@ -190,12 +203,17 @@ impl PmTilesPack {
             tile_compression: h[98],
         };
         let ends = [
-            header.root.0 + header.root.1,
-            header.metadata.0 + header.metadata.1,
-            u64_at(&h, 40) + u64_at(&h, 48),
-            u64_at(&h, 56) + u64_at(&h, 64),
+            header.root.0.checked_add(header.root.1),
+            header.metadata.0.checked_add(header.metadata.1),
+            u64_at(&h, 40).checked_add(u64_at(&h, 48)),
+            u64_at(&h, 56).checked_add(u64_at(&h, 64)),
         ];
-        if let Some(end) = ends.into_iter().max().filter(|end| *end > size) {
+        if let Some(end) = ends
+            .into_iter()
+            .map(|end| end.unwrap_or(u64::MAX))
+            .max()
+            .filter(|end| *end > size)
+        {
             return Err(damaged(format!(
                 "the file has {size} bytes; its header says it has {end}"
             )));
@@ -203,6 +221,7 @@ impl PmTilesPack {
         let format = tile_format(h[99])?;
         let mut pack = Self {
             file,
+            size,
             header,
             root: Vec::new(),
             info: PackInfo {
@@ -229,7 +248,15 @@ impl PmTilesPack {
         Ok(pack)
     }
 
+    /// The `length` bytes from byte `offset`; a part that would run past the end of the
+    /// file is refused before anything is allocated for it.
     fn read_at(&mut self, offset: u64, length: u64) -> Result<Vec<u8>, PackError> {
+        if offset.checked_add(length).is_none_or(|end| end > self.size) {
+            return Err(damaged(format!(
+                "a part of {length} bytes at byte {offset} runs past the end of the file ({} bytes)",
+                self.size
+            )));
+        }
         let length = usize::try_from(length).map_err(|_| damaged("a part is too long"))?;
         let mut out = vec![0u8; length];
         self.file.seek(SeekFrom::Start(offset))?;
@@ -290,7 +317,8 @@ impl TileStore for PmTilesPack {
         for _ in 0..3 {
             match entry {
                 Some(e) if e.run_length == 0 => {
-                    let leaf = self.directory(self.header.leaves_offset + e.offset, e.length)?;
+                    let at = self.header.leaves_offset.saturating_add(e.offset);
+                    let leaf = self.directory(at, e.length)?;
                     entry = find(&leaf, id);
                 }
                 _ => break,
@@ -298,7 +326,8 @@ impl TileStore for PmTilesPack {
         }
         match entry {
             Some(e) if e.run_length > 0 => {
-                let bytes = self.read_at(self.header.tiles_offset + e.offset, e.length)?;
+                let at = self.header.tiles_offset.saturating_add(e.offset);
+                let bytes = self.read_at(at, e.length)?;
                 decompress(self.header.tile_compression, bytes).map(Some)
             }
             _ => Ok(None),
