@@ -1,4 +1,5 @@
-//! Benchmark of long records: 20 segments × 30 years of hourly station wind from CSV, and
+//! Benchmark of long records: 100 segments × 40 years of hourly station wind from CSV
+//! (through `analyse_record`, as `shelfwind season` and the app's season window), and
 //! 100 segments × one year of hourly GRIB2 on a 0.25° regional grid in twelve monthly
 //! files (read in parallel). Run with `cargo bench --bench season`.
 
@@ -7,7 +8,8 @@ use shelfwind::coast::{LatLon, SeaSide, Segment, destination};
 use shelfwind::physics::Wind;
 use shelfwind::progress::Progress;
 use shelfwind::upwelling::{
-    CoverageSettings, EventSettings, IndexSettings, analyse_seasons, index_series,
+    CoverageSettings, EventSettings, IndexSettings, RecordSettings, analyse_record,
+    analyse_seasons, index_series,
 };
 use shelfwind::wind::{GridField, assign_wind_merged, encode_wind_message, load_sources};
 use std::fmt::Write as _;
@@ -57,13 +59,25 @@ fn analyse(segs: &[Segment], winds: &[shelfwind::wind::SegmentWind]) -> usize {
     seasons
 }
 
+/// The process's peak resident memory (Linux), as text.
+fn peak_memory() -> String {
+    std::fs::read_to_string("/proc/self/status")
+        .ok()
+        .and_then(|s| {
+            s.lines()
+                .find(|l| l.starts_with("VmHWM:"))
+                .map(|l| l.trim_start_matches("VmHWM:").trim().to_string())
+        })
+        .unwrap_or_else(|| "unknown".into())
+}
+
 fn main() {
     let dir = tempfile::tempdir().expect("temp dir");
 
-    // 30 years of hourly station wind.
+    // 40 years of hourly station wind.
     let csv = dir.path().join("station.csv");
     let t0 = Utc
-        .with_ymd_and_hms(1995, 1, 1, 0, 0, 0)
+        .with_ymd_and_hms(1985, 1, 1, 0, 0, 0)
         .single()
         .expect("date");
     let hours = (Utc
@@ -85,16 +99,24 @@ fn main() {
         );
     }
     std::fs::write(&csv, &text).expect("write");
-    let segs = segments(20);
+    let segs = segments(100);
+    let names: Vec<String> = segs.iter().map(|s| s.id.clone()).collect();
     let start = Instant::now();
     let sources = load_sources(std::slice::from_ref(&csv)).expect("csv");
-    let winds = assign_wind_merged(&sources, &segs, &Progress::new()).expect("covered");
     let read_s = start.elapsed().as_secs_f64();
-    let seasons = analyse(&segs, &winds);
+    let record = RecordSettings {
+        index: IndexSettings::default(),
+        events: EventSettings::default(),
+        coverage: CoverageSettings::default(),
+        years: None,
+    };
+    let out = analyse_record(&segs, &names, &sources, &record, &Progress::new()).expect("seasons");
+    let seasons: usize = out.iter().map(|s| s.years.len()).sum();
     let total_s = start.elapsed().as_secs_f64();
     println!(
-        "csv: 20 segments × 30 years hourly ({hours} rows, {} MB): read {read_s:.1} s, index and {seasons} seasons analysed, {total_s:.1} s in all",
-        text.len() / 1_000_000
+        "csv: 100 segments × 40 years hourly ({hours} rows, {} MB): read {read_s:.1} s, index and {seasons} seasons analysed, {total_s:.1} s in all; peak memory {}",
+        text.len() / 1_000_000,
+        peak_memory()
     );
 
     // One year of hourly GRIB2, 0.25° over 10° × 10°, twelve monthly files.

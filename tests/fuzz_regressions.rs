@@ -91,3 +91,63 @@ fn a_map_pack_part_past_the_end_of_the_file_is_refused() {
         .expect("a damaged pack");
     assert!(e.to_string().starts_with("damaged PMTiles file"), "{e}");
 }
+
+/// Found by the `grib2` target: a Gaussian grid (template 3.40) declaring thousands of
+/// parallels; finding its latitudes took over a second per message, as Newton's method
+/// could run a hundred steps per root. Now at most twelve steps (three or four converge),
+/// the latitudes are shared by the messages of one grid, and N above 4,000 is refused.
+#[test]
+fn a_gaussian_grid_of_huge_n_ends_quickly() {
+    let data = fixture("grib2_gaussian_n_huge.grib2");
+    let points = [LatLon::new(37.0, -123.0)];
+    let start = std::time::Instant::now();
+    let _ = shelfwind::wind::inspect_grib2(data.as_slice());
+    let _ = shelfwind::wind::sample_grib2(Cursor::new(&data), &points);
+    let _ = shelfwind::wind::sample_grib2_members(Cursor::new(&data), &points);
+    let _ = shelfwind::wind::sample_waves_grib2(data.as_slice(), &points, &Progress::new());
+    let _ = shelfwind::wind::sample_sst_grib2(data.as_slice(), &points);
+    // A generous bound for a debug build; the fuzzer's limit was 1 s in release.
+    assert!(start.elapsed().as_secs() < 30, "{:?}", start.elapsed());
+}
+
+/// The Gaussian latitudes at the largest N read, with Newton's steps bounded, against
+/// ecCodes 2.50 (PyPI `eccodes`, `codes_get_gaussian_latitudes(4000)`).
+#[test]
+fn gaussian_latitudes_at_the_limit_match_eccodes() {
+    let n = shelfwind::wind::MAX_GAUSSIAN_N;
+    assert_eq!(n, 4000);
+    let lats = shelfwind::wind::gaussian_latitudes(n);
+    assert_eq!(lats.len(), 8000);
+    for (k, want) in [
+        (0, 89.982_777_782_040_87),
+        (1, 89.960_467_823_497_68),
+        (1999, 45.008_436_860_764_41),
+        (3999, 0.011_249_296_896_974_04),
+        (7999, -89.982_777_782_040_87),
+    ] {
+        assert!(
+            (lats[k] - want).abs() < 1e-9,
+            "row {k}: {} against {want}",
+            lats[k]
+        );
+    }
+}
+
+/// Found by the `grib2` target: a complex-packed field with spatial differencing
+/// (template 5.3) of order 255. The GRIB2 decoder counted its descriptors as order + 1
+/// in a byte (0) and indexed before the start of a slice: a panic, caught, whose report
+/// took over a second. Code Table 5.6 has orders 1 and 2: anything else is refused first.
+#[test]
+fn spatial_differencing_of_order_255_is_refused() {
+    let data = fixture("grib2_spatial_differencing_order_255.grib2");
+    let points = [LatLon::new(37.0, -123.0)];
+    let e = shelfwind::wind::sample_grib2(Cursor::new(&data), &points).expect_err("refused");
+    let _ = shelfwind::wind::inspect_grib2(data.as_slice());
+    let _ = shelfwind::wind::sample_waves_grib2(data.as_slice(), &points, &Progress::new());
+    let _ = shelfwind::wind::sample_sst_grib2(data.as_slice(), &points);
+    assert!(
+        e.to_string()
+            .contains("spatial differencing of order 255 (Code Table 5.6 has orders 1 and 2)"),
+        "{e}"
+    );
+}

@@ -137,9 +137,11 @@ pub fn analyse_record(
     settings: &RecordSettings,
     progress: &crate::progress::Progress,
 ) -> Result<Vec<SegmentSeasons>, RecordError> {
+    use rayon::prelude::*;
     let winds = crate::wind::assign_wind_merged(sources, segments, progress)?;
+    // Segments are independent: indexed and analysed on every core, kept in order.
     let series = segments
-        .iter()
+        .par_iter()
         .zip(&winds)
         .zip(names)
         .map(|((seg, wind), name)| {
@@ -162,8 +164,9 @@ pub fn analyse_segments(
     coverage: &CoverageSettings,
     events: &EventSettings,
 ) -> Vec<SegmentSeasons> {
+    use rayon::prelude::*;
     series
-        .iter()
+        .par_iter()
         .map(|(name, s)| {
             let southern = s.midpoint.lat_deg < 0.0;
             let (years, climatology) = analyse_seasons(

@@ -443,6 +443,22 @@ struct Gathered {
     only: Option<(u8, u8)>,
 }
 
+/// A message's number, reference time and its wind fields decoded (or why not).
+type DecodedMessage = (usize, DateTime<Utc>, Result<Vec<SampledField>, String>);
+
+/// A message whose wind fields are ready to decode.
+struct Prepared {
+    message: Message,
+    ref_time: DateTime<Utc>,
+    /// Its wind fields only.
+    headers: Vec<FieldHeader>,
+}
+
+/// How many messages, or bytes of them, are decoded at once: enough to keep every core
+/// busy, little enough to keep memory bounded by a few messages per core.
+const BATCH_MESSAGES: usize = 32;
+const BATCH_BYTES: usize = 64 << 20;
+
 /// How the requested points are sampled on one grid.
 struct GridRules {
     /// Number of grid values.
@@ -497,7 +513,9 @@ pub(super) fn decode_field(msg: &[u8], h: &FieldHeader) -> Result<Vec<f32>, Stri
     std::panic::catch_unwind(move || {
         let decoder =
             grib::Grib2SubmessageDecoder::new(points, s5, s6, s7).map_err(|e| one_line(&e))?;
-        let values: Vec<f32> = decoder.dispatch().map_err(|e| one_line(&e))?.collect();
+        // Sized once: the decoder's iterators do not tell their length.
+        let mut values: Vec<f32> = Vec::with_capacity(points);
+        values.extend(decoder.dispatch().map_err(|e| one_line(&e))?);
         Ok(values)
     })
     .map_err(|_| "the GRIB2 decoder failed on this field (damaged data?)".to_string())?
@@ -532,6 +550,22 @@ fn check_counts(s5: &[u8], grid_points: usize) -> Result<(), String> {
         if groups > encoded.max(1) || last > encoded.max(1) {
             return Err(format!(
                 "complex packing declares {groups} groups (the last of {last} values) for {encoded} packed values (damaged data?)"
+            ));
+        }
+    }
+    // Template 5.3: spatial differencing of order 1 or 2 (Code Table 5.6, octet 48) with
+    // 1 to 4 octets per extra descriptor (octet 49). The decoder sized its descriptors by
+    // order + 1 in a byte, so order 255 made it index before the start of a slice.
+    if template == 3 && s5.len() >= 49 {
+        let (order, octets) = (s5[47], s5[48]);
+        if !matches!(order, 1 | 2) {
+            return Err(format!(
+                "spatial differencing of order {order} (Code Table 5.6 has orders 1 and 2)"
+            ));
+        }
+        if !(1..=4).contains(&octets) {
+            return Err(format!(
+                "spatial differencing descriptors of {octets} octets each (1 to 4 are possible)"
             ));
         }
     }
@@ -651,32 +685,61 @@ fn check_png(s5: &[u8], s7: &[u8]) -> Result<(), String> {
 }
 
 impl Gathered {
-    /// Takes the 10 m wind fields of one message, sampled at `points`.
-    fn add_message(
+    /// The wind fields of one message to decode, the grids they lie on set up for
+    /// sampling `points`; `None` when the message holds no wind wanted here.
+    fn prepare(
         &mut self,
-        message: usize,
-        msg: &[u8],
+        message: Message,
         points: &[LatLon],
-    ) -> Result<(), WindFileError> {
-        let fail = |problem: String| message_error(message, problem);
-        let (ref_time, mut headers) = scan_message(msg).map_err(fail)?;
+    ) -> Result<Option<Prepared>, WindFileError> {
+        let fail = |problem: String| message_error(message.number, problem);
+        let (ref_time, mut headers) = scan_message(&message.bytes).map_err(fail)?;
         if let Some(wanted) = self.only {
             // Another member's fields are skipped before anything is decoded.
             headers.retain(|h| h.ensemble.map(|(kind, n, _)| (kind, n)) == Some(wanted));
             if headers.iter().all(|h| h.wind_component().is_none()) {
-                return Ok(());
+                return Ok(None);
             }
         }
         if headers.iter().all(|h| h.wind_component().is_none()) {
             self.other_params
                 .extend(headers.iter().map(FieldHeader::describe));
-            return Ok(());
+            return Ok(None);
         }
         self.latest_reference = Some(self.latest_reference.map_or(ref_time, |t| t.max(ref_time)));
-        let decoded = decode_message(msg, &headers, points, &mut self.grids).map_err(fail)?;
-        for field in decoded {
-            let t = valid_time(ref_time, &field.header).map_err(fail)?;
-            self.store(message, t, field)?;
+        headers.retain(|h| h.wind_component().is_some());
+        for h in &headers {
+            let section3 = &message.bytes[h.grid.0..h.grid.0 + h.grid.1];
+            if !self.grids.contains_key(section3) {
+                let rules = GridRules::new(section3, points).map_err(fail)?;
+                self.grids.insert(section3.to_vec(), rules);
+            }
+        }
+        Ok(Some(Prepared {
+            message,
+            ref_time,
+            headers,
+        }))
+    }
+
+    /// Decodes the prepared messages, several at once on as many cores, then files their
+    /// fields in file order; the first error in file order is the one reported.
+    fn add_batch(&mut self, batch: Vec<Prepared>) -> Result<(), WindFileError> {
+        use rayon::prelude::*;
+        let grids = &self.grids;
+        let decoded: Vec<DecodedMessage> = batch
+            .into_par_iter()
+            .map(|p| {
+                let fields = decode_message(&p.message.bytes, &p.headers, grids);
+                (p.message.number, p.ref_time, fields)
+            })
+            .collect();
+        for (message, ref_time, fields) in decoded {
+            let fail = |problem: String| message_error(message, problem);
+            for field in fields.map_err(fail)? {
+                let t = valid_time(ref_time, &field.header).map_err(fail)?;
+                self.store(message, t, field)?;
+            }
         }
         Ok(())
     }
@@ -938,12 +1001,37 @@ fn sample_gathered<R: Read + Seek>(
     }
     r.seek(SeekFrom::Start(0))?;
     let mut messages = Messages::new(r);
-    while let Some(m) = messages.next_message()? {
+    let mut batch: Vec<Prepared> = Vec::new();
+    let mut batch_bytes = 0;
+    loop {
         if progress.is_cancelled() {
             return Err(WindFileError::Cancelled);
         }
-        progress.set(m.start as f32 / file_len as f32);
-        gathered.add_message(m.number, &m.bytes, points)?;
+        // Ok(true): another message read; Ok(false): the end. A message that cannot be
+        // read or prepared ends the reading after the messages before it are decoded
+        // (their errors come first).
+        let more: Result<bool, WindFileError> = match messages.next_message() {
+            Ok(Some(m)) => {
+                progress.set(m.start as f32 / file_len as f32);
+                gathered.prepare(m, points).map(|p| {
+                    if let Some(p) = p {
+                        batch_bytes += p.message.bytes.len();
+                        batch.push(p);
+                    }
+                    true
+                })
+            }
+            Ok(None) => Ok(false),
+            Err(e) => Err(e),
+        };
+        if !matches!(more, Ok(true)) || batch.len() >= BATCH_MESSAGES || batch_bytes >= BATCH_BYTES
+        {
+            gathered.add_batch(std::mem::take(&mut batch))?;
+            batch_bytes = 0;
+        }
+        if !more? {
+            break;
+        }
     }
     if messages.count == 0 {
         return Err(no_message_error());
@@ -997,12 +1085,11 @@ struct SampledField {
 }
 
 /// Decodes the wind fields of one message and samples them at the points (NaN outside
-/// the grid or where the field has no value nearby).
+/// the grid or where the field has no value nearby); their grids are set up in `grids`.
 fn decode_message(
     msg: &[u8],
     headers: &[FieldHeader],
-    points: &[LatLon],
-    grids: &mut HashMap<Vec<u8>, GridRules>,
+    grids: &HashMap<Vec<u8>, GridRules>,
 ) -> Result<Vec<SampledField>, String> {
     let mut out = Vec::new();
     for h in headers {
@@ -1010,10 +1097,9 @@ fn decode_message(
             continue;
         };
         let section3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
-        if !grids.contains_key(section3) {
-            grids.insert(section3.to_vec(), GridRules::new(section3, points)?);
-        }
-        let grid = &grids[section3];
+        let Some(grid) = grids.get(section3) else {
+            continue;
+        };
         let values =
             decode_field(msg, h).map_err(|e| format!("10 m wind field cannot be decoded: {e}"))?;
         if values.len() != grid.count {

@@ -16,7 +16,7 @@
 //! of east and north; [`GribGrid::north_angle_rad`] gives the angle that turns them back.
 
 use super::grib2::{signed_i32, u16_at, u32_at};
-use super::projection::{Earth, Projection, RotatedPole, gaussian_latitudes};
+use super::projection::{Earth, Projection, RotatedPole, gaussian_latitudes_shared};
 use crate::coast::LatLon;
 
 /// Four data positions and their bilinear weights.
@@ -573,16 +573,26 @@ fn latlon_placement(
     })
 }
 
+/// The finest Gaussian grid read (template 3.40's N, parallels between a pole and the
+/// equator).
+pub const MAX_GAUSSIAN_N: usize = 4000;
+
 /// The latitudes of the `nj` rows of a Gaussian grid with `n` parallels per hemisphere
 /// whose first row is at `la1`, in scan order.
 fn gaussian_rows(n: usize, la1: f64, nj: usize, north_up: bool) -> Result<Vec<f64>, GridError> {
-    // The largest Gaussian grids in use have a few thousand parallels per hemisphere.
-    if n == 0 || n > 8000 || nj > 2 * n {
+    // The finest Gaussian grids in operational use have N of one or two thousand
+    // (from memory); their latitudes cost O(N²) to find, 0.1 s at the limit.
+    if n > MAX_GAUSSIAN_N {
+        return Err(GridError::Bad(format!(
+            "a Gaussian grid with N = {n} parallels between a pole and the equator is finer than the {MAX_GAUSSIAN_N} Shelfwind reads"
+        )));
+    }
+    if n == 0 || nj > 2 * n {
         return Err(GridError::Bad(format!(
             "a Gaussian grid of {nj} rows with N = {n} parallels between a pole and the equator is not possible"
         )));
     }
-    let all = gaussian_latitudes(n);
+    let all = gaussian_latitudes_shared(n);
     let (first, _) = all
         .iter()
         .enumerate()

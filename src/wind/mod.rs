@@ -39,7 +39,7 @@ pub use grib2::{
     EnsembleMember, Grib2Samples, MemberSamples, sample_grib2, sample_grib2_member_with,
     sample_grib2_members, sample_grib2_members_with, sample_grib2_with,
 };
-pub use grib2_grid::{GribGrid, NEAREST_CELLS, SEA_PROBE_CELLS, Weights};
+pub use grib2_grid::{GribGrid, MAX_GAUSSIAN_N, NEAREST_CELLS, SEA_PROBE_CELLS, Weights};
 pub use grib2_writer::{
     GridField, Parameter, encode_member_message, encode_message, encode_wind_message,
 };
