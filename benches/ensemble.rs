@@ -7,6 +7,8 @@
 
 #[path = "common/long_coast.rs"]
 mod long_coast;
+#[path = "common/memory.rs"]
+mod memory;
 
 use long_coast::long_demo_scenario;
 use shelfwind::coast::{Land, resolve_segments};
@@ -28,14 +30,7 @@ fn ms(t: Instant) -> f64 {
 
 /// Peak resident memory of this process so far, MB (Linux).
 fn peak_mb() -> f64 {
-    std::fs::read_to_string("/proc/self/status")
-        .ok()
-        .and_then(|s| {
-            s.lines()
-                .find(|l| l.starts_with("VmHWM:"))
-                .and_then(|l| l.split_whitespace().nth(1)?.parse::<f64>().ok())
-        })
-        .map_or(f64::NAN, |kb| kb / 1024.0)
+    memory::peak_memory_kb().map_or(f64::NAN, |kb| kb as f64 / 1024.0)
 }
 
 /// Writes `members` runs of the demo wind, each scaled and shifted in time a little

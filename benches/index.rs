@@ -12,6 +12,10 @@ use shelfwind::wind::{SegmentWind, sample_grib2};
 use std::hint::black_box;
 use std::time::Instant;
 
+#[path = "common/memory.rs"]
+mod memory;
+use memory::peak_memory_kb;
+
 const SEGMENTS: usize = 1000;
 const STEPS: usize = 1000;
 const STEPS_I64: i64 = 1000;
@@ -68,12 +72,6 @@ fn grib_stream() -> Vec<u8> {
         }
     }
     out
-}
-
-fn peak_memory_kb() -> Option<u64> {
-    let status = std::fs::read_to_string("/proc/self/status").ok()?;
-    let line = status.lines().find(|l| l.starts_with("VmHWM:"))?;
-    line.split_whitespace().nth(1)?.parse().ok()
 }
 
 fn main() {

@@ -15,6 +15,9 @@ use shelfwind::wind::{GridField, assign_wind_merged, encode_wind_message, load_s
 use std::fmt::Write as _;
 use std::time::Instant;
 
+#[path = "common/memory.rs"]
+mod memory;
+
 fn segments(n: usize) -> Vec<Segment> {
     (0..n)
         .map(|k| {
@@ -61,14 +64,7 @@ fn analyse(segs: &[Segment], winds: &[shelfwind::wind::SegmentWind]) -> usize {
 
 /// The process's peak resident memory (Linux), as text.
 fn peak_memory() -> String {
-    std::fs::read_to_string("/proc/self/status")
-        .ok()
-        .and_then(|s| {
-            s.lines()
-                .find(|l| l.starts_with("VmHWM:"))
-                .map(|l| l.trim_start_matches("VmHWM:").trim().to_string())
-        })
-        .unwrap_or_else(|| "unknown".into())
+    memory::peak_memory_kb().map_or_else(|| "unknown".into(), |kb| format!("{kb} kB"))
 }
 
 fn main() {

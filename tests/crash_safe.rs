@@ -68,11 +68,16 @@ fn timed(mut command: Command) -> Duration {
 /// The kill tests time their kills by how long a run takes: they run one at a time.
 static ONE_AT_A_TIME: std::sync::Mutex<()> = std::sync::Mutex::new(());
 
+/// Waits for the other kill test to end; held until the returned guard drops.
+fn one_at_a_time() -> std::sync::MutexGuard<'static, ()> {
+    ONE_AT_A_TIME
+        .lock()
+        .unwrap_or_else(std::sync::PoisonError::into_inner)
+}
+
 #[test]
 fn a_kill_at_any_moment_leaves_the_old_file_or_the_new_one() {
-    let _one = ONE_AT_A_TIME
-        .lock()
-        .unwrap_or_else(std::sync::PoisonError::into_inner);
+    let _one = one_at_a_time();
     let dir = tempfile::tempdir().expect("temp dir");
     // The outputs, whole, and how long each run takes.
     let whole = dir.path().join("whole");
@@ -203,9 +208,7 @@ fn saves_scenarios_until_killed() {
 /// whole, never a mix, and each reads back as a scenario.
 #[test]
 fn a_kill_while_the_app_saves_leaves_whole_files() {
-    let _one = ONE_AT_A_TIME
-        .lock()
-        .unwrap_or_else(std::sync::PoisonError::into_inner);
+    let _one = one_at_a_time();
     let dir = tempfile::tempdir().expect("temp dir");
     let whole: Vec<String> = two_scenarios()
         .iter()

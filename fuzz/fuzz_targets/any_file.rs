@@ -5,16 +5,10 @@
 #![no_main]
 
 use libfuzzer_sys::fuzz_target;
-use std::path::PathBuf;
 
-fn path(ext: &str) -> PathBuf {
-    let dir = if std::path::Path::new("/dev/shm").is_dir() {
-        PathBuf::from("/dev/shm")
-    } else {
-        std::env::temp_dir()
-    };
-    dir.join(format!("shelfwind-fuzz-{}.{ext}", std::process::id()))
-}
+#[path = "common/shm_file.rs"]
+mod shm_file;
+use shm_file::path;
 
 fuzz_target!(|data: &[u8]| {
     let (ext, body) = match data.split_first() {
