@@ -48,7 +48,7 @@ fn main() {
     );
 
     // The demo coast cut into 2,328 stretches (benches/common/long_coast.rs).
-    let scenario = long_demo_scenario();
+    let scenario = long_demo_scenario(8);
     let (scenario_path, _) = write_demo(&dir.path().join("big")).expect("demo files");
     save_scenario(&scenario_path, &scenario).expect("save");
     let o = options.clone();

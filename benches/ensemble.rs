@@ -72,7 +72,7 @@ fn write_ensemble(path: &Path, members: u8) {
 fn main() {
     let dir = tempfile::tempdir().expect("temp dir");
     // The demo coast cut into 2,328 stretches (benches/common/long_coast.rs).
-    let scenario = long_demo_scenario();
+    let scenario = long_demo_scenario(8);
     let segments = resolve_segments(&scenario.segments, Land::bundled()).expect("sides");
     let tz = scenario.tz().expect("zone");
     let ports = scenario.port_positions();

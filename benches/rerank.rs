@@ -1,8 +1,10 @@
-//! Benchmark of the pipeline's stages on a long coast (about 2,300 stretches, the demo
-//! coast cut finely, with the demo forecast): the full build (read and sample the
-//! forecast, compute the upwelling, rank), the upwelling again from the sampled
-//! conditions (a change of model settings), and ranking again for another boat or
-//! port (no file read, nothing recomputed). Run with `cargo bench --bench rerank`.
+//! Benchmark of the pipeline's stages on a long coast (2,328 and 10,185 stretches, the
+//! demo coast cut finely and repeated, with the demo forecast: 7 days hourly): the full
+//! build (read and sample the forecast, compute the upwelling, rank), the upwelling
+//! again from the sampled conditions (a change of model settings), and ranking again
+//! for another boat or port (no file read, nothing recomputed), then the process's peak
+//! memory. Goals (issue 18): 10,000 stretches built in under 2 s, re-ranked in under
+//! 100 ms, under 1 GB. Run with `cargo bench --bench rerank`.
 
 #[path = "common/long_coast.rs"]
 mod long_coast;
@@ -19,11 +21,24 @@ fn ms(t: Instant) -> f64 {
     t.elapsed().as_secs_f64() * 1e3
 }
 
+#[path = "common/memory.rs"]
+mod memory;
+
 fn main() {
     let dir = tempfile::tempdir().expect("temp dir");
     let (_, forecast) = write_demo(dir.path()).expect("demo files");
-    // The demo coast cut into 2,328 stretches (benches/common/long_coast.rs).
-    let scenario = long_demo_scenario();
+    // The demo coast cut into 2,328 and 10,185 stretches (benches/common/long_coast.rs).
+    for copies in [8, 35] {
+        measure(copies, &forecast);
+    }
+    println!(
+        "peak memory {}",
+        memory::peak_memory_kb().map_or_else(|| "unknown".into(), |kb| format!("{kb} kB"))
+    );
+}
+
+fn measure(copies: usize, forecast: &std::path::Path) {
+    let scenario = long_demo_scenario(copies);
     let segments = resolve_segments(&scenario.segments, Land::bundled()).expect("sides");
     let tz = scenario.tz().expect("zone");
     let ports = scenario.port_positions();
@@ -37,7 +52,7 @@ fn main() {
     };
 
     let t = Instant::now();
-    let sources = load_sources(&[forecast]).expect("forecast");
+    let sources = load_sources(&[forecast.to_path_buf()]).expect("forecast");
     let conditions = sample_forecast_conditions(
         &geometry,
         &sources,

@@ -19,7 +19,8 @@ pub use coriolis::{
 };
 pub use drag::{ConstantDrag, DragChoice, DragLaw, LargePond1981, LargeYeager2009, Trenberth1990};
 pub use ekman::{
-    EkmanTransport, ekman_depth_empirical_m, ekman_transport, upwelling_index_m3s_per_100m,
+    EkmanTransport, OffshoreNormal, ekman_depth_empirical_m, ekman_transport,
+    upwelling_index_m3s_per_100m,
 };
 pub use pumping::{ProbeStress, PumpingProbes, ekman_pumping_m_s};
 pub use stress::{

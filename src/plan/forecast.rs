@@ -367,8 +367,8 @@ fn along(points: &[LatLon], step_m: f64) -> Vec<LatLon> {
     out
 }
 
-/// Per port and stretch: the first route group, how many, and the way by sea.
-type RouteGroups = (usize, usize, Option<Arc<SeaRoute>>);
+/// Per port and stretch: the groups of the way's points, in order, and the way by sea.
+type RouteGroups = (Vec<usize>, Option<Arc<SeaRoute>>);
 
 /// The four pumping probes offshore of a stretch (east, west, north, south), and their
 /// group: grids only, since winds at different stations have no curl between them.
@@ -443,14 +443,28 @@ fn layout(geometry: &ForecastGeometry<'_>) -> Layout {
         .iter()
         .map(|(_, s)| destination(s.centre, s.offshore_bearing_deg, TARGET_OFFSHORE_M))
         .collect();
+    // Ways to neighbouring stretches share their first legs, and so the points on
+    // them: a point is one group however many ways pass it (keyed by its position).
+    let mut route_points: std::collections::HashMap<(u64, u64), usize> =
+        std::collections::HashMap::new();
     for &port in geometry.ports {
         let ways = sea_routes(geometry.land, port, &targets, &geometry.route);
         for way in ways {
             let pts = way.as_ref().map_or_else(Vec::new, |r| {
                 along(&r.points, geometry.route_step_nm * NAUTICAL_MILE_M)
             });
-            route_groups.push((groups.len(), pts.len(), way.map(Arc::new)));
-            groups.extend(pts.into_iter().map(PointGroup::point));
+            let at = pts
+                .into_iter()
+                .map(|p| {
+                    *route_points
+                        .entry((p.lat_deg.to_bits(), p.lon_deg.to_bits()))
+                        .or_insert_with(|| {
+                            groups.push(PointGroup::point(p));
+                            groups.len() - 1
+                        })
+                })
+                .collect();
+            route_groups.push((at, way.map(Arc::new)));
         }
     }
     Layout {
@@ -603,8 +617,8 @@ fn port_routes(
     // them: each point's hourly wind and sea is worked out once (keyed by its position).
     let mut seen: std::collections::HashMap<(u64, u64), Arc<PointHours>> =
         std::collections::HashMap::new();
-    for ((s, l), (first, n, route)) in stretches.iter().zip(layout).zip(route_groups) {
-        let (first, n) = (*first, *n);
+    for ((s, l), (at, route)) in stretches.iter().zip(layout).zip(route_groups) {
+        let n = at.len();
         out.distance_nm.push(
             route
                 .as_ref()
@@ -640,13 +654,9 @@ fn port_routes(
                 .clone()
         };
         let mut points: Vec<Arc<PointHours>> = Vec::with_capacity(n + 1);
-        for (k, (g, group)) in conditions.groups[first..first + n]
-            .iter()
-            .zip(&groups[first..first + n])
-            .enumerate()
-        {
-            if let Some(g) = g.as_ref() {
-                let hours = hours_at(group.anchor, first + k, &|| {
+        for &k in at {
+            if let Some(g) = conditions.groups[k].as_ref() {
+                let hours = hours_at(groups[k].anchor, k, &|| {
                     timeline.iter().map(|&t| wind_at(g, 0, t)).collect()
                 });
                 points.push(hours);

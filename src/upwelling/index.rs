@@ -4,8 +4,8 @@
 
 use crate::coast::{LatLon, Segment};
 use crate::physics::{
-    DragChoice, EquatorError, LatitudeCheck, RHO_AIR_KG_M3, RHO_WATER_KG_M3, Wind, check_latitude,
-    coriolis_parameter, ekman_transport, upwelling_index_m3s_per_100m, wind_stress,
+    DragChoice, EquatorError, LatitudeCheck, OffshoreNormal, RHO_AIR_KG_M3, RHO_WATER_KG_M3, Wind,
+    check_latitude, coriolis_parameter, ekman_transport, wind_stress,
 };
 use crate::wind::SegmentWind;
 use chrono::{DateTime, Utc};
@@ -79,7 +79,7 @@ pub fn index_series(
         near_equator |= check == LatitudeCheck::NearEquator;
         geometry.push((
             coriolis_parameter(p.midpoint.lat_deg),
-            p.offshore_bearing_deg,
+            OffshoreNormal::new(p.offshore_bearing_deg),
             p.length_m / total_m,
         ));
     }
@@ -88,10 +88,10 @@ pub fn index_series(
             geometry
                 .iter()
                 .zip(&wind.pieces)
-                .map(|(&(f, beta, weight), w)| {
+                .map(|(&(f, normal, weight), w)| {
                     let tau = wind_stress(w[t], &settings.drag, settings.rho_air_kg_m3);
                     let m = ekman_transport(tau, f, settings.rho_water_kg_m3);
-                    weight * upwelling_index_m3s_per_100m(m, beta)
+                    weight * normal.upwelling_index_m3s_per_100m(m)
                 })
                 .sum()
         })

@@ -128,8 +128,9 @@ pub enum RecordError {
 }
 
 /// Seasons of every segment over a long wind record: the files read in parallel and
-/// joined in time ([`crate::wind::assign_wind_merged`]), the index of each segment, and
-/// its seasons. `names` are the segments' names to show, in order.
+/// joined in time ([`crate::wind::map_wind_merged`]), then each segment's index and
+/// seasons, on every core and one segment at a time (its hourly wind and index are
+/// dropped once its seasons are made). `names` are the segments' names to show, in order.
 pub fn analyse_record(
     segments: &[crate::coast::Segment],
     names: &[String],
@@ -137,23 +138,18 @@ pub fn analyse_record(
     settings: &RecordSettings,
     progress: &crate::progress::Progress,
 ) -> Result<Vec<SegmentSeasons>, RecordError> {
-    use rayon::prelude::*;
-    let winds = crate::wind::assign_wind_merged(sources, segments, progress)?;
-    // Segments are independent: indexed and analysed on every core, kept in order.
-    let series = segments
-        .par_iter()
-        .zip(&winds)
-        .zip(names)
-        .map(|((seg, wind), name)| {
-            super::index_series(seg, wind, &settings.index).map(|s| (name.clone(), s))
+    let seasons = crate::wind::map_wind_merged(sources, segments, progress, |i, wind| {
+        super::index_series(&segments[i], &wind, &settings.index).map(|s| {
+            segment_seasons(
+                &names[i],
+                &s,
+                settings.years,
+                &settings.coverage,
+                &settings.events,
+            )
         })
-        .collect::<Result<Vec<_>, _>>()?;
-    Ok(analyse_segments(
-        &series,
-        settings.years,
-        &settings.coverage,
-        &settings.events,
-    ))
+    })?;
+    Ok(seasons.into_iter().collect::<Result<_, _>>()?)
 }
 
 /// Seasons of every segment from its index series (names beside them).
@@ -167,25 +163,34 @@ pub fn analyse_segments(
     use rayon::prelude::*;
     series
         .par_iter()
-        .map(|(name, s)| {
-            let southern = s.midpoint.lat_deg < 0.0;
-            let (years, climatology) = analyse_seasons(
-                &s.times,
-                &s.index_m3s_per_100m,
-                southern,
-                years,
-                coverage,
-                events,
-            );
-            SegmentSeasons {
-                segment_id: s.segment_id.clone(),
-                name: name.clone(),
-                southern,
-                years,
-                climatology,
-            }
-        })
+        .map(|(name, s)| segment_seasons(name, s, years, coverage, events))
         .collect()
+}
+
+/// One segment's seasons from its index series.
+fn segment_seasons(
+    name: &str,
+    s: &super::IndexSeries,
+    years: Option<(i32, i32)>,
+    coverage: &CoverageSettings,
+    events: &EventSettings,
+) -> SegmentSeasons {
+    let southern = s.midpoint.lat_deg < 0.0;
+    let (years, climatology) = analyse_seasons(
+        &s.times,
+        &s.index_m3s_per_100m,
+        southern,
+        years,
+        coverage,
+        events,
+    );
+    SegmentSeasons {
+        segment_id: s.segment_id.clone(),
+        name: name.to_string(),
+        southern,
+        years,
+        climatology,
+    }
 }
 
 /// Mean and spread across complete years.
@@ -265,21 +270,30 @@ pub fn analyse_seasons(
     events: &EventSettings,
 ) -> (Vec<SeasonYear>, Climatology) {
     let step_h = typical_step_h(times);
-    // Daily sums and counts by UTC day.
-    let mut by_day: std::collections::BTreeMap<NaiveDate, (f64, usize)> =
-        std::collections::BTreeMap::new();
-    for (t, v) in times.iter().zip(index) {
-        let e = by_day.entry(t.date_naive()).or_default();
-        e.0 += v;
-        e.1 += 1;
-    }
-    let day_mean = |d: NaiveDate| {
-        by_day.get(&d).and_then(|(sum, n)| {
-            ((*n as f64 * step_h / 24.0) >= coverage.min_day).then(|| sum / *n as f64)
-        })
-    };
     let (Some(first), Some(last)) = (times.first(), times.last()) else {
         return (Vec::new(), empty_climatology());
+    };
+    // Daily sums and counts by UTC day, by days from the earliest.
+    let day0 = times.iter().min().unwrap_or(first).date_naive();
+    let day_of = |d: NaiveDate| usize::try_from((d - day0).num_days()).ok();
+    let mut by_day: Vec<(f64, usize)> = vec![
+        (0.0, 0);
+        day_of(times.iter().max().unwrap_or(last).date_naive())
+            .map_or(0, |d| d + 1)
+    ];
+    for (t, v) in times.iter().zip(index) {
+        if let Some(e) = day_of(t.date_naive()).and_then(|d| by_day.get_mut(d)) {
+            e.0 += v;
+            e.1 += 1;
+        }
+    }
+    let day_mean = |d: NaiveDate| {
+        day_of(d)
+            .and_then(|d| by_day.get(d))
+            .filter(|(_, n)| *n > 0)
+            .and_then(|(sum, n)| {
+                ((*n as f64 * step_h / 24.0) >= coverage.min_day).then(|| sum / *n as f64)
+            })
     };
     let first_year = if southern && first.month() < 7 {
         first.year() - 1

@@ -2,7 +2,7 @@
 //! [`super::conditions`] (anchored at the segment's length-weighted midpoint).
 
 use super::conditions::{
-    Conditions, Member, PointGroup, RunRule, forecast_runs, sample_conditions, sample_merged,
+    Conditions, LongRecord, Member, PointGroup, RunRule, forecast_runs, sample_conditions,
     sample_run,
 };
 use super::{PointSeries, WindError, WindFileError, read_csv_series};
@@ -141,27 +141,34 @@ fn segment_winds(
     segments
         .iter()
         .zip(conditions.groups)
-        .map(|(seg, g)| {
-            let Some(g) = g else {
-                let mid = seg.weighted_midpoint();
-                return Err(WindError::Uncovered {
-                    id: seg.id.clone(),
-                    lat_deg: mid.lat_deg,
-                    lon_deg: mid.lon_deg,
-                    files: sources.len(),
-                });
-            };
-            let midpoint = g
-                .extra
-                .unwrap_or_else(|| length_weighted(&seg.pieces(), &g.points));
-            Ok(SegmentWind {
-                source: g.source,
-                times: g.times.to_vec(),
-                pieces: g.points,
-                midpoint,
-            })
-        })
+        .map(|(seg, g)| segment_wind(sources, seg, g))
         .collect()
+}
+
+/// A segment's [`SegmentWind`] from its group's wind, or why it has none.
+fn segment_wind(
+    sources: &[WindSource],
+    seg: &Segment,
+    g: Option<super::GroupWind>,
+) -> Result<SegmentWind, WindError> {
+    let Some(g) = g else {
+        let mid = seg.weighted_midpoint();
+        return Err(WindError::Uncovered {
+            id: seg.id.clone(),
+            lat_deg: mid.lat_deg,
+            lon_deg: mid.lon_deg,
+            files: sources.len(),
+        });
+    };
+    let midpoint = g
+        .extra
+        .unwrap_or_else(|| length_weighted(&seg.pieces(), &g.points));
+    Ok(SegmentWind {
+        source: g.source,
+        times: g.times.to_vec(),
+        pieces: g.points,
+        midpoint,
+    })
 }
 
 /// Gives every segment its wind, from the first source that covers it (the rule of
@@ -199,14 +206,35 @@ pub fn assign_wind_runs(
 }
 
 /// Gives every segment the union in time of every source that covers it (a long
-/// record read in parallel, [`sample_merged`]). `progress` counts files read.
+/// record read in parallel, [`super::sample_merged`]). `progress` counts files read.
 pub fn assign_wind_merged(
     sources: &[WindSource],
     segments: &[Segment],
     progress: &Progress,
 ) -> Result<Vec<SegmentWind>, WindError> {
-    let conditions = sample_merged(sources, &segment_groups(segments), progress)?;
-    segment_winds(sources, segments, conditions)
+    map_wind_merged(sources, segments, progress, |_, wind| wind)
+}
+
+/// Hands each segment's wind over a long record (the rule of [`assign_wind_merged`]) to
+/// `f` as soon as it is joined, segments on every core, and gives `f`'s results in
+/// segment order. Only the files' samples and the segments at hand are held at once, so
+/// decades of hourly wind for many segments fit in memory; the first segment without
+/// wind, in order, is the error.
+pub fn map_wind_merged<T: Send>(
+    sources: &[WindSource],
+    segments: &[Segment],
+    progress: &Progress,
+    f: impl Fn(usize, SegmentWind) -> T + Sync,
+) -> Result<Vec<T>, WindError> {
+    use rayon::prelude::*;
+    let groups = segment_groups(segments);
+    let record = LongRecord::read(sources, &groups, progress)?;
+    let out: Vec<Result<T, WindError>> = segments
+        .par_iter()
+        .enumerate()
+        .map(|(i, seg)| segment_wind(sources, seg, record.group(i)).map(|w| f(i, w)))
+        .collect();
+    out.into_iter().collect()
 }
 
 /// Length-weighted mean of the pieces' winds at each time.

@@ -25,7 +25,7 @@ use crate::physics::Wind;
 use crate::progress::Progress;
 use chrono::{DateTime, Utc};
 use rayon::prelude::*;
-use std::collections::BTreeMap;
+use std::collections::HashMap;
 use std::hash::{Hash, Hasher};
 use std::path::{Path, PathBuf};
 use std::sync::Arc;
@@ -177,8 +177,8 @@ pub fn groups_fingerprint(groups: &[PointGroup]) -> u64 {
 /// One source's wind at a list of points.
 struct SourceSamples {
     times: Vec<DateTime<Utc>>,
-    /// Per point; for a point series every point has the series.
-    points: Vec<Option<Vec<Wind>>>,
+    /// Per point; for a point series every point shares the series.
+    points: Vec<Option<Arc<Vec<Wind>>>>,
     latest_reference: Option<DateTime<Utc>>,
 }
 
@@ -355,7 +355,7 @@ fn read_pick(
         }),
         WindSource::Series { series, .. } => Ok(SourceSamples {
             times: series.series.times.clone(),
-            points: vec![Some(series.series.wind.clone()); points.len()],
+            points: vec![Some(Arc::new(series.series.wind.clone())); points.len()],
             latest_reference: None,
         }),
         WindSource::Netcdf { path } => {
@@ -376,7 +376,9 @@ fn read_pick(
                 points: s
                     .points
                     .into_iter()
-                    .map(|p| p.map(|uv| uv.into_iter().map(|(u, v)| Wind::new(u, v)).collect()))
+                    .map(|p| {
+                        p.map(|uv| Arc::new(uv.into_iter().map(|(u, v)| Wind::new(u, v)).collect()))
+                    })
                     .collect(),
                 latest_reference: None,
             })
@@ -407,7 +409,7 @@ fn read_pick(
             .map_err(bad)?;
             Ok(SourceSamples {
                 times: s.times,
-                points: s.points,
+                points: s.points.into_iter().map(|p| p.map(Arc::new)).collect(),
                 latest_reference: s.latest_reference,
             })
         }
@@ -533,7 +535,10 @@ fn flatten(groups: &[&PointGroup]) -> Vec<LatLon> {
 }
 
 /// A covered group's wind: at each of its points, and at its extra point.
-type CoveredWind = (Vec<Vec<Wind>>, Option<Vec<Wind>>);
+type CoveredWind = (Vec<Arc<Vec<Wind>>>, Option<Arc<Vec<Wind>>>);
+
+/// A source's samples, one per point.
+type Sample = Option<Arc<Vec<Wind>>>;
 
 /// The one coverage rule: the wind source `k` gives group `g`, whose points' samples
 /// from that source are `samples` (its points, then its extra point), or `None`.
@@ -541,10 +546,10 @@ fn cover(
     sources: &[WindSource],
     k: usize,
     g: &PointGroup,
-    samples: &mut dyn Iterator<Item = Option<Vec<Wind>>>,
+    samples: &mut dyn Iterator<Item = Sample>,
     nearest_station: &dyn Fn(LatLon) -> Option<usize>,
 ) -> Option<CoveredWind> {
-    let at_points: Vec<Option<Vec<Wind>>> = (&mut *samples).take(g.points.len()).collect();
+    let at_points: Vec<Sample> = (&mut *samples).take(g.points.len()).collect();
     let extra = if g.extra.is_some() {
         samples.next().flatten()
     } else {
@@ -559,7 +564,7 @@ fn cover(
     if !allowed {
         return None;
     }
-    let at_points: Option<Vec<Vec<Wind>>> = at_points.into_iter().collect();
+    let at_points: Option<Vec<Arc<Vec<Wind>>>> = at_points.into_iter().collect();
     at_points.map(|p| (p, extra))
 }
 
@@ -615,8 +620,8 @@ pub fn sample_run(
                 out.groups[g] = Some(GroupWind {
                     source: k,
                     times: times.clone(),
-                    points,
-                    extra,
+                    points: points.into_iter().map(Arc::unwrap_or_clone).collect(),
+                    extra: extra.map(Arc::unwrap_or_clone),
                 });
             }
         }
@@ -632,84 +637,181 @@ pub fn sample_merged(
     groups: &[PointGroup],
     progress: &Progress,
 ) -> Result<Conditions, WindError> {
-    if sources.is_empty() {
-        return Err(WindError::NoFiles);
-    }
-    let all: Vec<&PointGroup> = groups.iter().collect();
-    let points = flatten(&all);
-    let done = std::sync::atomic::AtomicUsize::new(0);
-    let per_file: Vec<Result<SourceSamples, WindError>> = sources
-        .par_iter()
-        .map(|source| {
-            if progress.is_cancelled() {
-                return Err(WindError::File {
-                    path: source.path().to_path_buf(),
-                    source: WindFileError::Cancelled,
-                });
-            }
-            let r = read_source(source, &points, &Progress::new());
-            let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
-            progress.set(n as f32 / sources.len() as f32);
-            r
-        })
-        .collect();
-    let per_file: Vec<SourceSamples> = per_file.into_iter().collect::<Result<_, _>>()?;
-    let nearest_station = nearest_station_of(sources);
-    let mut cursors: Vec<_> = per_file.iter().map(|f| f.points.iter().cloned()).collect();
-    let mut out = Conditions {
-        groups: Vec::with_capacity(groups.len()),
-        latest_reference: per_file.iter().filter_map(|f| f.latest_reference).max(),
-        sources: sources
+    let record = LongRecord::read(sources, groups, progress)?;
+    Ok(Conditions {
+        groups: (0..groups.len()).map(|g| record.group(g)).collect(),
+        latest_reference: record.latest_reference,
+        sources: record.spans,
+    })
+}
+
+/// A long record read once: every source sampled at every group's points. Each group's
+/// wind is joined in time only when asked for ([`LongRecord::group`]), so a caller
+/// working group by group holds the files' samples and the groups at hand, no more.
+pub struct LongRecord<'a> {
+    sources: &'a [WindSource],
+    groups: &'a [PointGroup],
+    /// Per source: its times, and its samples at the groups' points laid end to end.
+    files: Vec<FileSamples>,
+    /// Where each group's samples begin.
+    starts: Vec<usize>,
+    nearest_station: Box<dyn Fn(LatLon) -> Option<usize> + Send + Sync + 'a>,
+    /// Joined time axes, by the list of sources they join.
+    axes: std::sync::Mutex<HashMap<Vec<usize>, Arc<Axis>>>,
+    /// The latest reference (issue) time among the GRIB2 files, if any.
+    pub latest_reference: Option<DateTime<Utc>>,
+    /// What each source held, in the order given.
+    pub spans: Vec<Option<SourceSpan>>,
+}
+
+/// One source's times, and its samples at the groups' points laid end to end.
+type FileSamples = (Arc<[DateTime<Utc>]>, Vec<Sample>);
+
+/// The union of some sources' times, each time with where it comes from: the place of
+/// its source in the joined list and its step there.
+struct Axis {
+    times: Arc<[DateTime<Utc>]>,
+    from: Vec<(usize, usize)>,
+}
+
+impl Axis {
+    /// Joins time axes given in order of precedence: where two give the same time, the
+    /// earlier one wins (and within one axis, its earlier step).
+    fn join(axes: &[&[DateTime<Utc>]]) -> Self {
+        let mut all: Vec<(DateTime<Utc>, usize, usize)> = axes
             .iter()
-            .zip(&per_file)
-            .map(|(s, f)| Some(SourceSpan::of(s, f)))
-            .collect(),
-    };
-    for group in groups {
-        // time → (point winds, extra wind), the first file giving a time wins.
-        let mut merged: BTreeMap<DateTime<Utc>, (Vec<Wind>, Option<Wind>)> = BTreeMap::new();
-        let mut first = None;
-        for (k, file) in per_file.iter().enumerate() {
-            let Some((points, extra)) = cover(sources, k, group, &mut cursors[k], &nearest_station)
-            else {
-                continue;
-            };
-            first.get_or_insert(k);
-            for (i, t) in file.times.iter().enumerate() {
-                merged.entry(*t).or_insert_with(|| {
-                    (
-                        points.iter().map(|w| w[i]).collect(),
-                        extra.as_ref().map(|w| w[i]),
-                    )
-                });
-            }
+            .enumerate()
+            .flat_map(|(s, times)| times.iter().enumerate().map(move |(i, t)| (*t, s, i)))
+            .collect();
+        all.par_sort_unstable();
+        all.dedup_by_key(|e| e.0);
+        Self {
+            times: all.iter().map(|e| e.0).collect(),
+            from: all.iter().map(|e| (e.1, e.2)).collect(),
         }
-        out.groups.push(first.map(|source| {
-            let n = group.points.len();
-            let mut times = Vec::with_capacity(merged.len());
-            let mut g = GroupWind {
-                source,
-                times: Arc::from([]),
-                points: vec![Vec::with_capacity(merged.len()); n],
-                extra: group.extra.map(|_| Vec::with_capacity(merged.len())),
-            };
-            for (t, (at_points, at_extra)) in merged {
-                times.push(t);
-                for (p, w) in g.points.iter_mut().zip(at_points) {
-                    p.push(w);
-                }
-                // The extra point keeps a value only where every time has one.
-                match (&mut g.extra, at_extra) {
-                    (Some(e), Some(w)) => e.push(w),
-                    (e @ Some(_), None) => *e = None,
-                    _ => {}
-                }
-            }
-            g.times = times.into();
-            g
-        }));
     }
-    Ok(out)
+}
+
+impl<'a> LongRecord<'a> {
+    /// Reads every source (in parallel) at every group's points.
+    pub fn read(
+        sources: &'a [WindSource],
+        groups: &'a [PointGroup],
+        progress: &Progress,
+    ) -> Result<Self, WindError> {
+        if sources.is_empty() {
+            return Err(WindError::NoFiles);
+        }
+        let all: Vec<&PointGroup> = groups.iter().collect();
+        let points = flatten(&all);
+        let done = std::sync::atomic::AtomicUsize::new(0);
+        let per_file: Vec<Result<SourceSamples, WindError>> = sources
+            .par_iter()
+            .map(|source| {
+                if progress.is_cancelled() {
+                    return Err(WindError::File {
+                        path: source.path().to_path_buf(),
+                        source: WindFileError::Cancelled,
+                    });
+                }
+                let r = read_source(source, &points, &Progress::new());
+                let n = done.fetch_add(1, std::sync::atomic::Ordering::Relaxed) + 1;
+                progress.set(n as f32 / sources.len() as f32);
+                r
+            })
+            .collect();
+        let per_file: Vec<SourceSamples> = per_file.into_iter().collect::<Result<_, _>>()?;
+        let mut starts = Vec::with_capacity(groups.len());
+        let mut at = 0;
+        for g in groups {
+            starts.push(at);
+            at += g.points.len() + usize::from(g.extra.is_some());
+        }
+        Ok(Self {
+            sources,
+            groups,
+            latest_reference: per_file.iter().filter_map(|f| f.latest_reference).max(),
+            spans: sources
+                .iter()
+                .zip(&per_file)
+                .map(|(s, f)| Some(SourceSpan::of(s, f)))
+                .collect(),
+            files: per_file
+                .into_iter()
+                .map(|f| (f.times.into(), f.points))
+                .collect(),
+            starts,
+            nearest_station: Box::new(nearest_station_of(sources)),
+            axes: std::sync::Mutex::new(HashMap::new()),
+        })
+    }
+
+    /// The wind of group `g`: the union in time of every source that covers it, or
+    /// `None` where none does.
+    #[must_use]
+    pub fn group(&self, g: usize) -> Option<GroupWind> {
+        let group = &self.groups[g];
+        let len = group.points.len() + usize::from(group.extra.is_some());
+        let covering: Vec<(usize, CoveredWind)> = self
+            .files
+            .iter()
+            .enumerate()
+            .filter_map(|(k, (_, samples))| {
+                let mut mine = samples[self.starts[g]..self.starts[g] + len]
+                    .iter()
+                    .cloned();
+                cover(self.sources, k, group, &mut mine, &*self.nearest_station).map(|c| (k, c))
+            })
+            .collect();
+        let &(source, _) = covering.first()?;
+        let times = &self.files[source].0;
+        if covering.len() == 1 && times.windows(2).all(|w| w[0] < w[1]) {
+            let (_, (points, extra)) = covering.into_iter().next()?;
+            return Some(GroupWind {
+                source,
+                times: times.clone(),
+                points: points.into_iter().map(Arc::unwrap_or_clone).collect(),
+                extra: extra.map(Arc::unwrap_or_clone),
+            });
+        }
+        let axis = self.axis(covering.iter().map(|c| c.0).collect());
+        let points = (0..group.points.len())
+            .map(|p| {
+                axis.from
+                    .iter()
+                    .map(|&(s, i)| covering[s].1.0[p][i])
+                    .collect()
+            })
+            .collect();
+        // The extra point keeps a value only where every time has one.
+        let extra = group.extra.and_then(|_| {
+            axis.from
+                .iter()
+                .map(|&(s, i)| covering[s].1.1.as_ref().map(|e| e[i]))
+                .collect()
+        });
+        Some(GroupWind {
+            source,
+            times: axis.times.clone(),
+            points,
+            extra,
+        })
+    }
+
+    /// The joined time axis of the sources `joined` (in order), made once.
+    fn axis(&self, joined: Vec<usize>) -> Arc<Axis> {
+        let mut axes = self
+            .axes
+            .lock()
+            .unwrap_or_else(std::sync::PoisonError::into_inner);
+        axes.entry(joined)
+            .or_insert_with_key(|joined| {
+                let times: Vec<&[DateTime<Utc>]> =
+                    joined.iter().map(|&k| &self.files[k].0[..]).collect();
+                Arc::new(Axis::join(&times))
+            })
+            .clone()
+    }
 }
 
 #[cfg(test)]
@@ -732,6 +834,59 @@ mod tests {
                 },
             },
         }
+    }
+
+    /// A station record without a position, hourly at `hours` after 1 May 2027, the
+    /// wind from the west at `u` m/s.
+    fn record(hours: &[i64], u: f64) -> WindSource {
+        let t0 = DateTime::parse_from_rfc3339("2027-05-01T00:00:00Z")
+            .expect("valid")
+            .to_utc();
+        WindSource::Series {
+            path: PathBuf::from(format!("r{u}.csv")),
+            series: PointSeries {
+                waves: None,
+                position: None,
+                series: WindSeries {
+                    times: hours
+                        .iter()
+                        .map(|h| t0 + chrono::Duration::hours(*h))
+                        .collect(),
+                    wind: vec![Wind::new(u, 0.0); hours.len()],
+                },
+            },
+        }
+    }
+
+    /// Two records that overlap are joined in time: hours 0-3 in order, hour 2 from the
+    /// first record given; the extra point follows, and a second group on the same two
+    /// records gets the same times.
+    #[test]
+    fn merged_records_take_the_first_given_where_they_overlap() {
+        let sources = [record(&[0, 1, 2], 1.0), record(&[3, 2], 2.0)];
+        let group = PointGroup::new(
+            vec![LatLon::new(36.0, -122.0), LatLon::new(36.1, -122.0)],
+            LatLon::new(36.05, -122.0),
+            Some(LatLon::new(36.05, -122.0)),
+        );
+        let c = sample_merged(&sources, &[group.clone(), group], &Progress::new())
+            .expect("records read");
+        for g in &c.groups {
+            let g = g.as_ref().expect("covered");
+            let hours: Vec<i64> = g
+                .times
+                .iter()
+                .map(|t| (*t - g.times[0]).num_hours())
+                .collect();
+            assert_eq!(hours, [0, 1, 2, 3]);
+            let u = |w: &Vec<Wind>| w.iter().map(|w| w.u_m_s).collect::<Vec<_>>();
+            assert_eq!(u(&g.points[0]), [1.0, 1.0, 1.0, 2.0]);
+            assert_eq!(u(&g.points[1]), [1.0, 1.0, 1.0, 2.0]);
+            assert_eq!(g.extra.as_ref().map(u), Some(vec![1.0, 1.0, 1.0, 2.0]));
+            assert_eq!(g.source, 0);
+        }
+        let spans: Vec<usize> = c.sources.iter().flatten().map(|s| s.steps).collect();
+        assert_eq!(spans, [3, 2]);
     }
 
     /// A group takes the nearest station; a pumping group takes no station at all.

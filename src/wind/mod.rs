@@ -21,12 +21,12 @@ mod waves;
 
 pub use assign::{
     SegmentWind, WindSource, assign_wind, assign_wind_merged, assign_wind_runs, length_weighted_at,
-    load_sources,
+    load_sources, map_wind_merged,
 };
 pub use conditions::{
-    Conditions, GroupWind, Member, PointGroup, RunRule, Runs, SourceIdentity, SourceKind,
-    SourceSpan, check_source, forecast_runs, groups_fingerprint, sample_conditions, sample_merged,
-    sample_run, sample_waves,
+    Conditions, GroupWind, LongRecord, Member, PointGroup, RunRule, Runs, SourceIdentity,
+    SourceKind, SourceSpan, check_source, forecast_runs, groups_fingerprint, sample_conditions,
+    sample_merged, sample_run, sample_waves,
 };
 pub use csv::read_csv_series;
 pub(crate) use csv::{csv_problem, find as find_column, parse_time};

@@ -391,24 +391,34 @@ impl RotatedPole {
 
 /// The latitudes of a regular Gaussian grid with `n` parallels between a pole and the
 /// equator (GRIB2 template 3.40's N), north to south, degrees: the arcsines of the 2n
-/// roots of the Legendre polynomial P₂ₙ, found by Newton's method from the usual first
-/// guesses cos(π (k − ¼)/(2n + ½)). Each Newton step costs O(n); from those guesses a
-/// root takes three or four steps, so a grid costs O(n²): 0.1 s for N = 4,000.
+/// roots of the Legendre polynomial P₂ₙ, found by Newton's method from Tricomi's first
+/// guesses (1 − (1 − 1/m)/(8m²)) cos(π (k − ¼)/(m + ½)) for degree m (Tricomi 1950, as
+/// given in Hale and Townsend 2013; from memory), which are within about m⁻⁴ of the
+/// roots, so one or two steps do. Each step costs O(n) multiplications (the
+/// recurrence's coefficients are worked out once), so a grid costs O(n²): about 0.03 s
+/// for N = 4,000.
 #[must_use]
 pub fn gaussian_latitudes(n: usize) -> Vec<f64> {
     let count = 2 * n;
     let order = count as f64;
+    // P_j = a_j x P_{j-1} - b_j P_{j-2}, with a_j = (2j - 1)/j and b_j = (j - 1)/j.
+    let coefficients: Vec<(f64, f64)> = (2..=count)
+        .map(|j| {
+            let j = j as f64;
+            ((2.0 * j - 1.0) / j, (j - 1.0) / j)
+        })
+        .collect();
+    let shrink = 1.0 - (1.0 - 1.0 / order) / (8.0 * order * order);
     let mut lats = Vec::with_capacity(count);
     for k in 1..=n {
-        let mut x = (PI * (k as f64 - 0.25) / (order + 0.5)).cos();
-        // Converged in a few steps; rounding can keep the last step just above any
+        let mut x = shrink * (PI * (k as f64 - 0.25) / (order + 0.5)).cos();
+        // Converged in a step or two; rounding can keep the last step just above any
         // tolerance, so the count is bounded too.
         for _ in 0..12 {
             // P_count(x) and its derivative by the three-term recurrence.
             let (mut p0, mut p1) = (1.0, x);
-            for j in 2..=count {
-                let j = j as f64;
-                let p2 = ((2.0 * j - 1.0) * x * p1 - (j - 1.0) * p0) / j;
+            for &(a, b) in &coefficients {
+                let p2 = a * x * p1 - b * p0;
                 p0 = p1;
                 p1 = p2;
             }
