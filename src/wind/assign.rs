@@ -206,7 +206,7 @@ pub fn assign_wind_runs(
 }
 
 /// Gives every segment the union in time of every source that covers it (a long
-/// record read in parallel, [`super::sample_merged`]). `progress` counts files read.
+/// record read in parallel, [`LongRecord`]). `progress` counts files read.
 pub fn assign_wind_merged(
     sources: &[WindSource],
     segments: &[Segment],

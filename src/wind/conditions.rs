@@ -14,7 +14,7 @@
 //!
 //! A forecast takes, for each group, the first source that covers it
 //! ([`sample_conditions`]); a long record takes every source that covers it, joined in
-//! time, the first source winning where two give the same time ([`sample_merged`]).
+//! time, the first source winning where two give the same time ([`LongRecord`]).
 
 use super::{
     PointSeries, WindError, WindFileError, WindSource, grib2_contents, sample_grib2_member_with,
@@ -629,25 +629,11 @@ pub fn sample_run(
     Ok(out)
 }
 
-/// Samples a long record: every source is read (in parallel) at every group's points,
+/// A long record read once: every source is read (in parallel) at every group's points,
 /// and each group takes the union in time of every source that covers it; where two
-/// sources give the same time, the one given first wins. `progress` counts files read.
-pub fn sample_merged(
-    sources: &[WindSource],
-    groups: &[PointGroup],
-    progress: &Progress,
-) -> Result<Conditions, WindError> {
-    let record = LongRecord::read(sources, groups, progress)?;
-    Ok(Conditions {
-        groups: (0..groups.len()).map(|g| record.group(g)).collect(),
-        latest_reference: record.latest_reference,
-        sources: record.spans,
-    })
-}
-
-/// A long record read once: every source sampled at every group's points. Each group's
-/// wind is joined in time only when asked for ([`LongRecord::group`]), so a caller
-/// working group by group holds the files' samples and the groups at hand, no more.
+/// sources give the same time, the one given first wins. Each group's wind is joined
+/// only when asked for ([`LongRecord::group`]), so a caller working group by group holds
+/// the files' samples and the groups at hand, no more.
 pub struct LongRecord<'a> {
     sources: &'a [WindSource],
     groups: &'a [PointGroup],
@@ -665,7 +651,12 @@ pub struct LongRecord<'a> {
 }
 
 /// One source's times, and its samples at the groups' points laid end to end.
-type FileSamples = (Arc<[DateTime<Utc>]>, Vec<Sample>);
+struct FileSamples {
+    times: Arc<[DateTime<Utc>]>,
+    /// Its times strictly increase (a group it alone covers takes them as they are).
+    increasing: bool,
+    samples: Vec<Sample>,
+}
 
 /// The union of some sources' times, each time with where it comes from: the place of
 /// its source in the joined list and its step there.
@@ -738,7 +729,11 @@ impl<'a> LongRecord<'a> {
                 .collect(),
             files: per_file
                 .into_iter()
-                .map(|f| (f.times.into(), f.points))
+                .map(|f| FileSamples {
+                    increasing: f.times.windows(2).all(|w| w[0] < w[1]),
+                    times: f.times.into(),
+                    samples: f.points,
+                })
                 .collect(),
             starts,
             nearest_station: Box::new(nearest_station_of(sources)),
@@ -756,20 +751,20 @@ impl<'a> LongRecord<'a> {
             .files
             .iter()
             .enumerate()
-            .filter_map(|(k, (_, samples))| {
-                let mut mine = samples[self.starts[g]..self.starts[g] + len]
+            .filter_map(|(k, file)| {
+                let mut mine = file.samples[self.starts[g]..self.starts[g] + len]
                     .iter()
                     .cloned();
                 cover(self.sources, k, group, &mut mine, &*self.nearest_station).map(|c| (k, c))
             })
             .collect();
         let &(source, _) = covering.first()?;
-        let times = &self.files[source].0;
-        if covering.len() == 1 && times.windows(2).all(|w| w[0] < w[1]) {
+        let file = &self.files[source];
+        if covering.len() == 1 && file.increasing {
             let (_, (points, extra)) = covering.into_iter().next()?;
             return Some(GroupWind {
                 source,
-                times: times.clone(),
+                times: file.times.clone(),
                 points: points.into_iter().map(Arc::unwrap_or_clone).collect(),
                 extra: extra.map(Arc::unwrap_or_clone),
             });
@@ -807,7 +802,7 @@ impl<'a> LongRecord<'a> {
         axes.entry(joined)
             .or_insert_with_key(|joined| {
                 let times: Vec<&[DateTime<Utc>]> =
-                    joined.iter().map(|&k| &self.files[k].0[..]).collect();
+                    joined.iter().map(|&k| &self.files[k].times[..]).collect();
                 Arc::new(Axis::join(&times))
             })
             .clone()
@@ -819,26 +814,9 @@ mod tests {
     use super::*;
     use crate::wind::{PointSeries, WindSeries};
 
-    fn station(position: Option<LatLon>, u: f64) -> WindSource {
-        let t = DateTime::parse_from_rfc3339("2027-05-01T00:00:00Z")
-            .expect("valid")
-            .to_utc();
-        WindSource::Series {
-            path: PathBuf::from("s.csv"),
-            series: PointSeries {
-                waves: None,
-                position,
-                series: WindSeries {
-                    times: vec![t],
-                    wind: vec![Wind::new(u, 0.0)],
-                },
-            },
-        }
-    }
-
-    /// A station record without a position, hourly at `hours` after 1 May 2027, the
-    /// wind from the west at `u` m/s.
-    fn record(hours: &[i64], u: f64) -> WindSource {
+    /// A station record at `position` (or without one), at `hours` after 1 May 2027,
+    /// the wind from the west at `u` m/s.
+    fn record(position: Option<LatLon>, hours: &[i64], u: f64) -> WindSource {
         let t0 = DateTime::parse_from_rfc3339("2027-05-01T00:00:00Z")
             .expect("valid")
             .to_utc();
@@ -846,7 +824,7 @@ mod tests {
             path: PathBuf::from(format!("r{u}.csv")),
             series: PointSeries {
                 waves: None,
-                position: None,
+                position,
                 series: WindSeries {
                     times: hours
                         .iter()
@@ -858,21 +836,25 @@ mod tests {
         }
     }
 
+    fn station(position: Option<LatLon>, u: f64) -> WindSource {
+        record(position, &[0], u)
+    }
+
     /// Two records that overlap are joined in time: hours 0-3 in order, hour 2 from the
     /// first record given; the extra point follows, and a second group on the same two
     /// records gets the same times.
     #[test]
     fn merged_records_take_the_first_given_where_they_overlap() {
-        let sources = [record(&[0, 1, 2], 1.0), record(&[3, 2], 2.0)];
+        let sources = [record(None, &[0, 1, 2], 1.0), record(None, &[3, 2], 2.0)];
         let group = PointGroup::new(
             vec![LatLon::new(36.0, -122.0), LatLon::new(36.1, -122.0)],
             LatLon::new(36.05, -122.0),
             Some(LatLon::new(36.05, -122.0)),
         );
-        let c = sample_merged(&sources, &[group.clone(), group], &Progress::new())
-            .expect("records read");
-        for g in &c.groups {
-            let g = g.as_ref().expect("covered");
+        let groups = [group.clone(), group];
+        let record = LongRecord::read(&sources, &groups, &Progress::new()).expect("records read");
+        for g in 0..groups.len() {
+            let g = record.group(g).expect("covered");
             let hours: Vec<i64> = g
                 .times
                 .iter()
@@ -885,7 +867,7 @@ mod tests {
             assert_eq!(g.extra.as_ref().map(u), Some(vec![1.0, 1.0, 1.0, 2.0]));
             assert_eq!(g.source, 0);
         }
-        let spans: Vec<usize> = c.sources.iter().flatten().map(|s| s.steps).collect();
+        let spans: Vec<usize> = record.spans.iter().flatten().map(|s| s.steps).collect();
         assert_eq!(spans, [3, 2]);
     }
 

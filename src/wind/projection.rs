@@ -395,8 +395,7 @@ impl RotatedPole {
 /// guesses (1 − (1 − 1/m)/(8m²)) cos(π (k − ¼)/(m + ½)) for degree m (Tricomi 1950, as
 /// given in Hale and Townsend 2013; from memory), which are within about m⁻⁴ of the
 /// roots, so one or two steps do. Each step costs O(n) multiplications (the
-/// recurrence's coefficients are worked out once), so a grid costs O(n²): about 0.03 s
-/// for N = 4,000.
+/// recurrence's coefficients are worked out once), so a grid costs O(n²).
 #[must_use]
 pub fn gaussian_latitudes(n: usize) -> Vec<f64> {
     let count = 2 * n;
