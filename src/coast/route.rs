@@ -61,6 +61,7 @@
 use std::cmp::Ordering;
 use std::collections::BinaryHeap;
 
+use rayon::prelude::*;
 use rstar::{AABB, RTree, RTreeObject, SelectionFunction};
 
 use super::{EARTH_MEAN_RADIUS_M, Land, LatLon, distance_m};
@@ -160,22 +161,32 @@ pub fn sea_routes(
         let Some(search) = Search::run(&region, from) else {
             break;
         };
-        pending.retain(|&k| {
-            let (route, settled) = match search.route_to(to[k]) {
-                Reach::Unconnected => (None, true),
-                Reach::NoWay => (
-                    None,
-                    region.whole || region.exit_bound_m(from, to[k]) > limits.max_length_m,
-                ),
-                Reach::Way(route) => {
-                    let settled =
-                        region.whole || route.length_m <= region.exit_bound_m(from, to[k]);
-                    (Some(route), settled)
-                }
-            };
-            routes[k] = route;
-            !settled
-        });
+        // Each target's way is traced back independently: in parallel.
+        let traced: Vec<(usize, Option<SeaRoute>, bool)> = pending
+            .par_iter()
+            .map(|&k| {
+                let (route, settled) = match search.route_to(to[k]) {
+                    Reach::Unconnected => (None, true),
+                    Reach::NoWay => (
+                        None,
+                        region.whole || region.exit_bound_m(from, to[k]) > limits.max_length_m,
+                    ),
+                    Reach::Way(route) => {
+                        let settled =
+                            region.whole || route.length_m <= region.exit_bound_m(from, to[k]);
+                        (Some(route), settled)
+                    }
+                };
+                (k, route, settled)
+            })
+            .collect();
+        pending = traced
+            .into_iter()
+            .filter_map(|(k, route, settled)| {
+                routes[k] = route;
+                (!settled).then_some(k)
+            })
+            .collect();
         margin_m *= 4.0;
     }
     routes

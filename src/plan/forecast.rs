@@ -23,8 +23,8 @@ use crate::upwelling::{
 };
 use crate::wind::{
     Conditions, GroupWind, Member, PointGroup, PointSeries, RunRule, SegmentWind, SourceIdentity,
-    SourceSpan, WindError, WindSource, forecast_runs, groups_fingerprint, length_weighted_at,
-    sample_run, sample_waves, wind_at_time,
+    SourceSpan, TimeStep, WindError, WindSource, forecast_runs, groups_fingerprint,
+    length_weighted_at, sample_run, sample_waves, time_step,
 };
 use chrono::{DateTime, Duration, NaiveDate, Timelike, Utc};
 use chrono_tz::Tz;
@@ -399,13 +399,52 @@ fn hourly_timeline<'a>(groups: impl Iterator<Item = &'a GroupWind> + Clone) -> V
         .collect()
 }
 
-/// The wind of a group's point `i` at `t`, interpolated in time.
-fn wind_at(g: &GroupWind, i: usize, t: DateTime<Utc>) -> Option<Wind> {
-    series_at(&g.times, &g.points[i], t)
+/// Each hour of a timeline as a step on each set of times the groups were read on
+/// (groups read from one file share their times): found once, not once per point and
+/// hour.
+struct Steps<'a> {
+    timeline: &'a [DateTime<Utc>],
+    on: Vec<StepsOn>,
 }
 
-fn series_at(times: &[DateTime<Utc>], wind: &[Wind], t: DateTime<Utc>) -> Option<Wind> {
-    wind_at_time(times, wind, t, MAX_WIND_GAP_H)
+/// A set of times and where each hour of the timeline falls on it.
+type StepsOn = (Arc<[DateTime<Utc>]>, Vec<Option<TimeStep>>);
+
+impl<'a> Steps<'a> {
+    fn new<'g>(timeline: &'a [DateTime<Utc>], groups: impl Iterator<Item = &'g GroupWind>) -> Self {
+        let mut on: Vec<StepsOn> = Vec::new();
+        for g in groups {
+            if !on.iter().any(|(times, _)| Arc::ptr_eq(times, &g.times)) {
+                let steps = timeline
+                    .iter()
+                    .map(|&t| time_step(&g.times, t, MAX_WIND_GAP_H))
+                    .collect();
+                on.push((g.times.clone(), steps));
+            }
+        }
+        Self { timeline, on }
+    }
+
+    /// Each hour of the timeline as a step on the times of `g` (a group given to
+    /// [`Steps::new`]; empty for any other).
+    fn of(&self, g: &GroupWind) -> &[Option<TimeStep>] {
+        self.on
+            .iter()
+            .find(|(times, _)| Arc::ptr_eq(times, &g.times))
+            .map_or(&[], |(_, steps)| steps.as_slice())
+    }
+
+    /// The index of `t` on the timeline, if it is one of its hours.
+    fn hour(&self, t: DateTime<Utc>) -> Option<usize> {
+        let first = *self.timeline.first()?;
+        let h = usize::try_from((t - first).num_hours()).ok()?;
+        (self.timeline.get(h) == Some(&t)).then_some(h)
+    }
+}
+
+/// The wind of one point's series at a step (`None` where the hour has no step).
+fn wind_on(step: Option<TimeStep>, wind: &[Wind]) -> Option<Wind> {
+    step?.wind(wind)
 }
 
 /// The points a coast and its ports need, in groups, and where each stretch's are.
@@ -512,44 +551,43 @@ pub fn sample_forecast_conditions(
     let waves = sample_waves(sources, &anchors, progress)?;
     let (stretch_pieces, stretches): (Vec<Segment>, Vec<StretchForecast>) = cut.into_iter().unzip();
     let n = stretches.len();
-    // Runs are independent: they are read in parallel (one per core, each with its own
-    // fetch tables); each run's ways' points are summed up in its routes and dropped
-    // before the next is read, so memory grows with stretches × hours × runs.
+    // Runs are independent: they are read in parallel (sharing the fetch tables); each
+    // run's ways' points are summed up in its routes and dropped before the next is
+    // read, so memory grows with stretches × hours × runs.
+    let fetch = FetchCache::new(geometry.land);
     let runs: Vec<(SampledRun, Vec<DateTime<Utc>>)> = members
         .into_par_iter()
-        .map_init(
-            || FetchCache::new(geometry.land),
-            |fetch, member| {
-                let mut conditions =
-                    sample_run(sources, &groups, member.map(|m| (&runs_of, m)), progress)?;
-                let timeline = hourly_timeline(conditions.groups.iter().flatten());
-                let routes = geometry
-                    .ports
-                    .iter()
-                    .enumerate()
-                    .map(|(p, &port)| {
-                        port_routes(
-                            port,
-                            &stretches,
-                            &layout,
-                            &route_groups[p * n..(p + 1) * n],
-                            (&conditions, &groups, &waves),
-                            (&timeline, &mut *fetch),
-                        )
-                    })
-                    .collect();
-                // The stretches' own groups (two per stretch) are laid out first.
-                conditions.groups.truncate(2 * n);
-                Ok((
-                    SampledRun {
-                        member,
-                        conditions,
-                        routes,
-                    },
-                    timeline,
-                ))
-            },
-        )
+        .map(|member| {
+            let mut conditions =
+                sample_run(sources, &groups, member.map(|m| (&runs_of, m)), progress)?;
+            let timeline = hourly_timeline(conditions.groups.iter().flatten());
+            let steps = Steps::new(&timeline, conditions.groups.iter().flatten());
+            let routes = geometry
+                .ports
+                .iter()
+                .enumerate()
+                .map(|(p, &port)| {
+                    port_routes(
+                        port,
+                        &stretches,
+                        &layout,
+                        &route_groups[p * n..(p + 1) * n],
+                        (&conditions, &groups, &waves),
+                        (&steps, &fetch),
+                    )
+                })
+                .collect();
+            // The stretches' own groups (two per stretch) are laid out first.
+            conditions.groups.truncate(2 * n);
+            Ok((
+                SampledRun {
+                    member,
+                    conditions,
+                    routes,
+                },
+                timeline,
+            ))
+        })
         .collect::<Result<_, WindError>>()?;
     if runs
         .iter()
@@ -591,8 +629,13 @@ pub fn sample_forecast_conditions(
     })
 }
 
-/// A point's hourly wind and sea, and whether the sea is an estimate.
-type PointHours = (Vec<Option<Wind>>, Vec<Option<super::seastate::SeaAt>>, bool);
+/// A point's hourly wind speed (knots) and sea.
+struct PointHours {
+    knots: Vec<Option<f64>>,
+    seas: Vec<Option<super::seastate::SeaAt>>,
+    /// The sea is the wind sea estimated from the wind (no wave forecast there).
+    estimated: bool,
+}
 
 /// The ways from one port: distance, land crossed, and the strongest wind on the way
 /// each hour.
@@ -602,8 +645,82 @@ fn port_routes(
     layout: &[StretchGroups],
     route_groups: &[RouteGroups],
     (conditions, groups, waves): (&Conditions, &[PointGroup], &[Option<PointSeries>]),
-    (timeline, fetch): (&[DateTime<Utc>], &mut FetchCache<'_>),
+    (steps, fetch): (&Steps<'_>, &FetchCache<'_>),
 ) -> PortRoutes {
+    // The ways to neighbouring stretches share their first legs, and so the points on
+    // them: each point's hourly wind and sea is worked out once (keyed by its position,
+    // from the first group that needs it): the points of each way where they have wind,
+    // then the stretch's centre.
+    let mut seen: std::collections::HashMap<(u64, u64), usize> = std::collections::HashMap::new();
+    let mut unique: Vec<(LatLon, HoursFrom)> = Vec::new();
+    let mut index_of = |p: LatLon, from: HoursFrom| {
+        *seen
+            .entry((p.lat_deg.to_bits(), p.lon_deg.to_bits()))
+            .or_insert_with(|| {
+                unique.push((p, from));
+                unique.len() - 1
+            })
+    };
+    let mut ways: Vec<(Vec<usize>, bool)> = Vec::with_capacity(stretches.len());
+    for ((s, l), (at, _)) in stretches.iter().zip(layout).zip(route_groups) {
+        let mut on_way: Vec<usize> = at
+            .iter()
+            .filter(|&&k| conditions.groups[k].is_some())
+            .map(|&k| index_of(groups[k].anchor, HoursFrom::Point(k)))
+            .collect();
+        // A point of the way without wind leaves the whole way without a forecast.
+        let complete = on_way.len() == at.len();
+        on_way.push(index_of(s.centre, HoursFrom::Centre(l.pieces)));
+        ways.push((on_way, complete));
+    }
+    // Each point's hours, in parallel.
+    let hours: Vec<PointHours> = unique
+        .par_iter()
+        .map(|&(p, from)| point_hours(p, from, (conditions, waves), steps, fetch))
+        .collect();
+    let timeline = steps.timeline;
+    let per_stretch: Vec<StretchWay> = ways
+        .par_iter()
+        .map(|(on_way, complete)| {
+            let points: Vec<&PointHours> = on_way.iter().map(|&u| &hours[u]).collect();
+            let max: Vec<Option<f64>> = (0..timeline.len())
+                .map(|h| {
+                    if !complete {
+                        return None;
+                    }
+                    points
+                        .iter()
+                        .try_fold(0.0_f64, |m, p| p.knots[h].map(|k| m.max(k)))
+                })
+                .collect();
+            let highest: Vec<Option<f64>> = (0..timeline.len())
+                .map(|k| {
+                    points
+                        .iter()
+                        .filter_map(|p| p.seas[k].map(|x| x.0))
+                        .reduce(f64::max)
+                })
+                .collect();
+            let steepest: Vec<Option<f64>> = (0..timeline.len())
+                .map(|k| {
+                    points
+                        .iter()
+                        .filter_map(|p| p.seas[k].and_then(|(m, t)| t.map(|t| m / (t * t))))
+                        .reduce(f64::max)
+                })
+                .collect();
+            StretchWay {
+                max_wind_kt: hourly_values(max),
+                max_wave_m: hourly_values(highest),
+                max_steepness: hourly_values(steepest),
+                wave_source: if points.iter().any(|p| p.estimated) {
+                    WaveSource::Estimate
+                } else {
+                    WaveSource::Forecast
+                },
+            }
+        })
+        .collect();
     let mut out = PortRoutes {
         port,
         distance_nm: Vec::with_capacity(stretches.len()),
@@ -613,12 +730,7 @@ fn port_routes(
         max_steepness: Vec::with_capacity(stretches.len()),
         wave_source: Vec::with_capacity(stretches.len()),
     };
-    // The ways to neighbouring stretches share their first legs, and so the points on
-    // them: each point's hourly wind and sea is worked out once (keyed by its position).
-    let mut seen: std::collections::HashMap<(u64, u64), Arc<PointHours>> =
-        std::collections::HashMap::new();
-    for ((s, l), (at, route)) in stretches.iter().zip(layout).zip(route_groups) {
-        let n = at.len();
+    for ((s, (_, route)), way) in stretches.iter().zip(route_groups).zip(per_stretch) {
         out.distance_nm.push(
             route
                 .as_ref()
@@ -626,93 +738,90 @@ fn port_routes(
                 / NAUTICAL_MILE_M,
         );
         out.routes.push(route.clone());
-        let centre = conditions.groups[l.pieces].as_ref();
-        // Each point of the way and the stretch's centre: its hourly wind, and its
-        // waves: forecast where a wave file covers the point, else (`None` here) the
-        // wind sea estimated there.
-        let mut hours_at = |p: LatLon, k: usize, winds: &dyn Fn() -> Vec<Option<Wind>>| {
-            let key = (p.lat_deg.to_bits(), p.lon_deg.to_bits());
-            seen.entry(key)
-                .or_insert_with(|| {
-                    let winds = winds();
-                    let (seas, estimated) = match waves[k].as_ref() {
-                        Some(series) => (
-                            timeline
-                                .iter()
-                                .map(|&t| {
-                                    series
-                                        .wave_at(t, MAX_WIND_GAP_H)
-                                        .map(|w| (w.height_m, w.period_s))
-                                })
-                                .collect(),
-                            false,
-                        ),
-                        None => (fetch.wind_sea_m(p, &winds), true),
-                    };
-                    Arc::new((winds, seas, estimated))
-                })
-                .clone()
-        };
-        let mut points: Vec<Arc<PointHours>> = Vec::with_capacity(n + 1);
-        for &k in at {
-            if let Some(g) = conditions.groups[k].as_ref() {
-                let hours = hours_at(groups[k].anchor, k, &|| {
-                    timeline.iter().map(|&t| wind_at(g, 0, t)).collect()
-                });
-                points.push(hours);
-            }
-        }
-        // A point of the way without wind leaves the whole way without a forecast.
-        let way_complete = points.len() == n;
-        let centre_hours = hours_at(s.centre, l.pieces, &|| {
-            timeline
-                .iter()
-                .map(|&t| centre.and_then(|g| centre_wind_at(g, t)))
-                .collect()
-        });
-        points.push(centre_hours);
-        let max: Vec<Option<f64>> = (0..timeline.len())
-            .map(|h| {
-                if !way_complete {
-                    return None;
-                }
-                points.iter().try_fold(0.0_f64, |m, p| {
-                    p.0[h].map(|w| m.max(m_s_to_knots(w.speed_m_s())))
-                })
-            })
-            .collect();
-        out.max_wind_kt.push(hourly_values(max));
-        let estimated = points.iter().any(|p| p.2);
-        let seas: Vec<&[Option<super::seastate::SeaAt>]> =
-            points.iter().map(|p| p.1.as_slice()).collect();
-        let highest: Vec<Option<f64>> = (0..timeline.len())
-            .map(|k| {
-                seas.iter()
-                    .filter_map(|h| h[k].map(|x| x.0))
-                    .reduce(f64::max)
-            })
-            .collect();
-        let steepest: Vec<Option<f64>> = (0..timeline.len())
-            .map(|k| {
-                seas.iter()
-                    .filter_map(|h| h[k].and_then(|(m, t)| t.map(|t| m / (t * t))))
-                    .reduce(f64::max)
-            })
-            .collect();
-        out.max_wave_m.push(hourly_values(highest));
-        out.max_steepness.push(hourly_values(steepest));
-        out.wave_source.push(if estimated {
-            WaveSource::Estimate
-        } else {
-            WaveSource::Forecast
-        });
+        out.max_wind_kt.push(way.max_wind_kt);
+        out.max_wave_m.push(way.max_wave_m);
+        out.max_steepness.push(way.max_steepness);
+        out.wave_source.push(way.wave_source);
     }
     out
 }
 
-/// The wind at a stretch's centre (the group's extra point), interpolated in time.
-fn centre_wind_at(g: &GroupWind, t: DateTime<Utc>) -> Option<Wind> {
-    g.extra.as_ref().and_then(|e| series_at(&g.times, e, t))
+/// Where a point on the way takes its wind from: a route point's own group, or a
+/// stretch's centre (the extra point of its pieces' group).
+#[derive(Debug, Clone, Copy)]
+enum HoursFrom {
+    Point(usize),
+    Centre(usize),
+}
+
+/// The strongest wind and the sea on the way to one stretch, each hour.
+struct StretchWay {
+    max_wind_kt: HourlyValues,
+    max_wave_m: HourlyValues,
+    max_steepness: HourlyValues,
+    wave_source: WaveSource,
+}
+
+/// One point's hourly wind and its waves: forecast where a wave file covers the point,
+/// else the wind sea estimated there.
+fn point_hours(
+    p: LatLon,
+    from: HoursFrom,
+    (conditions, waves): (&Conditions, &[Option<PointSeries>]),
+    steps: &Steps<'_>,
+    fetch: &FetchCache<'_>,
+) -> PointHours {
+    let (k, winds): (usize, Vec<Option<Wind>>) = match from {
+        HoursFrom::Point(k) => (
+            k,
+            conditions.groups[k].as_ref().map_or_else(
+                || vec![None; steps.timeline.len()],
+                |g| {
+                    steps
+                        .of(g)
+                        .iter()
+                        .map(|&step| wind_on(step, &g.points[0]))
+                        .collect()
+                },
+            ),
+        ),
+        HoursFrom::Centre(k) => (
+            k,
+            conditions.groups[k].as_ref().map_or_else(
+                || vec![None; steps.timeline.len()],
+                |g| {
+                    steps
+                        .of(g)
+                        .iter()
+                        .map(|&step| g.extra.as_deref().and_then(|e| wind_on(step, e)))
+                        .collect()
+                },
+            ),
+        ),
+    };
+    let (seas, estimated) = match waves[k].as_ref() {
+        Some(series) => (
+            steps
+                .timeline
+                .iter()
+                .map(|&t| {
+                    series
+                        .wave_at(t, MAX_WIND_GAP_H)
+                        .map(|w| (w.height_m, w.period_s))
+                })
+                .collect(),
+            false,
+        ),
+        None => (fetch.wind_sea_m(p, &winds), true),
+    };
+    PointHours {
+        knots: winds
+            .iter()
+            .map(|w| w.map(|w| m_s_to_knots(w.speed_m_s())))
+            .collect(),
+        seas,
+        estimated,
+    }
 }
 
 impl SampledConditions {
@@ -738,13 +847,14 @@ impl SampledConditions {
             .runs
             .par_iter()
             .map(|run| {
+                let steps = Steps::new(&self.timeline, run.conditions.groups.iter().flatten());
                 self.stretches
                     .par_iter()
                     .zip(&self.layout)
                     .zip(&self.stretch_pieces)
                     .map(|((s, l), part)| {
                         Arc::new(self.stretch_upwelling(
-                            &run.conditions,
+                            (&run.conditions, &steps),
                             s,
                             l,
                             part,
@@ -790,7 +900,7 @@ impl SampledConditions {
 
     fn stretch_upwelling(
         &self,
-        conditions: &Conditions,
+        (conditions, steps): (&Conditions, &Steps<'_>),
         s: &StretchForecast,
         l: &StretchGroups,
         part: &Segment,
@@ -813,13 +923,23 @@ impl SampledConditions {
             pieces: vec![Vec::new(); g.points.len()],
             midpoint: Vec::new(),
         };
-        for &t in &self.timeline {
-            let at: Option<Vec<Wind>> = (0..g.points.len()).map(|i| wind_at(g, i, t)).collect();
-            let Some(at) = at else { continue };
-            let centre =
-                centre_wind_at(g, t).unwrap_or_else(|| length_weighted_at(&part.pieces(), &at));
+        let mut at = Vec::with_capacity(g.points.len());
+        for (&t, &step) in self.timeline.iter().zip(steps.of(g)) {
+            at.clear();
+            let complete = g
+                .points
+                .iter()
+                .all(|p| wind_on(step, p).map(|w| at.push(w)).is_some());
+            if !complete {
+                continue;
+            }
+            let centre = g
+                .extra
+                .as_deref()
+                .and_then(|e| wind_on(step, e))
+                .unwrap_or_else(|| length_weighted_at(&part.pieces(), &at));
             wind.times.push(t);
-            for (p, w) in wind.pieces.iter_mut().zip(at) {
+            for (p, &w) in wind.pieces.iter_mut().zip(&at) {
                 p.push(w);
             }
             wind.midpoint.push(centre);
@@ -827,9 +947,12 @@ impl SampledConditions {
         let Ok(series) = index_series(part, &wind, &settings.index) else {
             return s;
         };
-        let probes = conditions.groups[l.pumping].as_ref();
+        let probes = conditions.groups[l.pumping]
+            .as_ref()
+            .map(|p| Probes::new(p, steps.of(p), &l.probes));
         let f_centre = coriolis_parameter(s.centre.lat_deg);
         let along = s.alongshore_bearing_deg.to_radians();
+        let (along_sin, along_cos) = (along.sin(), along.cos());
         let idx = &settings.index;
         s.hours = series
             .times
@@ -842,9 +965,11 @@ impl SampledConditions {
                 StretchHour {
                     time,
                     wind,
-                    alongshore_stress_pa: tau.x_pa * along.sin() + tau.y_pa * along.cos(),
+                    alongshore_stress_pa: tau.x_pa * along_sin + tau.y_pa * along_cos,
                     index_m3s_per_100m: index,
-                    pumping_m_s: probes.and_then(|p| pumping_at(p, &l.probes, time, idx)),
+                    pumping_m_s: probes
+                        .as_ref()
+                        .and_then(|p| p.pumping_at(steps.hour(time)?, idx)),
                     transport_m2_s: (m.x_m2_s, m.y_m2_s),
                     ekman_depth_m: (s.latitude == Latitude::Fine)
                         .then(|| ekman_depth_empirical_m(wind.speed_m_s(), s.centre.lat_deg)),
@@ -865,26 +990,92 @@ impl SampledConditions {
     }
 }
 
-/// Ekman pumping at the probes of one stretch at `t`, from one grid.
-fn pumping_at(
-    g: &GroupWind,
-    probes: &[LatLon; 4],
-    t: DateTime<Utc>,
-    idx: &IndexSettings,
-) -> Option<f64> {
-    let stress = |i: usize| -> Option<ProbeStress> {
-        Some(ProbeStress {
-            stress: wind_stress(wind_at(g, i, t)?, &idx.drag, idx.rho_air_kg_m3),
-            lat_deg: probes[i].lat_deg,
-        })
-    };
-    let p = PumpingProbes {
-        east: stress(0)?,
-        west: stress(1)?,
-        north: stress(2)?,
-        south: stress(3)?,
-        dx_m: distance_m(probes[1], probes[0]),
-        dy_m: distance_m(probes[3], probes[2]),
-    };
-    ekman_pumping_m_s(&p, idx.rho_water_kg_m3)
+/// The Ekman pumping probes of one stretch, read from one grid: their wind, where each
+/// hour falls on it, and their spacing.
+struct Probes<'a> {
+    wind: &'a GroupWind,
+    steps: &'a [Option<TimeStep>],
+    lat_deg: [f64; 4],
+    dx_m: f64,
+    dy_m: f64,
+}
+
+impl<'a> Probes<'a> {
+    fn new(wind: &'a GroupWind, steps: &'a [Option<TimeStep>], probes: &[LatLon; 4]) -> Self {
+        Self {
+            wind,
+            steps,
+            lat_deg: probes.map(|p| p.lat_deg),
+            dx_m: distance_m(probes[1], probes[0]),
+            dy_m: distance_m(probes[3], probes[2]),
+        }
+    }
+
+    /// Ekman pumping at hour `h` of the timeline.
+    fn pumping_at(&self, h: usize, idx: &IndexSettings) -> Option<f64> {
+        let step = *self.steps.get(h)?;
+        let stress = |i: usize| -> Option<ProbeStress> {
+            Some(ProbeStress {
+                stress: wind_stress(
+                    wind_on(step, &self.wind.points[i])?,
+                    &idx.drag,
+                    idx.rho_air_kg_m3,
+                ),
+                lat_deg: self.lat_deg[i],
+            })
+        };
+        let p = PumpingProbes {
+            east: stress(0)?,
+            west: stress(1)?,
+            north: stress(2)?,
+            south: stress(3)?,
+            dx_m: self.dx_m,
+            dy_m: self.dy_m,
+        };
+        ekman_pumping_m_s(&p, idx.rho_water_kg_m3)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::wind::wind_at_time;
+
+    /// The hours of a timeline found once per set of times give each series the wind
+    /// the search per point and hour gives: on steps, between them, across a gap longer
+    /// than the bridged six hours (none), and outside the series (none).
+    #[test]
+    fn steps_found_once_match_the_search_per_point() {
+        let t0: DateTime<Utc> = "2027-05-11T00:00:00Z".parse().expect("time");
+        let hours = [0, 3, 6, 15, 18];
+        let times: Arc<[DateTime<Utc>]> = hours.iter().map(|&h| t0 + Duration::hours(h)).collect();
+        let series: Vec<Wind> = (0..hours.len())
+            .map(|k| Wind::new(k as f64, -2.0 * k as f64))
+            .collect();
+        let group = GroupWind {
+            source: 0,
+            times: times.clone(),
+            points: vec![series.clone()],
+            extra: None,
+        };
+        let timeline: Vec<DateTime<Utc>> = (-2..22).map(|h| t0 + Duration::hours(h)).collect();
+        let steps = Steps::new(&timeline, std::iter::once(&group));
+        let on = steps.of(&group);
+        assert_eq!(on.len(), timeline.len());
+        for (&t, &step) in timeline.iter().zip(on) {
+            assert_eq!(
+                wind_on(step, &series),
+                wind_at_time(&times, &series, t, MAX_WIND_GAP_H),
+                "at {t}"
+            );
+        }
+        // 01:00 is a third of the way from 00:00 to 03:00; 10:00 is in the nine-hour gap.
+        assert_eq!(
+            wind_on(on[3], &series),
+            Some(Wind::new(1.0 / 3.0, -2.0 / 3.0))
+        );
+        assert_eq!(wind_on(on[12], &series), None);
+        assert_eq!(steps.hour(t0 + Duration::hours(5)), Some(7));
+        assert_eq!(steps.hour(t0 + Duration::minutes(90)), None);
+    }
 }

@@ -14,6 +14,7 @@ use crate::localtime::{local_day, local_time};
 use crate::upwelling::{EventPhase, UpwellingDay};
 use chrono::{DateTime, NaiveDate, Utc};
 use chrono_tz::Tz;
+use rayon::prelude::*;
 use std::sync::Arc;
 
 /// A stretch as one plan sees it: the forecast stretch, with the name and closure of
@@ -279,8 +280,12 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
         relaxation_window_days: forecast.settings.response.relaxation_window_days,
         threshold_m3s_per_100m: forecast.settings.events.threshold_m3s_per_100m,
     };
-    let days = (0..req.days.max(1))
+    // Days are ranked independently: in parallel.
+    let dates: Vec<NaiveDate> = (0..req.days.max(1))
         .filter_map(|k| from.checked_add_days(chrono::Days::new(k as u64)))
+        .collect();
+    let days = dates
+        .into_par_iter()
         .map(|d| {
             if runs.is_empty() {
                 ranker.rank_day(d, &stretches)
@@ -333,10 +338,16 @@ fn stretch_infos(
     routes: &super::PortRoutes,
     req: &PlanRequest<'_>,
 ) -> Vec<StretchInfo> {
-    run.iter()
+    // The first drawn segment of each id (ids are unique in a valid scenario).
+    let mut by_id: std::collections::HashMap<&str, &CoastSegment> =
+        std::collections::HashMap::with_capacity(req.coast.len());
+    for c in req.coast.iter().rev() {
+        by_id.insert(c.id.as_str(), c);
+    }
+    run.par_iter()
         .enumerate()
         .map(|(k, s)| {
-            let drawn = req.coast.iter().find(|c| c.id == s.segment_id);
+            let drawn = by_id.get(s.segment_id.as_str()).copied();
             let label = drawn.map_or(s.segment_id.as_str(), CoastSegment::label);
             let (n, count) = s.part;
             StretchInfo {
@@ -379,6 +390,13 @@ pub fn quantile(values: &[f64], q: f64) -> Option<f64> {
 /// an event (a planning choice of this tool, not a published threshold).
 const LAGGED_BLOOM: f64 = 0.2;
 
+/// A local day and its working hours, from the wall-clock hours of the trip settings.
+struct WorkDay {
+    date: NaiveDate,
+    start: DateTime<Utc>,
+    end: DateTime<Utc>,
+}
+
 /// What ranking a day needs besides the stretches.
 struct DayRanker<'a> {
     tz: Tz,
@@ -393,10 +411,11 @@ struct DayRanker<'a> {
 impl DayRanker<'_> {
     /// Ranks the stretches for one local day.
     fn rank_day(&self, date: NaiveDate, stretches: &[StretchInfo]) -> DayPlan {
+        let work = self.work_day(date);
         let mut ranked = Vec::new();
         let mut excluded = Vec::new();
         for (k, s) in stretches.iter().enumerate() {
-            match self.judge(date, s) {
+            match self.judge(&work, s) {
                 Ok(mut r) => {
                     r.stretch = k;
                     ranked.push(r);
@@ -435,13 +454,14 @@ impl DayRanker<'_> {
     /// without a window scores 0), with the first such run's window, trip and reasons
     /// and the runs' mean productivity; else it is left out for the first run's reason.
     fn rank_day_runs(&self, date: NaiveDate, runs: &[Vec<StretchInfo>]) -> DayPlan {
+        let work = self.work_day(date);
         let mut ranked = Vec::new();
         let mut excluded = Vec::new();
         let mut odds = Vec::new();
         let count = runs.first().map_or(0, Vec::len);
         for k in 0..count {
             let judged: Vec<Result<RankedStretch, Exclusion>> =
-                runs.iter().map(|r| self.judge(date, &r[k])).collect();
+                runs.iter().map(|r| self.judge(&work, &r[k])).collect();
             let means: Vec<f64> = runs
                 .iter()
                 .filter_map(|r| r[k].day(date).and_then(|d| d.mean_index_m3s_per_100m))
@@ -511,12 +531,21 @@ impl DayRanker<'_> {
 
     /// The working hours of a day: wall-clock local times, the same on clock-change
     /// days.
-    fn working_hours(&self, date: NaiveDate, s: &StretchInfo) -> Vec<WorkingHour> {
-        let start = local_time(self.tz, date, self.trip.day_start_hour);
-        let end = local_time(self.tz, date, self.trip.day_end_hour);
-        s.hours
+    fn work_day(&self, date: NaiveDate) -> WorkDay {
+        WorkDay {
+            date,
+            start: local_time(self.tz, date, self.trip.day_start_hour),
+            end: local_time(self.tz, date, self.trip.day_end_hour),
+        }
+    }
+
+    /// The stretch's hours within the working hours of a day (its hours are in time
+    /// order).
+    fn working_hours(work: &WorkDay, s: &StretchInfo) -> Vec<WorkingHour> {
+        let a = s.hours.partition_point(|h| h.time < work.start);
+        let b = a + s.hours[a..].partition_point(|h| h.time < work.end);
+        s.hours[a..b]
             .iter()
-            .filter(|h| h.time >= start && h.time < end)
             .map(|h| WorkingHour {
                 time: h.time,
                 wind_kt: s.route_wind_kt(h.time),
@@ -527,7 +556,8 @@ impl DayRanker<'_> {
     }
 
     /// Ranks one stretch on one day, or says why it is left out.
-    fn judge(&self, date: NaiveDate, s: &StretchInfo) -> Result<RankedStretch, Exclusion> {
+    fn judge(&self, work: &WorkDay, s: &StretchInfo) -> Result<RankedStretch, Exclusion> {
+        let date = work.date;
         let vessel = self.vessel;
         if let Some(c) = s.closure.as_ref().filter(|c| c.applies_on(date)) {
             return Err(Exclusion::Closed(c.clone()));
@@ -546,7 +576,7 @@ impl DayRanker<'_> {
                 range_nm: vessel.range_nm,
             });
         }
-        let working = self.working_hours(date, s);
+        let working = Self::working_hours(work, s);
         let day = s
             .day(date)
             .filter(|d| d.mean_index_m3s_per_100m.is_some())

@@ -5,6 +5,7 @@
 use crate::coast::{FETCH_CAP_M, FETCH_DIRECTIONS, Land, LatLon, fetch_m};
 use crate::physics::{Wind, wind_sea};
 use std::collections::HashMap;
+use std::sync::Mutex;
 
 /// Points closer than this share a fetch table, degrees of latitude and longitude
 /// (about 5 km): the fetch changes little over that, and the land is probed once.
@@ -24,38 +25,62 @@ pub(super) type SeaAt = (f64, Option<f64>);
 
 pub(super) struct FetchCache<'a> {
     land: &'a Land,
-    tables: HashMap<(i64, i64), [Option<f64>; FETCH_DIRECTIONS]>,
+    /// Shared by the threads that estimate the sea at many points at once: cells are
+    /// spread over a few locks; a fetch two threads both miss is measured twice, to
+    /// the same value.
+    shards: Vec<Mutex<FetchTables>>,
 }
+
+type FetchTables = HashMap<(i64, i64), [Option<f64>; FETCH_DIRECTIONS]>;
+
+/// How many locks the fetch tables are spread over.
+const FETCH_SHARDS: i64 = 64;
 
 impl<'a> FetchCache<'a> {
     pub(super) fn new(land: &'a Land) -> Self {
         Self {
             land,
-            tables: HashMap::new(),
+            shards: (0..FETCH_SHARDS)
+                .map(|_| Mutex::new(HashMap::new()))
+                .collect(),
         }
     }
 
     /// The fetch at a point's cell for a wind from `from_deg`, to the nearest of the
     /// sixteen directions, m.
-    fn fetch_m(&mut self, p: LatLon, from_deg: f64) -> f64 {
+    fn fetch_m(&self, p: LatLon, from_deg: f64) -> f64 {
         let key = (
             (p.lat_deg / FETCH_CELL_DEG).round() as i64,
             (p.lon_deg / FETCH_CELL_DEG).round() as i64,
         );
         let step = 360.0 / FETCH_DIRECTIONS as f64;
         let k = (from_deg.rem_euclid(360.0) / step).round() as usize % FETCH_DIRECTIONS;
-        let land = self.land;
-        let slot = &mut self.tables.entry(key).or_insert([None; FETCH_DIRECTIONS])[k];
-        *slot.get_or_insert_with(|| {
+        let shard = usize::try_from(
+            key.0
+                .wrapping_mul(7919)
+                .wrapping_add(key.1)
+                .rem_euclid(FETCH_SHARDS),
+        )
+        .unwrap_or(0);
+        let tables = &self.shards[shard];
+        let known = tables
+            .lock()
+            .ok()
+            .and_then(|t| t.get(&key).and_then(|row| row[k]));
+        known.unwrap_or_else(|| {
             let centre = LatLon::new(key.0 as f64 * FETCH_CELL_DEG, key.1 as f64 * FETCH_CELL_DEG);
-            fetch_m(land, centre, k as f64 * step, FETCH_CAP_M)
+            let fetch = fetch_m(self.land, centre, k as f64 * step, FETCH_CAP_M);
+            if let Ok(mut t) = tables.lock() {
+                t.entry(key).or_insert([None; FETCH_DIRECTIONS])[k] = Some(fetch);
+            }
+            fetch
         })
     }
 
     /// The estimated wind sea at a point for each hour of an hourly wind series (`None`
     /// where the wind is missing): height, m, and peak period, s. The duration is how
     /// long the wind has blown from within 45° of its present direction, up to 72 hours.
-    pub(super) fn wind_sea_m(&mut self, p: LatLon, winds: &[Option<Wind>]) -> Vec<Option<SeaAt>> {
+    pub(super) fn wind_sea_m(&self, p: LatLon, winds: &[Option<Wind>]) -> Vec<Option<SeaAt>> {
         let mut out = Vec::with_capacity(winds.len());
         let mut run = 0usize;
         let mut last_dir: Option<f64> = None;
@@ -102,7 +127,7 @@ mod tests {
     /// An offshore easterly has a few kilometres of fetch: a small sea.
     #[test]
     fn onshore_sea_builds_offshore_sea_stays_small() {
-        let mut cache = FetchCache::new(Land::bundled());
+        let cache = FetchCache::new(Land::bundled());
         let at = LatLon::new(38.4, -123.2);
         let west = vec![Some(Wind::from_speed_direction(10.0, 270.0)); 80];
         let sea = cache.wind_sea_m(at, &west);

@@ -142,9 +142,12 @@ pub fn daily_upwelling(
     let mut pumping = Vec::with_capacity(days.len());
     let mut depth = Vec::with_capacity(days.len());
     for &day in days {
-        let a = times.partition_point(|t| *t < local_midnight(tz, day));
-        let next = day.succ_opt().unwrap_or(day);
-        let b = times.partition_point(|t| *t < local_midnight(tz, next));
+        let (start, end) = (
+            local_midnight(tz, day),
+            local_midnight(tz, day.succ_opt().unwrap_or(day)),
+        );
+        let a = times.partition_point(|t| *t < start);
+        let b = times.partition_point(|t| *t < end);
         let mean_index = mean(series.index_m3s_per_100m[a..b].iter().copied());
         let mean_pumping = mean(series.pumping_m_s[a..b].iter().filter_map(|p| *p));
         depth.push(mean(series.ekman_depth_m[a..b].iter().filter_map(|p| *p)));

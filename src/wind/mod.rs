@@ -85,9 +85,38 @@ pub fn wind_at_time(
     t: DateTime<Utc>,
     max_gap_h: f64,
 ) -> Option<Wind> {
+    time_step(times, t, max_gap_h)?.wind(wind)
+}
+
+/// Where a time falls on a series' times: on one of them, or between two (the index of
+/// the later and the fraction of the way from the earlier). Found once for many series
+/// on the same times, it spares a search per series.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum TimeStep {
+    /// On the time at this index.
+    At(usize),
+    /// Between the times at `k - 1` and `k`, at this fraction of the way.
+    Between(usize, f64),
+}
+
+impl TimeStep {
+    /// The wind at this step of a series on the times it was found on.
+    #[must_use]
+    pub fn wind(self, wind: &[Wind]) -> Option<Wind> {
+        match self {
+            Self::At(k) => wind.get(k).copied(),
+            Self::Between(k, frac) => Some(wind.get(k - 1)?.lerp(*wind.get(k)?, frac)),
+        }
+    }
+}
+
+/// Where `t` falls on `times` (strictly increasing); `None` outside them or across a
+/// gap longer than `max_gap_h` hours.
+#[must_use]
+pub fn time_step(times: &[DateTime<Utc>], t: DateTime<Utc>, max_gap_h: f64) -> Option<TimeStep> {
     let k = times.partition_point(|x| *x < t);
     if k < times.len() && times[k] == t {
-        return wind.get(k).copied();
+        return Some(TimeStep::At(k));
     }
     if k == 0 || k >= times.len() {
         return None;
@@ -98,7 +127,7 @@ pub fn wind_at_time(
         return None;
     }
     let frac = (t - a).num_seconds() as f64 / span_s;
-    Some(wind.get(k - 1)?.lerp(*wind.get(k)?, frac))
+    Some(TimeStep::Between(k, frac))
 }
 
 /// A point series read from a CSV file.
