@@ -1,6 +1,7 @@
 //! Benchmark of the desktop app: time to the first frame of the demo, and CPU time per
-//! frame (outside rendering) with about 2,000 stretches on the map. Run with
-//! `cargo bench --bench app_frame`.
+//! frame (outside rendering) with 2,328 and 10,185 stretches on the map. Goals (issue
+//! 18): first frame under 150 ms, under 8 ms per frame (median) at 10,000 stretches.
+//! Run with `cargo bench --bench app_frame`.
 
 #[path = "common/long_coast.rs"]
 mod long_coast;
@@ -47,9 +48,15 @@ fn main() {
         plan_ready.as_secs_f64() * 1e3
     );
 
-    // The demo coast cut into 2,328 stretches (benches/common/long_coast.rs).
-    let scenario = long_demo_scenario(8);
-    let (scenario_path, _) = write_demo(&dir.path().join("big")).expect("demo files");
+    // The demo coast cut into 2,328 and 10,185 stretches (benches/common/long_coast.rs).
+    for copies in [8, 35] {
+        frames_on_long_coast(copies, &dir.path().join(format!("long-{copies}")), &options);
+    }
+}
+
+fn frames_on_long_coast(copies: usize, dir: &std::path::Path, options: &AppOptions) {
+    let scenario = long_demo_scenario(copies);
+    let (scenario_path, _) = write_demo(dir).expect("demo files");
     save_scenario(&scenario_path, &scenario).expect("save");
     let o = options.clone();
     let path = scenario_path.clone();

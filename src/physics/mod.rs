@@ -22,7 +22,7 @@ pub use ekman::{
     EkmanTransport, OffshoreNormal, ekman_depth_empirical_m, ekman_transport,
     upwelling_index_m3s_per_100m,
 };
-pub use pumping::{ProbeStress, PumpingProbes, ekman_pumping_m_s};
+pub use pumping::{ProbeStress, PumpingProbes, ekman_pumping_m_s, ekman_pumping_with_f_m_s};
 pub use stress::{
     RHO_AIR_KG_M3, RHO_AIR_RANGE_KG_M3, RHO_WATER_KG_M3, RHO_WATER_RANGE_KG_M3, WindStress,
     wind_stress,

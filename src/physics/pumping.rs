@@ -42,17 +42,27 @@ pub struct PumpingProbes {
 #[must_use]
 pub fn ekman_pumping_m_s(probes: &PumpingProbes, rho_water_kg_m3: f64) -> Option<f64> {
     let p = probes;
+    let f = [p.east, p.west, p.north, p.south].map(|q| coriolis_parameter(q.lat_deg));
+    ekman_pumping_with_f_m_s(probes, f, rho_water_kg_m3)
+}
+
+/// [`ekman_pumping_m_s`] with the Coriolis parameter at each probe (east, west, north,
+/// south, 1/s) worked out beforehand, for many hours at the same probes.
+#[must_use]
+pub fn ekman_pumping_with_f_m_s(
+    probes: &PumpingProbes,
+    f: [f64; 4],
+    rho_water_kg_m3: f64,
+) -> Option<f64> {
+    let p = probes;
     let all = [p.east, p.west, p.north, p.south];
     if all.iter().any(|q| q.lat_deg.abs() < REFUSE_BELOW_LAT_DEG) || p.dx_m <= 0.0 || p.dy_m <= 0.0
     {
         return None;
     }
-    let over_f = |q: ProbeStress| {
-        let f = coriolis_parameter(q.lat_deg);
-        (q.stress.x_pa / f, q.stress.y_pa / f)
-    };
-    let d_tauy_f_dx = (over_f(p.east).1 - over_f(p.west).1) / p.dx_m;
-    let d_taux_f_dy = (over_f(p.north).0 - over_f(p.south).0) / p.dy_m;
+    let over_f = |q: ProbeStress, f: f64| (q.stress.x_pa / f, q.stress.y_pa / f);
+    let d_tauy_f_dx = (over_f(p.east, f[0]).1 - over_f(p.west, f[1]).1) / p.dx_m;
+    let d_taux_f_dy = (over_f(p.north, f[2]).0 - over_f(p.south, f[3]).0) / p.dy_m;
     Some((d_tauy_f_dx - d_taux_f_dy) / rho_water_kg_m3)
 }
 

@@ -13,8 +13,8 @@ use crate::coast::{
 use crate::localtime::local_day;
 use crate::physics::{
     LatitudeCheck, NAUTICAL_MILE_M, ProbeStress, PumpingProbes, Wind, check_latitude,
-    coriolis_parameter, ekman_depth_empirical_m, ekman_pumping_m_s, ekman_transport, m_s_to_knots,
-    wind_stress,
+    coriolis_parameter, ekman_depth_empirical_m, ekman_pumping_with_f_m_s, ekman_transport,
+    m_s_to_knots, wind_stress,
 };
 use crate::progress::Progress;
 use crate::upwelling::{
@@ -996,6 +996,8 @@ struct Probes<'a> {
     wind: &'a GroupWind,
     steps: &'a [Option<TimeStep>],
     lat_deg: [f64; 4],
+    /// The Coriolis parameter at each probe, 1/s.
+    f: [f64; 4],
     dx_m: f64,
     dy_m: f64,
 }
@@ -1006,6 +1008,7 @@ impl<'a> Probes<'a> {
             wind,
             steps,
             lat_deg: probes.map(|p| p.lat_deg),
+            f: probes.map(|p| coriolis_parameter(p.lat_deg)),
             dx_m: distance_m(probes[1], probes[0]),
             dy_m: distance_m(probes[3], probes[2]),
         }
@@ -1032,7 +1035,7 @@ impl<'a> Probes<'a> {
             dx_m: self.dx_m,
             dy_m: self.dy_m,
         };
-        ekman_pumping_m_s(&p, idx.rho_water_kg_m3)
+        ekman_pumping_with_f_m_s(&p, self.f, idx.rho_water_kg_m3)
     }
 }
 

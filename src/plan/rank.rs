@@ -56,26 +56,28 @@ impl std::ops::Deref for StretchInfo {
 }
 
 impl StretchInfo {
+    /// Where hour `t` is on the forecast's hourly timeline.
+    fn hour_index(&self, t: DateTime<Utc>) -> Option<usize> {
+        usize::try_from((t - self.timeline_start?).num_hours()).ok()
+    }
+
     /// The strongest wind on the way from port and at the stretch at hour `t`, knots.
     #[must_use]
     pub fn route_wind_kt(&self, t: DateTime<Utc>) -> Option<f64> {
-        let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
-        super::forecast::hourly_at(&self.route_max_wind_kt, k)
+        super::forecast::hourly_at(&self.route_max_wind_kt, self.hour_index(t)?)
     }
 
     /// The steepest sea on the way from port and at the stretch at hour `t`, the height
     /// over the period squared, m/s^2.
     #[must_use]
     pub fn route_steepness_m_s2(&self, t: DateTime<Utc>) -> Option<f64> {
-        let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
-        super::forecast::hourly_at(&self.route_max_steepness, k)
+        super::forecast::hourly_at(&self.route_max_steepness, self.hour_index(t)?)
     }
 
     /// The highest waves on the way from port and at the stretch at hour `t`, m.
     #[must_use]
     pub fn route_wave_m(&self, t: DateTime<Utc>) -> Option<f64> {
-        let k = usize::try_from((t - self.timeline_start?).num_hours()).ok()?;
-        super::forecast::hourly_at(&self.route_max_wave_m, k)
+        super::forecast::hourly_at(&self.route_max_wave_m, self.hour_index(t)?)
     }
 }
 
@@ -546,11 +548,15 @@ impl DayRanker<'_> {
         let b = a + s.hours[a..].partition_point(|h| h.time < work.end);
         s.hours[a..b]
             .iter()
-            .map(|h| WorkingHour {
-                time: h.time,
-                wind_kt: s.route_wind_kt(h.time),
-                wave_m: s.route_wave_m(h.time),
-                steepness_m_s2: s.route_steepness_m_s2(h.time),
+            .map(|h| {
+                let k = s.hour_index(h.time);
+                let at = |v: &[f32]| k.and_then(|k| super::forecast::hourly_at(v, k));
+                WorkingHour {
+                    time: h.time,
+                    wind_kt: at(&s.route_max_wind_kt),
+                    wave_m: at(&s.route_max_wave_m),
+                    steepness_m_s2: at(&s.route_max_steepness),
+                }
             })
             .collect()
     }
