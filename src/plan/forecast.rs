@@ -754,6 +754,23 @@ enum HoursFrom {
     Centre(usize),
 }
 
+impl HoursFrom {
+    /// The group the point's wind is read from.
+    fn group(self) -> usize {
+        match self {
+            Self::Point(k) | Self::Centre(k) => k,
+        }
+    }
+
+    /// The point's series in that group.
+    fn series(self, g: &GroupWind) -> Option<&[Wind]> {
+        match self {
+            Self::Point(_) => g.points.first().map(Vec::as_slice),
+            Self::Centre(_) => g.extra.as_deref(),
+        }
+    }
+}
+
 /// The strongest wind and the sea on the way to one stretch, each hour.
 struct StretchWay {
     max_wind_kt: HourlyValues,
@@ -771,33 +788,17 @@ fn point_hours(
     steps: &Steps<'_>,
     fetch: &FetchCache<'_>,
 ) -> PointHours {
-    let (k, winds): (usize, Vec<Option<Wind>>) = match from {
-        HoursFrom::Point(k) => (
-            k,
-            conditions.groups[k].as_ref().map_or_else(
-                || vec![None; steps.timeline.len()],
-                |g| {
-                    steps
-                        .of(g)
-                        .iter()
-                        .map(|&step| wind_on(step, &g.points[0]))
-                        .collect()
-                },
-            ),
-        ),
-        HoursFrom::Centre(k) => (
-            k,
-            conditions.groups[k].as_ref().map_or_else(
-                || vec![None; steps.timeline.len()],
-                |g| {
-                    steps
-                        .of(g)
-                        .iter()
-                        .map(|&step| g.extra.as_deref().and_then(|e| wind_on(step, e)))
-                        .collect()
-                },
-            ),
-        ),
+    let k = from.group();
+    let winds: Vec<Option<Wind>> = match conditions.groups[k].as_ref() {
+        Some(g) => {
+            let series = from.series(g);
+            steps
+                .of(g)
+                .iter()
+                .map(|&step| series.and_then(|s| wind_on(step, s)))
+                .collect()
+        }
+        None => vec![None; steps.timeline.len()],
     };
     let (seas, estimated) = match waves[k].as_ref() {
         Some(series) => (
