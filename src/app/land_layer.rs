@@ -2,7 +2,7 @@
 //! the map's projection at every zoom. Needs no network.
 
 use crate::coast::{Land, LatLon};
-use eframe::egui::{self, Color32, Mesh, Pos2, Shape, Stroke};
+use eframe::egui::{self, Color32, Mesh, Pos2, Rect, Shape, Stroke};
 use walkers::{MapMemory, Plugin, Projector, lat_lon};
 
 /// Sea colour of the offline map.
@@ -40,6 +40,7 @@ struct ViewKey {
     zoom: f64,
     origin: Pos2,
     paint_sea: bool,
+    pixels_per_point: f32,
 }
 
 impl LandMesh {
@@ -95,8 +96,15 @@ impl LandMesh {
 }
 
 impl LandMesh {
-    /// The sea, the land and the coast line for a view, as shapes.
-    fn shapes(&self, rect: egui::Rect, projector: &Projector, paint_sea: bool) -> Vec<Shape> {
+    /// The sea, the land and the coast line for a view, as shapes: meshes, the coast
+    /// lines tessellated by `lines`, so a frame that reuses them copies handles only.
+    fn shapes(
+        &self,
+        rect: egui::Rect,
+        projector: &Projector,
+        paint_sea: bool,
+        lines: &mut egui::epaint::Tessellator,
+    ) -> Vec<Shape> {
         let mut out = Vec::new();
         if paint_sea {
             out.push(Shape::rect_filled(rect, 0.0, SEA));
@@ -109,9 +117,11 @@ impl LandMesh {
         let wide = lon_max - lon_min >= 359.0;
         let mut screen: Vec<Pos2> = vec![Pos2::ZERO; self.vertices.len()];
         let project = |p: &LatLon| projector.project(lat_lon(p.lat_deg, p.lon_deg)).to_pos2();
+        let visible = rect.expand(2.0);
+        let mut slot = Vec::new();
         for pass_holes in [false, true] {
             let mut mesh = Mesh::default();
-            let mut outlines = Vec::new();
+            let mut outlines = Mesh::default();
             for ring in self.rings.iter().filter(|r| r.hole == pass_holes) {
                 let [a, b, c, d] = ring.bbox;
                 if a > lat_max || c < lat_min || (!wide && (b > lon_max || d < lon_min)) {
@@ -125,21 +135,64 @@ impl LandMesh {
                     *s = project(v);
                 }
                 let colour = if ring.hole { SEA } else { LAND };
-                let base = mesh.vertices.len() as u32;
-                for p in &screen[range.clone()] {
-                    mesh.colored_vertex(*p, colour);
+                let on_screen = &screen[range];
+                // Only the triangles that reach into the view, and the vertices they use:
+                // a continent's ring has far more of both than a view of its coast shows.
+                slot.clear();
+                slot.resize(on_screen.len(), u32::MAX);
+                for tri in ring.triangles.chunks_exact(3) {
+                    let corners = [tri[0], tri[1], tri[2]].map(|t| t as usize - ring.first);
+                    let tri_box = Rect::from_points(&corners.map(|v| on_screen[v]));
+                    if !tri_box.intersects(visible) {
+                        continue;
+                    }
+                    for v in corners {
+                        if slot[v] == u32::MAX {
+                            slot[v] = mesh.vertices.len() as u32;
+                            mesh.colored_vertex(on_screen[v], colour);
+                        }
+                        mesh.indices.push(slot[v]);
+                    }
                 }
-                mesh.indices
-                    .extend(ring.triangles.iter().map(|&t| base + t - ring.first as u32));
-                let mut line: Vec<Pos2> = screen[range].to_vec();
-                line.push(screen[ring.first]);
-                outlines.push(Shape::line(line, Stroke::new(0.8, COAST_LINE)));
+                for piece in pieces_in_view(on_screen, visible) {
+                    lines.tessellate_shape(
+                        Shape::line(piece, Stroke::new(0.8, COAST_LINE)),
+                        &mut outlines,
+                    );
+                }
             }
             out.push(Shape::mesh(mesh));
-            out.extend(outlines);
+            out.push(Shape::mesh(outlines));
         }
         out
     }
+}
+
+/// The pieces of a closed ring (on screen) that cross `view`, each a line through its
+/// points, leaving out a point within a pixel of the one before it: a long coast has
+/// many points off screen, and zoomed out many to a pixel, and neither changes what is
+/// drawn.
+fn pieces_in_view(ring: &[Pos2], view: Rect) -> Vec<Vec<Pos2>> {
+    let mut pieces = Vec::new();
+    let mut piece: Vec<Pos2> = Vec::new();
+    let closing = ring.first().copied();
+    for (&a, b) in ring.iter().zip(ring.iter().skip(1).copied().chain(closing)) {
+        if Rect::from_two_pos(a, b).intersects(view) {
+            if piece.is_empty() {
+                piece.push(a);
+            }
+            if piece.last().is_some_and(|q| q.distance_sq(b) >= 1.0) {
+                piece.push(b);
+            }
+        } else if !piece.is_empty() {
+            pieces.push(std::mem::take(&mut piece));
+        }
+    }
+    if !piece.is_empty() {
+        pieces.push(piece);
+    }
+    pieces.retain(|p| p.len() >= 2);
+    pieces
 }
 
 /// The walkers plugin that paints the sea and the land.
@@ -171,6 +224,7 @@ impl Plugin for LandLayer<'_> {
             zoom: projector.zoom(),
             origin: projector.project(lat_lon(0.0, 0.0)).to_pos2(),
             paint_sea: self.paint_sea,
+            pixels_per_point: ui.ctx().pixels_per_point(),
         };
         let Ok(mut cache) = mesh.cache.lock() else {
             return;
@@ -181,8 +235,70 @@ impl Plugin for LandLayer<'_> {
             painter.extend(shapes.iter().cloned());
             return;
         }
-        let shapes = mesh.shapes(rect, projector, self.paint_sea);
+        let options = ui.ctx().tessellation_options(|o| *o);
+        let mut lines =
+            egui::epaint::Tessellator::new(key.pixels_per_point, options, [1, 1], Vec::new());
+        let shapes = mesh.shapes(rect, projector, self.paint_sea, &mut lines);
         painter.extend(shapes.iter().cloned());
         *cache = Some((key, shapes));
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn only_the_pieces_of_a_ring_that_cross_the_view_are_drawn() {
+        let view = Rect::from_min_max(Pos2::new(0.0, 0.0), Pos2::new(100.0, 100.0));
+        // A square ring from inside the view out to the right and back: the two sides
+        // far to the right never cross the view.
+        let ring = [
+            Pos2::new(50.0, 20.0),
+            Pos2::new(500.0, 20.0),
+            Pos2::new(500.0, 80.0),
+            Pos2::new(50.0, 80.0),
+        ];
+        let pieces = pieces_in_view(&ring, view);
+        assert_eq!(
+            pieces,
+            vec![
+                vec![Pos2::new(50.0, 20.0), Pos2::new(500.0, 20.0)],
+                vec![
+                    Pos2::new(500.0, 80.0),
+                    Pos2::new(50.0, 80.0),
+                    Pos2::new(50.0, 20.0)
+                ],
+            ]
+        );
+        // A ring wholly outside gives nothing.
+        let away: Vec<Pos2> = ring
+            .iter()
+            .map(|p| *p + egui::Vec2::new(1000.0, 0.0))
+            .collect();
+        assert!(pieces_in_view(&away, view).is_empty());
+    }
+
+    #[test]
+    fn points_within_a_pixel_of_the_last_kept_are_left_out() {
+        let view = Rect::from_min_max(Pos2::new(0.0, 0.0), Pos2::new(100.0, 100.0));
+        let ring = [
+            Pos2::new(10.0, 10.0),
+            Pos2::new(10.4, 10.3),
+            Pos2::new(10.8, 10.6),
+            Pos2::new(40.0, 10.0),
+            Pos2::new(40.0, 40.0),
+        ];
+        // 10.4,10.3 is 0.5 px from the first point; 10.8,10.6 is 1.0 px from it.
+        assert_eq!(
+            pieces_in_view(&ring, view),
+            vec![vec![
+                Pos2::new(10.0, 10.0),
+                Pos2::new(10.8, 10.6),
+                Pos2::new(40.0, 10.0),
+                Pos2::new(40.0, 40.0),
+                Pos2::new(10.0, 10.0),
+            ]]
+        );
     }
 }

@@ -9,6 +9,7 @@ use super::edit::Edit;
 use super::land_layer::LandLayer;
 use super::pack_layer::PackLayer;
 use super::state::{AppOptions, BaseLayer, Colouring, ShelfwindApp, Tool};
+use super::stretch_paint::{ScreenLine, StretchPaint, ViewKey, screen_dir};
 use crate::coast::{
     CoastSegment, LatLon, SeaSide, destination, distance_m, initial_bearing_deg, midpoint,
 };
@@ -16,6 +17,7 @@ use crate::export::colour::{self, Rgb};
 use crate::physics::{NAUTICAL_MILE_M, m_s_to_knots};
 use crate::plan::{Odds, Plan, StretchInfo};
 use eframe::egui::{self, Align2, Color32, FontId, Pos2, Rect, Shape, Stroke, Vec2};
+use std::sync::Arc;
 use walkers::{MapMemory, Plugin, Projector, lat_lon};
 
 fn c32(c: Rgb) -> Color32 {
@@ -124,12 +126,6 @@ fn arrow(painter: &egui::Painter, from: Pos2, vec: Vec2, stroke: Stroke) {
     ));
 }
 
-/// Screen direction of a bearing (degrees true) at a position: east is +x, north −y.
-fn screen_dir(bearing_deg: f64) -> Vec2 {
-    let b = bearing_deg.to_radians();
-    Vec2::new(b.sin() as f32, -(b.cos() as f32))
-}
-
 fn distance_to_polyline(p: Pos2, line: &[Pos2]) -> f32 {
     line.windows(2)
         .map(|w| {
@@ -147,14 +143,6 @@ fn distance_to_polyline(p: Pos2, line: &[Pos2]) -> f32 {
 
 /// How near the pointer must come to a stretch to name it or pick it, pixels.
 const STRETCH_PICK_PX: f32 = 12.0;
-
-/// A stretch as drawn this frame: its screen line and the box around it.
-struct ScreenLine {
-    /// Index into [`Plan::stretches`].
-    stretch: usize,
-    bounds: Rect,
-    points: Vec<Pos2>,
-}
 
 /// The stretch whose line passes nearest `p`, if within `max_px`. Lines whose box is
 /// farther than that are passed over unmeasured, so only stretches near the pointer
@@ -293,7 +281,9 @@ pub(super) fn vertex_at(handles: &[Handle], p: Pos2) -> Option<(String, usize)> 
 
 /// The coast, arrows, ports, draft and handles; turns clicks and drags into commands.
 struct CoastLayer<'a> {
-    plan: Option<&'a Plan>,
+    plan: Option<&'a Arc<Plan>>,
+    /// The stretches as placed and painted last frame.
+    paint: &'a mut StretchPaint,
     segments: &'a [CoastSegment],
     colouring: Colouring,
     /// Per segment id, the share of its events the sea check confirmed.
@@ -311,18 +301,10 @@ struct CoastLayer<'a> {
     ports: &'a [crate::scenario::Port],
 }
 
-/// Draws an arrow from a point a little offshore of a stretch, one per 30-pixel cell so
-/// a crowded coast stays readable: wind (downwind) in dark grey, Ekman transport in
-/// purple.
-fn hour_arrows(
-    painter: &egui::Painter,
-    c: Pos2,
-    h: &crate::plan::StretchHour,
-    cells: &mut std::collections::HashSet<(i32, i32)>,
-) {
-    if !cells.insert(((c.x / 30.0).floor() as i32, (c.y / 30.0).floor() as i32)) {
-        return;
-    }
+/// Draws an hour's arrows from a point a little offshore of a stretch (one stretch per
+/// 30-pixel cell, so a crowded coast stays readable): wind (downwind) in dark grey,
+/// Ekman transport in purple.
+fn hour_arrows(painter: &egui::Painter, c: Pos2, h: &crate::plan::StretchHour) {
     let kt = m_s_to_knots(h.wind.speed_m_s()) as f32;
     if let Some(from) = h.wind.direction_from_deg() {
         arrow(
@@ -346,51 +328,31 @@ fn hour_arrows(
 }
 
 impl CoastLayer<'_> {
-    /// Segments as drawn (thin), so new ones show before they are planned.
-    fn draw_segments(&self, painter: &egui::Painter, project: &dyn Fn(&LatLon) -> Pos2) {
-        for seg in self.segments {
-            let line: Vec<Pos2> = seg.points.iter().map(project).collect();
-            painter.add(Shape::line(
-                line,
-                Stroke::new(2.0, Color32::from_rgb(90, 90, 90)),
-            ));
-        }
-    }
-
     /// The stretches, coloured, with their arrows at the chosen hour and the selected
-    /// ones ringed and named; returns their screen lines for clicks and hovering.
-    fn draw_stretches(
-        &self,
-        ui: &egui::Ui,
-        painter: &egui::Painter,
-        view: Rect,
-        project: &dyn Fn(&LatLon) -> Pos2,
-    ) -> Vec<ScreenLine> {
+    /// ones ringed and named; their screen lines are left in `self.paint` for clicks
+    /// and hovering.
+    fn draw_stretches(&mut self, ui: &egui::Ui, painter: &egui::Painter, projector: &Projector) {
         let Some(plan) = self.plan else {
-            return Vec::new();
+            return;
         };
-        let statuses = day_statuses(plan, self.day);
-        let date = plan.days.get(self.day).map(|d| d.date);
-        let odds = plan
-            .days
-            .get(self.day)
-            .map(|d| d.odds.as_slice())
-            .unwrap_or_default();
-        let mut screen_lines = Vec::new();
-        let mut arrow_cells = std::collections::HashSet::new();
+        let project = |p: &LatLon| projector.project(lat_lon(p.lat_deg, p.lon_deg)).to_pos2();
+        self.paint
+            .place(plan, ViewKey::of(ui.max_rect(), projector), 20.0, &project);
         let mut names = Vec::new();
-        for (k, s) in plan.stretches.iter().enumerate() {
-            let line: Vec<Pos2> = s.points.iter().map(project).collect();
-            let bounds = Rect::from_points(&line);
-            // Off screen: nothing to draw or click.
-            if !bounds.intersects(view) {
-                continue;
-            }
+        for line in self
+            .paint
+            .lines()
+            .iter()
+            .filter(|_| !self.selected.is_empty())
+        {
+            let k = line.stretch;
+            let s = &plan.stretches[k];
             if self.selected.contains(&s.id) {
                 // A bright band with a dark rim, wider than the stretch: it shows on
                 // land, sea and tiles whatever the stretch's own colour.
-                painter.add(Shape::line(line.clone(), Stroke::new(21.0, SELECTED_RIM)));
-                painter.add(Shape::line(line.clone(), Stroke::new(17.0, SELECTED_FILL)));
+                let band = &line.points;
+                painter.add(Shape::line(band.clone(), Stroke::new(21.0, SELECTED_RIM)));
+                painter.add(Shape::line(band.clone(), Stroke::new(17.0, SELECTED_FILL)));
                 names.push((k, project(&s.centre), s.offshore_bearing_deg));
                 // The way there by sea from the home port.
                 if let Some(route) = &s.route {
@@ -403,38 +365,52 @@ impl CoastLayer<'_> {
                     ));
                 }
             }
-            let these = odds.get(k).copied().flatten();
-            let hit = self.hit_rates.and_then(|h| h.get(&s.segment_id)).copied();
-            let colour = stretch_colour(
-                s,
-                self.colouring,
-                (date, statuses[k], these, hit),
-                self.time,
-            )
-            .unwrap_or(Color32::from_gray(160));
-            // A dark edge keeps near-zero (light) stretches visible on the land.
-            painter.add(Shape::line(
-                line.clone(),
-                Stroke::new(10.0, Color32::from_gray(70)),
-            ));
-            painter.add(Shape::line(line.clone(), Stroke::new(7.0, colour)));
-            if s.closure.is_some() {
-                painter.extend(Shape::dashed_line(
-                    &line,
-                    Stroke::new(3.0, Color32::from_rgb(180, 0, 0)),
-                    6.0,
-                    6.0,
-                ));
+        }
+        // The colours change with the day and the colouring, and with the hour only
+        // for the index now; the sea check's hit rates are read every frame.
+        let key = match self.colouring {
+            Colouring::HitRate => None,
+            Colouring::IndexNow => Some((self.day, self.colouring, self.time)),
+            _ => Some((self.day, self.colouring, None)),
+        };
+        let colours = |lines: &[ScreenLine]| {
+            let statuses = day_statuses(plan, self.day);
+            let date = plan.days.get(self.day).map(|d| d.date);
+            let odds = plan
+                .days
+                .get(self.day)
+                .map(|d| d.odds.as_slice())
+                .unwrap_or_default();
+            lines
+                .iter()
+                .map(|line| {
+                    let k = line.stretch;
+                    let s = &plan.stretches[k];
+                    let these = odds.get(k).copied().flatten();
+                    let hit = self.hit_rates.and_then(|h| h.get(&s.segment_id)).copied();
+                    stretch_colour(
+                        s,
+                        self.colouring,
+                        (date, statuses[k], these, hit),
+                        self.time,
+                    )
+                    .unwrap_or(Color32::from_gray(160))
+                })
+                .collect()
+        };
+        let mesh = self.paint.mesh(plan, key, colours, ui.ctx());
+        painter.add(mesh);
+        // One stretch's arrows per cell: the first in plan order with wind at the hour.
+        if let Some(t) = self.time {
+            for cell in self.paint.arrow_cells() {
+                let first = cell.iter().find_map(|&(l, start)| {
+                    let k = self.paint.lines()[l].stretch;
+                    plan.stretches[k].hour_at(t).map(|h| (start, h))
+                });
+                if let Some((start, h)) = first {
+                    hour_arrows(painter, start, h);
+                }
             }
-            if let Some(h) = self.time.and_then(|t| s.hour_at(t)) {
-                let c = project(&s.centre) + screen_dir(s.offshore_bearing_deg) * 14.0;
-                hour_arrows(painter, c, h, &mut arrow_cells);
-            }
-            screen_lines.push(ScreenLine {
-                stretch: k,
-                bounds,
-                points: line,
-            });
         }
         // Names last, on the landward side, clear of the offshore arrows.
         for (k, centre, offshore_deg) in names {
@@ -460,7 +436,6 @@ impl CoastLayer<'_> {
                 &format!("Selected: {name}"),
             );
         }
-        screen_lines
     }
 
     /// The name (and rank) of the stretch under the pointer, in a box beside it.
@@ -651,7 +626,6 @@ impl CoastLayer<'_> {
         &mut self,
         ui: &egui::Ui,
         p: Pos2,
-        screen_lines: &[ScreenLine],
         project: &dyn Fn(&LatLon) -> Pos2,
         unproject: &dyn Fn(Pos2) -> LatLon,
     ) {
@@ -675,7 +649,7 @@ impl CoastLayer<'_> {
             return;
         }
         let add = ui.input(|i| i.modifiers.command || i.modifiers.shift);
-        let nearest = nearest_stretch(p, screen_lines, STRETCH_PICK_PX);
+        let nearest = nearest_stretch(p, self.paint.lines(), STRETCH_PICK_PX);
         if let (Some(k), Some(plan)) = (nearest, self.plan) {
             self.commands.push(Command::SelectStretch {
                 id: plan.stretches[k].id.clone(),
@@ -707,12 +681,18 @@ impl Plugin for CoastLayer<'_> {
             let pos = projector.unproject(p.to_vec2());
             LatLon::new(pos.y(), pos.x())
         };
-        self.draw_segments(&painter, &project);
-        let screen_lines = self.draw_stretches(ui, &painter, ui.max_rect().expand(20.0), &project);
+        let segments = self.paint.segments(
+            self.segments,
+            ViewKey::of(ui.max_rect(), projector),
+            &project,
+            ui.ctx(),
+        );
+        painter.add(segments);
+        self.draw_stretches(ui, &painter, projector);
         self.draw_ports(&painter, &project);
         self.draw_editing(&painter, &project);
         self.draw_draft(&painter, response, &project);
-        self.hover_label(ui, response, &screen_lines);
+        self.hover_label(ui, response, self.paint.lines());
         if self.interact_pointer(ui, response, &unproject) {
             return;
         }
@@ -721,7 +701,7 @@ impl Plugin for CoastLayer<'_> {
                 .interact_pointer_pos()
                 .or_else(|| response.hover_pos())
         {
-            self.interact_click(ui, p, &screen_lines, &project, &unproject);
+            self.interact_click(ui, p, &project, &unproject);
         }
     }
 }
@@ -1063,9 +1043,7 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
         &app.doc.scenario.segments,
         app.view.editing.as_ref(),
         &mut app.view.segment_draft,
-        land_model
-            .as_deref()
-            .unwrap_or_else(|| crate::coast::Land::bundled()),
+        land_model.as_deref(),
     );
     // Start a vertex drag before the map pans: a press on a handle drawn last frame.
     let pressed_on_handle = ui.input(|i| {
@@ -1120,7 +1098,8 @@ pub(super) fn map_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut V
     map = map
         .with_plugin(super::graticule::Graticule)
         .with_plugin(CoastLayer {
-            plan: plan.as_deref(),
+            plan: plan.as_ref(),
+            paint: &mut app.stretch_paint,
             segments: &app.doc.scenario.segments,
             colouring: app.view.colouring,
             hit_rates: app.check.hit_rates(),
@@ -1182,10 +1161,16 @@ fn editing_segment<'a>(
     segments: &'a [CoastSegment],
     editing: Option<&String>,
     draft: &mut super::editor::SegmentDraft,
-    land: &crate::coast::Land,
+    land_model: Option<&crate::coast::Land>,
 ) -> Option<(&'a CoastSegment, Option<SeaSide>)> {
     let seg = segments.iter().find(|s| Some(&s.id) == editing)?;
-    Some((seg, seg.sea.or(draft.sea_from_land(&seg.points, land))))
+    // The bundled land is asked for only here: until it has been read in the
+    // background, asking would hold the frame (the map opens without waiting for it).
+    let sea = seg.sea.or_else(|| {
+        let land = land_model.unwrap_or_else(|| crate::coast::Land::bundled());
+        draft.sea_from_land(&seg.points, land)
+    });
+    Some((seg, sea))
 }
 
 /// What to do while placing port `k`, at the top of the map.

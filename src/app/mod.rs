@@ -28,6 +28,7 @@ mod plots;
 mod season_view;
 mod settings_window;
 mod state;
+mod stretch_paint;
 mod tasks;
 mod wind_files;
 

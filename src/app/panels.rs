@@ -702,8 +702,9 @@ pub struct PlanWords {
     key: Option<(std::sync::Arc<Plan>, usize, Units)>,
     /// The plan's notes.
     pub notes: Vec<String>,
-    /// The reasons of each ranked stretch, in rank order.
-    pub ranked: Vec<Vec<String>>,
+    /// The reasons of each ranked stretch, in rank order (shared, so a frame copies
+    /// a handle, not the words of 10,000 stretches).
+    pub ranked: std::sync::Arc<[Vec<String>]>,
 }
 
 impl PlanWords {
@@ -714,7 +715,7 @@ impl PlanWords {
             .as_ref()
             .is_some_and(|(p, d, u)| std::sync::Arc::ptr_eq(p, plan) && *d == day && *u == units);
         if !fresh {
-            let ranked = plan.days.get(day).map_or_else(Vec::new, |d| {
+            let ranked: Vec<Vec<String>> = plan.days.get(day).map_or_else(Vec::new, |d| {
                 d.ranked
                     .iter()
                     .map(|r| plan_text::ranked_lines(plan, d.date, r, units))
@@ -723,7 +724,7 @@ impl PlanWords {
             *self = Self {
                 key: Some((plan.clone(), day, units)),
                 notes: plan_text::notes(plan),
-                ranked,
+                ranked: ranked.into(),
             };
         }
         self

@@ -264,6 +264,8 @@ pub struct ShelfwindApp {
     pub(super) pack_task: Option<super::base_map::PackTask>,
     /// The land drawn on the map, once triangulated in the background.
     pub(super) land: Option<Arc<LandMesh>>,
+    /// The plan's stretches as last placed and painted on the map.
+    pub(super) stretch_paint: super::stretch_paint::StretchPaint,
     pub(super) land_task: Option<super::tasks::Task<LandMesh>>,
     /// The bundled land with the scenario's coast pack over it, once read.
     pub(super) packed_land: Option<super::coast_pack::PackedLand>,
@@ -368,6 +370,7 @@ impl ShelfwindApp {
             pack: None,
             pack_task: None,
             land: None,
+            stretch_paint: super::stretch_paint::StretchPaint::default(),
             packed_land: None,
             coast_pack_task: None,
             coast_pack_reading: None,
