@@ -416,8 +416,12 @@ impl DayRanker<'_> {
         let work = self.work_day(date);
         let mut ranked = Vec::new();
         let mut excluded = Vec::new();
-        for (k, s) in stretches.iter().enumerate() {
-            match self.judge(&work, s) {
+        // Stretches are judged in parallel too: seven days on two cores would leave
+        // one core idle for the last day.
+        let judged: Vec<Result<RankedStretch, Exclusion>> =
+            stretches.par_iter().map(|s| self.judge(&work, s)).collect();
+        for (k, j) in judged.into_iter().enumerate() {
+            match j {
                 Ok(mut r) => {
                     r.stretch = k;
                     ranked.push(r);

@@ -786,6 +786,12 @@ impl Gathered {
         if self.fields.is_empty() {
             return Err(no_wind_error(self.other_params));
         }
+        // Each point's series is made as long as its member has times, so the series
+        // are not grown by doubling (which left up to half of a long forecast unused).
+        let mut times_of: BTreeMap<MemberKey, usize> = BTreeMap::new();
+        for (member, _) in self.fields.keys() {
+            *times_of.entry(*member).or_default() += 1;
+        }
         let mut members: Vec<MemberSamples> = Vec::new();
         for ((member, t), pair) in self.fields {
             let Some((u, v)) = matched_pair(t, pair)? else {
@@ -811,7 +817,9 @@ impl Gathered {
                     member: id,
                     samples: Grib2Samples {
                         times: Vec::new(),
-                        points: vec![Some(Vec::new()); point_count],
+                        points: (0..point_count)
+                            .map(|_| Some(Vec::with_capacity(times_of[&member])))
+                            .collect(),
                         latest_reference: self.latest_reference,
                     },
                 });
