@@ -94,13 +94,16 @@ pub enum LandError {
 struct Edge {
     a: [f64; 2],
     b: [f64; 2],
+    /// The box of `a` and `b`, made once: building the index compares boxes millions
+    /// of times.
+    envelope: AABB<[f64; 2]>,
 }
 
 impl RTreeObject for Edge {
     type Envelope = AABB<[f64; 2]>;
 
     fn envelope(&self) -> Self::Envelope {
-        AABB::from_corners(self.a, self.b)
+        self.envelope
     }
 }
 
@@ -142,12 +145,14 @@ impl Land {
         let edges = rings
             .iter()
             .flat_map(|ring| {
-                ring.iter()
-                    .zip(ring.iter().cycle().skip(1))
-                    .map(|(a, b)| Edge {
-                        a: [a.lon_deg, a.lat_deg],
-                        b: [b.lon_deg, b.lat_deg],
-                    })
+                ring.iter().zip(ring.iter().cycle().skip(1)).map(|(a, b)| {
+                    let (a, b) = ([a.lon_deg, a.lat_deg], [b.lon_deg, b.lat_deg]);
+                    Edge {
+                        a,
+                        b,
+                        envelope: AABB::from_corners(a, b),
+                    }
+                })
             })
             .collect();
         Land {
