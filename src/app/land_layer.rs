@@ -32,13 +32,11 @@ pub struct LandMesh {
     cache: std::sync::Mutex<Option<(ViewKey, Vec<Shape>)>>,
 }
 
-/// What the projected land depends on: the map rectangle, the zoom, and where a
-/// reference point lands on screen.
+/// What the projected land depends on: the map's view, whether the sea is painted
+/// and the pixel density its coast lines were tessellated for.
 #[derive(Debug, Clone, Copy, PartialEq)]
 struct ViewKey {
-    rect: egui::Rect,
-    zoom: f64,
-    origin: Pos2,
+    view: super::stretch_paint::ViewKey,
     paint_sea: bool,
     pixels_per_point: f32,
 }
@@ -220,9 +218,7 @@ impl Plugin for LandLayer<'_> {
             return;
         };
         let key = ViewKey {
-            rect,
-            zoom: projector.zoom(),
-            origin: projector.project(lat_lon(0.0, 0.0)).to_pos2(),
+            view: super::stretch_paint::ViewKey::of(rect, projector),
             paint_sea: self.paint_sea,
             pixels_per_point: ui.ctx().pixels_per_point(),
         };
@@ -235,9 +231,7 @@ impl Plugin for LandLayer<'_> {
             painter.extend(shapes.iter().cloned());
             return;
         }
-        let options = ui.ctx().tessellation_options(|o| *o);
-        let mut lines =
-            egui::epaint::Tessellator::new(key.pixels_per_point, options, [1, 1], Vec::new());
+        let mut lines = super::stretch_paint::line_tessellator(ui.ctx());
         let shapes = mesh.shapes(rect, projector, self.paint_sea, &mut lines);
         painter.extend(shapes.iter().cloned());
         *cache = Some((key, shapes));

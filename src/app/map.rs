@@ -331,13 +331,17 @@ impl CoastLayer<'_> {
     /// The stretches, coloured, with their arrows at the chosen hour and the selected
     /// ones ringed and named; their screen lines are left in `self.paint` for clicks
     /// and hovering.
-    fn draw_stretches(&mut self, ui: &egui::Ui, painter: &egui::Painter, projector: &Projector) {
+    fn draw_stretches(
+        &mut self,
+        ui: &egui::Ui,
+        painter: &egui::Painter,
+        view: ViewKey,
+        project: &dyn Fn(&LatLon) -> Pos2,
+    ) {
         let Some(plan) = self.plan else {
             return;
         };
-        let project = |p: &LatLon| projector.project(lat_lon(p.lat_deg, p.lon_deg)).to_pos2();
-        self.paint
-            .place(plan, ViewKey::of(ui.max_rect(), projector), 20.0, &project);
+        self.paint.place(plan, view, 20.0, project);
         let mut names = Vec::new();
         for line in self
             .paint
@@ -681,14 +685,10 @@ impl Plugin for CoastLayer<'_> {
             let pos = projector.unproject(p.to_vec2());
             LatLon::new(pos.y(), pos.x())
         };
-        let segments = self.paint.segments(
-            self.segments,
-            ViewKey::of(ui.max_rect(), projector),
-            &project,
-            ui.ctx(),
-        );
+        let view = ViewKey::of(ui.max_rect(), projector);
+        let segments = self.paint.segments(self.segments, view, &project, ui.ctx());
         painter.add(segments);
-        self.draw_stretches(ui, &painter, projector);
+        self.draw_stretches(ui, &painter, view, &project);
         self.draw_ports(&painter, &project);
         self.draw_editing(&painter, &project);
         self.draw_draft(&painter, response, &project);

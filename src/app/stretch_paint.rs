@@ -45,6 +45,13 @@ impl ViewKey {
     }
 }
 
+/// A tessellator for lines, with the context's quality and pixel density: the map's
+/// layers tessellate what they keep once, not every frame.
+pub(super) fn line_tessellator(ctx: &egui::Context) -> egui::epaint::Tessellator {
+    let options = ctx.tessellation_options(|o| *o);
+    egui::epaint::Tessellator::new(ctx.pixels_per_point(), options, [1, 1], Vec::new())
+}
+
 /// Screen direction (y down) of a bearing in degrees true.
 pub(super) fn screen_dir(bearing_deg: f64) -> Vec2 {
     let r = bearing_deg.to_radians();
@@ -199,9 +206,7 @@ impl StretchPaint {
                 && points.iter().zip(segments).all(|(p, s)| *p == s.points)
         });
         if !same {
-            let options = ctx.tessellation_options(|o| *o);
-            let mut tessellator =
-                egui::epaint::Tessellator::new(pixels_per_point, options, [1, 1], Vec::new());
+            let mut tessellator = line_tessellator(ctx);
             let mut mesh = Mesh::default();
             for seg in segments {
                 let line: Vec<Pos2> = seg.points.iter().map(project).collect();
@@ -216,9 +221,7 @@ impl StretchPaint {
     }
 
     fn tessellate(&self, plan: &Plan, colours: &[Color32], ctx: &egui::Context) -> Mesh {
-        let options = ctx.tessellation_options(|o| *o);
-        let mut tessellator =
-            egui::epaint::Tessellator::new(ctx.pixels_per_point(), options, [1, 1], Vec::new());
+        let mut tessellator = line_tessellator(ctx);
         let mut mesh = Mesh::default();
         // Stretches that follow on from each other (one ends where the next starts)
         // get one dark edge, and neighbours of one colour one coloured line: the same
