@@ -10,6 +10,7 @@
 
 use std::fmt;
 use std::sync::OnceLock;
+use std::sync::atomic::{AtomicU8, Ordering};
 
 use rstar::{AABB, RTree, RTreeObject};
 
@@ -28,7 +29,26 @@ const BUNDLED_LAND_FILE: &[u8] = include_bytes!("../../assets/land-10m.bin");
 pub struct Land {
     rings: Vec<Vec<LatLon>>,
     edges: RTree<Edge>,
+    /// Land or sea over each cell of a 0.1° grid that no edge comes near, found on
+    /// first use: a point in such a cell is what the cell's centre is, without casting
+    /// a ray across a continent.
+    cells: OnceLock<Vec<AtomicU8>>,
 }
+
+/// The size of the cells whose land or sea is remembered, degrees.
+const CELL_DEG: f64 = 0.1;
+const CELLS_X: usize = 3600;
+const CELLS_Y: usize = 1800;
+/// A cell not yet looked at; all sea; all land; crossed or nearly touched by an edge.
+const CELL_UNKNOWN: u8 = 0;
+const CELL_SEA: u8 = 1;
+const CELL_LAND: u8 = 2;
+const CELL_MIXED: u8 = 3;
+/// How near an edge's box may come to a cell for the cell to count as free of edges,
+/// degrees: far above rounding, far below any coastline's detail.
+const CELL_MARGIN_DEG: f64 = 1e-9;
+/// How many cells east of a point near an edge are looked at for one free of edges.
+const EAST_CELLS: usize = 30;
 
 impl Default for Land {
     /// No land at all: every point is sea.
@@ -158,6 +178,7 @@ impl Land {
         Land {
             rings,
             edges: RTree::bulk_load(edges),
+            cells: OnceLock::new(),
         }
     }
 
@@ -174,7 +195,77 @@ impl Land {
         }
         let lat = p.lat_deg;
         let lon = (p.lon_deg + 180.0).rem_euclid(360.0) - 180.0;
-        let ray = AABB::from_corners([lon, lat], [180.0, lat]);
+        let cells = self.cells.get_or_init(|| {
+            (0..CELLS_X * CELLS_Y)
+                .map(|_| AtomicU8::new(CELL_UNKNOWN))
+                .collect()
+        });
+        let (ix, iy) = (
+            cell_index(lon + 180.0, CELLS_X),
+            cell_index(lat + 90.0, CELLS_Y),
+        );
+        match self.cell_state(cells, ix, iy) {
+            CELL_SEA => false,
+            CELL_LAND => true,
+            _ => {
+                // Near an edge: count the crossings only as far east as the first cell
+                // free of edges (its west side is what the cell is), within a few
+                // degrees; else the whole ray.
+                for next in ix + 1..(ix + 1 + EAST_CELLS).min(CELLS_X) {
+                    let state = self.cell_state(cells, next, iy);
+                    if state != CELL_MIXED {
+                        let x = next as f64 * CELL_DEG - 180.0;
+                        return self.crossings_odd(lon, lat, Some(x)) != (state == CELL_LAND);
+                    }
+                }
+                self.crossings_odd(lon, lat, None)
+            }
+        }
+    }
+
+    /// A cell's state, looked at on first use.
+    fn cell_state(&self, cells: &[AtomicU8], ix: usize, iy: usize) -> u8 {
+        let slot = &cells[iy * CELLS_X + ix];
+        match slot.load(Ordering::Relaxed) {
+            CELL_UNKNOWN => {
+                let state = self.classify_cell(ix, iy);
+                slot.store(state, Ordering::Relaxed);
+                state
+            }
+            state => state,
+        }
+    }
+
+    /// Whether a cell is all sea or all land (as its centre), or near an edge.
+    fn classify_cell(&self, ix: usize, iy: usize) -> u8 {
+        let (x0, y0) = (
+            ix as f64 * CELL_DEG - 180.0 - CELL_MARGIN_DEG,
+            iy as f64 * CELL_DEG - 90.0 - CELL_MARGIN_DEG,
+        );
+        let (x1, y1) = (
+            x0 + CELL_DEG + 2.0 * CELL_MARGIN_DEG,
+            y0 + CELL_DEG + 2.0 * CELL_MARGIN_DEG,
+        );
+        let cell = AABB::from_corners([x0, y0], [x1, y1]);
+        if self
+            .edges
+            .locate_in_envelope_intersecting(&cell)
+            .next()
+            .is_some()
+        {
+            return CELL_MIXED;
+        }
+        if self.crossings_odd(0.5 * (x0 + x1), 0.5 * (y0 + y1), None) {
+            CELL_LAND
+        } else {
+            CELL_SEA
+        }
+    }
+
+    /// Whether a ray east from (`lon`, `lat`) crosses the rings' edges an odd number of
+    /// times (land), or, with `to_lon`, the part of it up to that longitude.
+    fn crossings_odd(&self, lon: f64, lat: f64, to_lon: Option<f64>) -> bool {
+        let ray = AABB::from_corners([lon, lat], [to_lon.unwrap_or(180.0), lat]);
         let mut inside = false;
         for edge in self.edges.locate_in_envelope_intersecting(&ray) {
             let ([x0, y0], [x1, y1]) = (edge.a, edge.b);
@@ -182,7 +273,7 @@ impl Land {
             // edge not at all.
             if (y0 > lat) != (y1 > lat) {
                 let x = x0 + (lat - y0) * (x1 - x0) / (y1 - y0);
-                if x > lon {
+                if x > lon && to_lon.is_none_or(|end| x <= end) {
                     inside = !inside;
                 }
             }
@@ -436,6 +527,17 @@ pub fn find_sea_side(land: &Land, points: &[LatLon]) -> SideFinding {
     }
 }
 
+/// The cell of a coordinate counted from the grid's edge (degrees east of 180°W or
+/// north of 90°S), within `0..count`.
+fn cell_index(from_edge_deg: f64, count: usize) -> usize {
+    let k = (from_edge_deg / CELL_DEG).floor();
+    if k <= 0.0 {
+        0
+    } else {
+        (k as usize).min(count - 1)
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -576,6 +678,46 @@ mod tests {
             let mut bytes = MAGIC.to_vec();
             bytes.extend_from_slice(&tail);
             let _ = Land::from_bytes(&bytes);
+        }
+    }
+
+    /// The remembered cells give every point the answer of the whole ray east: points
+    /// along the demo coast (many in cells crossed by the coastline), across a small
+    /// island with a lake, and spread over the globe (a fixed pseudo-random sequence).
+    #[test]
+    fn cells_answer_as_the_whole_ray_does() {
+        let check = |land: &Land, p: LatLon| {
+            let lon = (p.lon_deg + 180.0).rem_euclid(360.0) - 180.0;
+            assert_eq!(
+                land.is_land(p),
+                land.crossings_odd(lon, p.lat_deg, None),
+                "at {p:?}"
+            );
+        };
+        let bundled = Land::bundled();
+        for i in 0..200 {
+            for j in 0..40 {
+                let p = LatLon::new(36.0 + f64::from(i) * 0.017, -124.5 + f64::from(j) * 0.031);
+                check(bundled, p);
+            }
+        }
+        let mut x: u64 = 0x2545_f491_4f6c_dd1d;
+        let mut next = || {
+            x ^= x << 13;
+            x ^= x >> 7;
+            x ^= x << 17;
+            (x >> 11) as f64 / (1u64 << 53) as f64
+        };
+        for _ in 0..5_000 {
+            let p = LatLon::new(next() * 180.0 - 90.0, next() * 360.0 - 180.0);
+            check(bundled, p);
+        }
+        let island = Land::from_bytes(&island_with_hole()).expect("island");
+        for i in 0..120 {
+            for j in 0..120 {
+                let p = LatLon::new(-1.0 + f64::from(i) * 0.05, -1.0 + f64::from(j) * 0.05);
+                check(&island, p);
+            }
         }
     }
 

@@ -18,8 +18,8 @@ use crate::physics::{
 };
 use crate::progress::Progress;
 use crate::upwelling::{
-    EventSettings, HourlySeries, IndexSettings, ResponseSettings, UpwellingDay, UpwellingEvent,
-    daily_upwelling, detect_events, index_series,
+    EventSettings, HourlySeries, IndexSettings, LocalDay, ResponseSettings, UpwellingDay,
+    UpwellingEvent, daily_upwelling_on, detect_events, index_series, local_days,
 };
 use crate::wind::{
     Conditions, GroupWind, Member, PointGroup, PointSeries, RunRule, SegmentWind, SourceIdentity,
@@ -154,10 +154,8 @@ pub struct PortRoutes {
 pub type HourlyValues = Arc<[f32]>;
 
 /// Hourly values from options (`None` becomes NaN).
-fn hourly_values(v: Vec<Option<f64>>) -> HourlyValues {
-    v.into_iter()
-        .map(|x| x.map_or(f32::NAN, |x| x as f32))
-        .collect()
+fn hourly_values(v: &[Option<f64>]) -> HourlyValues {
+    v.iter().map(|x| x.map_or(f32::NAN, |x| x as f32)).collect()
 }
 
 /// The value of an hour, `None` past the end or where it is NaN.
@@ -486,8 +484,14 @@ fn layout(geometry: &ForecastGeometry<'_>) -> Layout {
     // them: a point is one group however many ways pass it (keyed by its position).
     let mut route_points: std::collections::HashMap<(u64, u64), usize> =
         std::collections::HashMap::new();
-    for &port in geometry.ports {
-        let ways = sea_routes(geometry.land, port, &targets, &geometry.route);
+    // Each port's ways are found on their own (in parallel), then their points are
+    // numbered in the ports' order.
+    let per_port: Vec<Vec<Option<SeaRoute>>> = geometry
+        .ports
+        .par_iter()
+        .map(|&port| sea_routes(geometry.land, port, &targets, &geometry.route))
+        .collect();
+    for ways in per_port {
         for way in ways {
             let pts = way.as_ref().map_or_else(Vec::new, |r| {
                 along(&r.points, geometry.route_step_nm * NAUTICAL_MILE_M)
@@ -679,48 +683,7 @@ fn port_routes(
         .map(|&(p, from)| point_hours(p, from, (conditions, waves), steps, fetch))
         .collect();
     let timeline = steps.timeline;
-    let per_stretch: Vec<StretchWay> = ways
-        .par_iter()
-        .map(|(on_way, complete)| {
-            let points: Vec<&PointHours> = on_way.iter().map(|&u| &hours[u]).collect();
-            let max: Vec<Option<f64>> = (0..timeline.len())
-                .map(|h| {
-                    if !complete {
-                        return None;
-                    }
-                    points
-                        .iter()
-                        .try_fold(0.0_f64, |m, p| p.knots[h].map(|k| m.max(k)))
-                })
-                .collect();
-            let highest: Vec<Option<f64>> = (0..timeline.len())
-                .map(|k| {
-                    points
-                        .iter()
-                        .filter_map(|p| p.seas[k].map(|x| x.0))
-                        .reduce(f64::max)
-                })
-                .collect();
-            let steepest: Vec<Option<f64>> = (0..timeline.len())
-                .map(|k| {
-                    points
-                        .iter()
-                        .filter_map(|p| p.seas[k].and_then(|(m, t)| t.map(|t| m / (t * t))))
-                        .reduce(f64::max)
-                })
-                .collect();
-            StretchWay {
-                max_wind_kt: hourly_values(max),
-                max_wave_m: hourly_values(highest),
-                max_steepness: hourly_values(steepest),
-                wave_source: if points.iter().any(|p| p.estimated) {
-                    WaveSource::Estimate
-                } else {
-                    WaveSource::Forecast
-                },
-            }
-        })
-        .collect();
+    let per_stretch = way_maxima(&ways, &hours, timeline.len());
     let mut out = PortRoutes {
         port,
         distance_nm: Vec::with_capacity(stretches.len()),
@@ -777,6 +740,111 @@ struct StretchWay {
     max_wave_m: HourlyValues,
     max_steepness: HourlyValues,
     wave_source: WaveSource,
+}
+
+/// The strongest wind, highest sea and steepest sea each hour along each way, its
+/// points taken in order. Ways to neighbouring stretches share their first points, so a
+/// way's running maxima are carried on from where it leaves the previous way (the same
+/// values in the same order as taking the whole way again, so the same numbers).
+fn way_maxima(ways: &[(Vec<usize>, bool)], hours: &[PointHours], len: usize) -> Vec<StretchWay> {
+    /// Ways handed to one thread at a time, taken in order within it.
+    const CHUNK: usize = 256;
+    let start = Running {
+        wind: vec![Some(0.0); len],
+        high: vec![None; len],
+        steep: vec![None; len],
+        estimated: false,
+    };
+    // Taken in the order of their points, ways that share first points follow on.
+    let mut order: Vec<usize> = (0..ways.len()).collect();
+    order.sort_unstable_by(|&a, &b| ways[a].0.cmp(&ways[b].0));
+    let mut out: Vec<(usize, StretchWay)> = order
+        .par_chunks(CHUNK)
+        .map(|chunk| {
+            // The previous way's points and the maxima up to each of them.
+            let mut stack: Vec<(usize, Running)> = Vec::new();
+            chunk
+                .iter()
+                .map(|&w| {
+                    let (on_way, complete) = &ways[w];
+                    let shared = stack
+                        .iter()
+                        .zip(on_way)
+                        .take_while(|((a, _), b)| a == *b)
+                        .count();
+                    stack.truncate(shared);
+                    for &u in &on_way[shared..] {
+                        let next = stack.last().map_or(&start, |(_, r)| r).then(&hours[u]);
+                        stack.push((u, next));
+                    }
+                    let r = stack.last().map_or(&start, |(_, r)| r);
+                    let way = StretchWay {
+                        max_wind_kt: if *complete {
+                            hourly_values(&r.wind)
+                        } else {
+                            vec![f32::NAN; len].into()
+                        },
+                        max_wave_m: hourly_values(&r.high),
+                        max_steepness: hourly_values(&r.steep),
+                        wave_source: if r.estimated {
+                            WaveSource::Estimate
+                        } else {
+                            WaveSource::Forecast
+                        },
+                    };
+                    (w, way)
+                })
+                .collect::<Vec<_>>()
+        })
+        .flatten_iter()
+        .collect();
+    out.sort_unstable_by_key(|(w, _)| *w);
+    out.into_iter().map(|(_, way)| way).collect()
+}
+
+/// The maxima along a way up to one of its points.
+#[derive(Clone)]
+struct Running {
+    /// The strongest wind, knots; none from the first point without wind on.
+    wind: Vec<Option<f64>>,
+    /// The highest sea, metres, over the points with a sea that hour.
+    high: Vec<Option<f64>>,
+    /// The steepest sea (height over period squared) over the points with both.
+    steep: Vec<Option<f64>>,
+    /// Some point's sea is estimated from the wind.
+    estimated: bool,
+}
+
+impl Running {
+    /// These maxima carried on to one more point.
+    fn then(&self, p: &PointHours) -> Running {
+        let sea = |k: usize| p.seas.get(k).copied().flatten();
+        let carry = |m: Option<f64>, x: Option<f64>| match (m, x) {
+            (Some(m), Some(x)) => Some(m.max(x)),
+            (m, x) => m.or(x),
+        };
+        Running {
+            wind: self
+                .wind
+                .iter()
+                .enumerate()
+                .map(|(k, m)| m.and_then(|m| p.knots.get(k).copied().flatten().map(|x| m.max(x))))
+                .collect(),
+            high: self
+                .high
+                .iter()
+                .enumerate()
+                .map(|(k, &m)| carry(m, sea(k).map(|x| x.0)))
+                .collect(),
+            steep: self
+                .steep
+                .iter()
+                .enumerate()
+                .map(|(k, &m)| carry(m, sea(k).and_then(|(h, t)| t.map(|t| h / (t * t)))))
+                .collect(),
+            estimated: self.estimated || p.estimated,
+        }
+    }
 }
 
 /// One point's hourly wind and its waves: forecast where a wave file covers the point,
@@ -843,6 +911,7 @@ impl SampledConditions {
                 .collect(),
             _ => Vec::new(),
         };
+        let local = local_days(tz, &days);
         // Runs are independent, and so are stretches: all in parallel.
         let mut per_run: Vec<Vec<Arc<StretchForecast>>> = self
             .runs
@@ -859,7 +928,7 @@ impl SampledConditions {
                             s,
                             l,
                             part,
-                            (tz, &days),
+                            &local,
                             settings,
                         ))
                     })
@@ -905,7 +974,7 @@ impl SampledConditions {
         s: &StretchForecast,
         l: &StretchGroups,
         part: &Segment,
-        (tz, days): (Tz, &[NaiveDate]),
+        days: &[LocalDay],
         settings: &UpwellingSettings,
     ) -> StretchForecast {
         let mut s = s.clone();
@@ -986,7 +1055,7 @@ impl SampledConditions {
             pumping_m_s: &pumping,
             ekman_depth_m: &depth,
         };
-        s.days = daily_upwelling(tz, days, &hourly, &s.events, &settings.response);
+        s.days = daily_upwelling_on(days, &hourly, &s.events, &settings.response);
         s
     }
 }
@@ -1081,5 +1150,80 @@ mod tests {
         assert_eq!(wind_on(on[12], &series), None);
         assert_eq!(steps.hour(t0 + Duration::hours(5)), Some(7));
         assert_eq!(steps.hour(t0 + Duration::minutes(90)), None);
+    }
+
+    /// The maxima carried on along ways that share their first points are those of
+    /// each whole way taken point by point (the plain definition, written out here):
+    /// wind none from a point without it, seas over the points that have one, the
+    /// steepest only where a period is known, an incomplete way without wind.
+    #[test]
+    fn shared_way_maxima_match_each_whole_way() {
+        let len = 5;
+        // Point u's value at hour k, with gaps.
+        let value = |u: usize, k: usize| ((u * 7 + k * 3) % 11) as f64 + 0.25 * u as f64;
+        let hours: Vec<PointHours> = (0..9)
+            .map(|u| PointHours {
+                knots: (0..len)
+                    .map(|k| ((u + k) % 6 != 5).then(|| value(u, k)))
+                    .collect(),
+                seas: (0..len)
+                    .map(|k| {
+                        ((u * k) % 4 != 3)
+                            .then(|| (0.1 * value(u, k), (u % 3 != 0).then_some(2.0 + k as f64)))
+                    })
+                    .collect(),
+                estimated: u == 4,
+            })
+            .collect();
+        let ways: Vec<(Vec<usize>, bool)> = vec![
+            (vec![0, 1, 2, 3], true),
+            (vec![0, 1, 5], true),
+            (vec![0, 1, 2, 6], false),
+            (vec![7], true),
+            (vec![0, 4, 8], true),
+            (vec![0, 1, 2, 3, 8], true),
+        ];
+        let got = way_maxima(&ways, &hours, len);
+        for ((on_way, complete), way) in ways.iter().zip(&got) {
+            let points: Vec<&PointHours> = on_way.iter().map(|&u| &hours[u]).collect();
+            for k in 0..len {
+                let wind = if *complete {
+                    points
+                        .iter()
+                        .try_fold(0.0_f64, |m, p| p.knots[k].map(|x| m.max(x)))
+                } else {
+                    None
+                };
+                let high = points
+                    .iter()
+                    .filter_map(|p| p.seas[k].map(|x| x.0))
+                    .reduce(f64::max);
+                let steep = points
+                    .iter()
+                    .filter_map(|p| p.seas[k].and_then(|(h, t)| t.map(|t| h / (t * t))))
+                    .reduce(f64::max);
+                assert_eq!(
+                    hourly_at(&way.max_wind_kt, k),
+                    wind.map(|x| f64::from(x as f32))
+                );
+                assert_eq!(
+                    hourly_at(&way.max_wave_m, k),
+                    high.map(|x| f64::from(x as f32))
+                );
+                assert_eq!(
+                    hourly_at(&way.max_steepness, k),
+                    steep.map(|x| f64::from(x as f32))
+                );
+            }
+            let estimated = points.iter().any(|p| p.estimated);
+            assert_eq!(way.wave_source == WaveSource::Estimate, estimated);
+        }
+        // Some hours have wind on a complete way, some not; the fourth point's
+        // estimated sea marks only the way through it.
+        assert!(got[0].max_wind_kt.iter().any(|x| !x.is_nan()));
+        assert!(got[0].max_wind_kt.iter().any(|x| x.is_nan()));
+        assert!(got[2].max_wind_kt.iter().all(|x| x.is_nan()));
+        assert_eq!(got[4].wave_source, WaveSource::Estimate);
+        assert_eq!(got[0].wave_source, WaveSource::Forecast);
     }
 }

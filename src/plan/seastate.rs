@@ -46,15 +46,12 @@ impl<'a> FetchCache<'a> {
         }
     }
 
-    /// The fetch at a point's cell for a wind from `from_deg`, to the nearest of the
-    /// sixteen directions, m.
-    fn fetch_m(&self, p: LatLon, from_deg: f64) -> f64 {
+    /// The cell of a point, and the lock its fetches are kept under.
+    fn cell(&self, p: LatLon) -> ((i64, i64), &Mutex<FetchTables>) {
         let key = (
             (p.lat_deg / FETCH_CELL_DEG).round() as i64,
             (p.lon_deg / FETCH_CELL_DEG).round() as i64,
         );
-        let step = 360.0 / FETCH_DIRECTIONS as f64;
-        let k = (from_deg.rem_euclid(360.0) / step).round() as usize % FETCH_DIRECTIONS;
         let shard = usize::try_from(
             key.0
                 .wrapping_mul(7919)
@@ -62,19 +59,29 @@ impl<'a> FetchCache<'a> {
                 .rem_euclid(FETCH_SHARDS),
         )
         .unwrap_or(0);
-        let tables = &self.shards[shard];
-        let known = tables
-            .lock()
-            .ok()
-            .and_then(|t| t.get(&key).and_then(|row| row[k]));
-        known.unwrap_or_else(|| {
-            let centre = LatLon::new(key.0 as f64 * FETCH_CELL_DEG, key.1 as f64 * FETCH_CELL_DEG);
-            let fetch = fetch_m(self.land, centre, k as f64 * step, FETCH_CAP_M);
-            if let Ok(mut t) = tables.lock() {
-                t.entry(key).or_insert([None; FETCH_DIRECTIONS])[k] = Some(fetch);
-            }
-            fetch
-        })
+        (key, &self.shards[shard])
+    }
+
+    /// The fetch in a cell for a wind from `from_deg`, to the nearest of the sixteen
+    /// directions, m: from `row` (the cell's fetches known so far, filled in here).
+    fn fetch_m(
+        &self,
+        (key, tables): ((i64, i64), &Mutex<FetchTables>),
+        row: &mut [Option<f64>; FETCH_DIRECTIONS],
+        from_deg: f64,
+    ) -> f64 {
+        let step = 360.0 / FETCH_DIRECTIONS as f64;
+        let k = (from_deg.rem_euclid(360.0) / step).round() as usize % FETCH_DIRECTIONS;
+        if let Some(fetch) = row[k] {
+            return fetch;
+        }
+        let centre = LatLon::new(key.0 as f64 * FETCH_CELL_DEG, key.1 as f64 * FETCH_CELL_DEG);
+        let fetch = fetch_m(self.land, centre, k as f64 * step, FETCH_CAP_M);
+        row[k] = Some(fetch);
+        if let Ok(mut t) = tables.lock() {
+            t.entry(key).or_insert([None; FETCH_DIRECTIONS])[k] = Some(fetch);
+        }
+        fetch
     }
 
     /// The estimated wind sea at a point for each hour of an hourly wind series (`None`
@@ -82,6 +89,14 @@ impl<'a> FetchCache<'a> {
     /// long the wind has blown from within 45° of its present direction, up to 72 hours.
     pub(super) fn wind_sea_m(&self, p: LatLon, winds: &[Option<Wind>]) -> Vec<Option<SeaAt>> {
         let mut out = Vec::with_capacity(winds.len());
+        // The point's cell's fetches, looked up once for all its hours.
+        let cell = self.cell(p);
+        let mut row = cell
+            .1
+            .lock()
+            .ok()
+            .and_then(|t| t.get(&cell.0).copied())
+            .unwrap_or([None; FETCH_DIRECTIONS]);
         let mut run = 0usize;
         let mut last_dir: Option<f64> = None;
         for w in winds {
@@ -107,7 +122,13 @@ impl<'a> FetchCache<'a> {
             if turned {
                 last_dir = dir;
             }
-            let sea = dir.map(|d| wind_sea(w.speed_m_s(), self.fetch_m(p, d), run as f64 * 3600.0));
+            let sea = dir.map(|d| {
+                wind_sea(
+                    w.speed_m_s(),
+                    self.fetch_m(cell, &mut row, d),
+                    run as f64 * 3600.0,
+                )
+            });
             out.push(Some(sea.map_or((0.0, None), |s| {
                 (s.height_m, (s.period_s > 0.0).then_some(s.period_s))
             })));

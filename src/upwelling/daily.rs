@@ -135,23 +135,58 @@ pub fn daily_upwelling(
     events: &[UpwellingEvent],
     settings: &ResponseSettings,
 ) -> Vec<UpwellingDay> {
+    daily_upwelling_on(&local_days(tz, days), series, events, settings)
+}
+
+/// A local day: its date, its first and last instant (the next midnight) and its noon,
+/// UTC.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct LocalDay {
+    /// The date.
+    pub date: NaiveDate,
+    /// Local midnight at its start.
+    pub start: DateTime<Utc>,
+    /// Local midnight at its end.
+    pub end: DateTime<Utc>,
+    /// Local noon.
+    pub noon: DateTime<Utc>,
+}
+
+/// The local days of `tz` for each date in `days`: worked out once for many places.
+#[must_use]
+pub fn local_days(tz: Tz, days: &[NaiveDate]) -> Vec<LocalDay> {
+    days.iter()
+        .map(|&day| LocalDay {
+            date: day,
+            start: local_midnight(tz, day),
+            end: local_midnight(tz, day.succ_opt().unwrap_or(day)),
+            noon: local_noon(tz, day),
+        })
+        .collect()
+}
+
+/// As [`daily_upwelling`], on local days already worked out.
+#[must_use]
+pub fn daily_upwelling_on(
+    days: &[LocalDay],
+    series: &HourlySeries<'_>,
+    events: &[UpwellingEvent],
+    settings: &ResponseSettings,
+) -> Vec<UpwellingDay> {
     let times = series.times;
     let mut means = Vec::with_capacity(days.len());
     let mut inputs = Vec::with_capacity(days.len());
     let mut phases = Vec::with_capacity(days.len());
     let mut pumping = Vec::with_capacity(days.len());
     let mut depth = Vec::with_capacity(days.len());
-    for &day in days {
-        let (start, end) = (
-            local_midnight(tz, day),
-            local_midnight(tz, day.succ_opt().unwrap_or(day)),
-        );
+    for day in days {
+        let (start, end) = (day.start, day.end);
         let a = times.partition_point(|t| *t < start);
         let b = times.partition_point(|t| *t < end);
         let mean_index = mean(series.index_m3s_per_100m[a..b].iter().copied());
         let mean_pumping = mean(series.pumping_m_s[a..b].iter().filter_map(|p| *p));
         depth.push(mean(series.ekman_depth_m[a..b].iter().filter_map(|p| *p)));
-        let phase = phase_at(events, local_noon(tz, day));
+        let phase = phase_at(events, day.noon);
         inputs.push(day_input((mean_index, mean_pumping), phase, events));
         means.push(mean_index);
         pumping.push(mean_pumping);
@@ -166,7 +201,7 @@ pub fn daily_upwelling(
     );
     (0..days.len())
         .map(|k| UpwellingDay {
-            date: days[k],
+            date: days[k].date,
             mean_index_m3s_per_100m: means[k],
             mean_pumping_m_s: pumping[k],
             mean_ekman_depth_m: depth[k],

@@ -13,7 +13,10 @@ pub use check::{
     BestLag, CheckSettings, EventCheck, LagCorrelation, SegmentCheck, anomalies, check_segment,
     daily_means, fisher_interval, pearson,
 };
-pub use daily::{EventPhase, HourlySeries, UpwellingDay, daily_upwelling, day_input};
+pub use daily::{
+    EventPhase, HourlySeries, LocalDay, UpwellingDay, daily_upwelling, daily_upwelling_on,
+    day_input, local_days,
+};
 pub use events::{EventSettings, UpwellingEvent, cumulative, detect_events};
 pub use index::{IndexSeries, IndexSettings, UpwellingError, index_series};
 pub use response::{DayInput, DayResponse, ResponseSettings};

@@ -793,6 +793,9 @@ impl Gathered {
             *times_of.entry(*member).or_default() += 1;
         }
         let mut members: Vec<MemberSamples> = Vec::new();
+        // A few times at once are laid on every point (in parallel, point after
+        // point), then their fields dropped.
+        let mut block: Vec<(Field, Field)> = Vec::with_capacity(WIND_BLOCK);
         for ((member, t), pair) in self.fields {
             let Some((u, v)) = matched_pair(t, pair)? else {
                 continue;
@@ -813,6 +816,10 @@ impl Gathered {
                 ensemble_size: self.ensemble_size.get(&Some((kind, number))).copied(),
             });
             if members.last().is_none_or(|m| m.member != id) {
+                if let Some(last) = members.last_mut() {
+                    push_winds(&mut last.samples.points, &block);
+                }
+                block.clear();
                 members.push(MemberSamples {
                     member: id,
                     samples: Grib2Samples {
@@ -828,7 +835,14 @@ impl Gathered {
                 continue;
             };
             last.samples.times.push(t);
-            push_winds(&mut last.samples.points, &u, &v);
+            block.push((u, v));
+            if block.len() == WIND_BLOCK {
+                push_winds(&mut last.samples.points, &block);
+                block.clear();
+            }
+        }
+        if let Some(last) = members.last_mut() {
+            push_winds(&mut last.samples.points, &block);
         }
         Ok(members)
     }
@@ -901,24 +915,41 @@ fn matched_pair(
     }
 }
 
-/// Appends one time step to each point's series, turning winds given along a grid's
+/// How many times are laid on the points' series at once.
+const WIND_BLOCK: usize = 32;
+
+/// Appends a few time steps to each point's series, turning winds given along a grid's
 /// axes to east and north; a point missing at any time ends up with no series (see
-/// [`Grib2Samples::points`]).
-fn push_winds(per_point: &mut [Option<Vec<Wind>>], u: &Field, v: &Field) {
-    for (k, slot) in per_point.iter_mut().enumerate() {
-        if let Some(series) = slot {
-            let (uu, vv) = (f64::from(u.values[k]), f64::from(v.values[k]));
-            if uu.is_finite() && vv.is_finite() {
-                let (east, north) = match &u.north_angles {
-                    Some(angles) => grid_to_earth(uu, vv, angles[k]),
-                    None => (uu, vv),
-                };
-                series.push(Wind::new(east, north));
-            } else {
+/// [`Grib2Samples::points`]). Points in parallel, each taking its times in order.
+fn push_winds(per_point: &mut [Option<Vec<Wind>>], block: &[(Field, Field)]) {
+    use rayon::prelude::*;
+    if block.is_empty() {
+        return;
+    }
+    per_point
+        .par_iter_mut()
+        .enumerate()
+        .with_min_len(1024)
+        .for_each(|(k, slot)| {
+            let Some(series) = slot.as_mut() else {
+                return;
+            };
+            let complete = block.iter().all(|(u, v)| {
+                let (uu, vv) = (f64::from(u.values[k]), f64::from(v.values[k]));
+                let finite = uu.is_finite() && vv.is_finite();
+                if finite {
+                    let (east, north) = match &u.north_angles {
+                        Some(angles) => grid_to_earth(uu, vv, angles[k]),
+                        None => (uu, vv),
+                    };
+                    series.push(Wind::new(east, north));
+                }
+                finite
+            });
+            if !complete {
                 *slot = None;
             }
-        }
-    }
+        });
 }
 
 /// Reads every 10 m u/v field of a GRIB2 stream and samples it at `points`.
