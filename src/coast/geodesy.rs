@@ -64,10 +64,20 @@ pub fn is_a_line(points: &[LatLon]) -> bool {
 /// metres, on a sphere of radius [`EARTH_MEAN_RADIUS_M`].
 #[must_use]
 pub fn distance_m(a: LatLon, b: LatLon) -> f64 {
+    distance_with_cos_m(
+        (a, a.lat_deg.to_radians().cos()),
+        (b, b.lat_deg.to_radians().cos()),
+    )
+}
+
+/// [`distance_m`] from points whose latitudes' cosines are known (for one point's
+/// distance to many): the same number.
+#[must_use]
+pub fn distance_with_cos_m((a, cos_a): (LatLon, f64), (b, cos_b): (LatLon, f64)) -> f64 {
     let (phi1, phi2) = (a.lat_deg.to_radians(), b.lat_deg.to_radians());
     let dphi = phi2 - phi1;
     let dlambda = (b.lon_deg - a.lon_deg).to_radians();
-    let h = (dphi / 2.0).sin().powi(2) + phi1.cos() * phi2.cos() * (dlambda / 2.0).sin().powi(2);
+    let h = (dphi / 2.0).sin().powi(2) + cos_a * cos_b * (dlambda / 2.0).sin().powi(2);
     2.0 * EARTH_MEAN_RADIUS_M * h.sqrt().min(1.0).asin()
 }
 

@@ -9,6 +9,7 @@
 //! the ray can meet.
 
 use std::fmt;
+use std::hash::{Hash, Hasher};
 use std::sync::OnceLock;
 use std::sync::atomic::{AtomicU8, Ordering};
 
@@ -33,6 +34,8 @@ pub struct Land {
     /// first use: a point in such a cell is what the cell's centre is, without casting
     /// a ray across a continent.
     cells: OnceLock<Vec<AtomicU8>>,
+    /// A hash of every ring's points, to tell one land from another.
+    fingerprint: u64,
 }
 
 /// The size of the cells whose land or sea is remembered, degrees.
@@ -175,11 +178,26 @@ impl Land {
                 })
             })
             .collect();
+        let mut h = std::collections::hash_map::DefaultHasher::new();
+        for ring in &rings {
+            ring.len().hash(&mut h);
+            for p in ring {
+                p.lat_deg.to_bits().hash(&mut h);
+                p.lon_deg.to_bits().hash(&mut h);
+            }
+        }
         Land {
             rings,
             edges: RTree::bulk_load(edges),
             cells: OnceLock::new(),
+            fingerprint: h.finish(),
         }
+    }
+
+    /// A hash of the land's rings: equal for the same land.
+    #[must_use]
+    pub fn fingerprint(&self) -> u64 {
+        self.fingerprint
     }
 
     /// Whether a position is on land. Longitudes outside −180..180 are wrapped; a

@@ -14,7 +14,8 @@ mod segment;
 pub use drawn::{Closure, CoastSegment};
 pub use fetch::{FETCH_CAP_M, FETCH_DIRECTIONS, fetch_from_table, fetch_m, fetch_table};
 pub use geodesy::{
-    EARTH_MEAN_RADIUS_M, LatLon, destination, distance_m, initial_bearing_deg, is_a_line, midpoint,
+    EARTH_MEAN_RADIUS_M, LatLon, destination, distance_m, distance_with_cos_m, initial_bearing_deg,
+    is_a_line, midpoint,
 };
 pub use geojson::{CoastError, read_coast_geojson, write_coast_geojson};
 pub use land::{Land, LandError, SideFinding, find_sea_side};

@@ -64,7 +64,7 @@ use std::collections::BinaryHeap;
 use rayon::prelude::*;
 use rstar::{AABB, RTree, RTreeObject, SelectionFunction};
 
-use super::{EARTH_MEAN_RADIUS_M, Land, LatLon, distance_m};
+use super::{EARTH_MEAN_RADIUS_M, Land, LatLon, distance_m, distance_with_cos_m};
 use crate::physics::NAUTICAL_MILE_M;
 
 /// A way by sea: its turning points from start to end, and its length.
@@ -643,6 +643,8 @@ struct Search<'r, 'a> {
     dist_m: Vec<f64>,
     /// The node before each on its way.
     prev: Vec<usize>,
+    /// The cosine of each node's latitude.
+    cos_lat: Vec<f64>,
 }
 
 /// An entry of Dijkstra's queue, smallest distance first.
@@ -719,6 +721,10 @@ impl<'r, 'a> Search<'r, 'a> {
         Some(Search {
             region,
             from,
+            cos_lat: nodes
+                .iter()
+                .map(|n| n.at.lat_deg.to_radians().cos())
+                .collect(),
             nodes,
             dist_m,
             prev,
@@ -733,20 +739,34 @@ impl<'r, 'a> Search<'r, 'a> {
         let limits = self.region.limits;
         let end_leg_m = distance_m(end, target);
         let end_xy = self.region.frame.xy(end);
+        let end_cos = end.lat_deg.to_radians().cos();
         let mut candidates: Vec<(f64, usize)> = self
             .dist_m
             .iter()
             .enumerate()
             .filter(|&(_, d)| d.is_finite())
-            .map(|(k, d)| (d + distance_m(self.nodes[k].at, end) + end_leg_m, k))
+            .map(|(k, d)| {
+                let leg_m =
+                    distance_with_cos_m((self.nodes[k].at, self.cos_lat[k]), (end, end_cos));
+                (d + leg_m + end_leg_m, k)
+            })
             .filter(|&(length_m, _)| length_m <= limits.max_length_m)
             .collect();
-        candidates.sort_unstable_by(|a, b| a.0.total_cmp(&b.0));
-        let Some(&(_, last)) = candidates
-            .iter()
-            .find(|&&(_, k)| self.region.clear(self.nodes[k].xy, end_xy, limits.check_m))
-        else {
+        // Shortest first (the first node on equal lengths); the shortest is most often
+        // clear, so the rest is sorted only when it is not.
+        let order = |a: &(f64, usize), b: &(f64, usize)| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1));
+        let is_clear = |k: usize| self.region.clear(self.nodes[k].xy, end_xy, limits.check_m);
+        let Some(&shortest) = candidates.iter().min_by(|a, b| order(a, b)) else {
             return Reach::NoWay;
+        };
+        let last = if is_clear(shortest.1) {
+            shortest.1
+        } else {
+            candidates.sort_unstable_by(order);
+            match candidates.iter().skip(1).find(|&&(_, k)| is_clear(k)) {
+                Some(&(_, k)) => k,
+                None => return Reach::NoWay,
+            }
         };
         let mut way = vec![end];
         let mut k = last;

@@ -5,7 +5,7 @@ use crate::physics::bearing_deg;
 use serde::{Deserialize, Serialize};
 
 /// On which side of the line the sea lies, walking from its first point to its last.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Deserialize)]
 #[serde(rename_all = "lowercase")]
 pub enum SeaSide {
     /// Sea on the left hand.

@@ -23,8 +23,8 @@ use crate::upwelling::{
 };
 use crate::wind::{
     Conditions, GroupWind, Member, PointGroup, PointSeries, RunRule, SegmentWind, SourceIdentity,
-    SourceSpan, TimeStep, WindError, WindSource, forecast_runs, groups_fingerprint,
-    length_weighted_at, sample_run, sample_waves, time_step,
+    SourceSpan, TimeStep, WindError, WindSource, forecast_runs, length_weighted_at, sample_run,
+    sample_waves, time_step,
 };
 use chrono::{DateTime, Duration, NaiveDate, Timelike, Utc};
 use chrono_tz::Tz;
@@ -519,10 +519,46 @@ fn layout(geometry: &ForecastGeometry<'_>) -> Layout {
 }
 
 /// What identifies the points a coast and its ports need: conditions sampled for an
-/// equal key fit (see [`SampledConditions::fits`]).
+/// equal key fit (see [`SampledConditions::fits`]). Made from what the points are
+/// found from (the segments, the ports, the land, the settings), so telling whether a
+/// cache still fits does not find the ways by sea again.
 #[must_use]
 pub fn forecast_key(geometry: &ForecastGeometry<'_>) -> u64 {
-    groups_fingerprint(&layout(geometry).groups)
+    use std::hash::{Hash, Hasher};
+    let mut h = std::collections::hash_map::DefaultHasher::new();
+    let point = |p: &LatLon, h: &mut std::collections::hash_map::DefaultHasher| {
+        p.lat_deg.to_bits().hash(h);
+        p.lon_deg.to_bits().hash(h);
+    };
+    geometry.segments.len().hash(&mut h);
+    for s in geometry.segments {
+        s.id.hash(&mut h);
+        s.sea.hash(&mut h);
+        s.points.len().hash(&mut h);
+        for p in &s.points {
+            point(p, &mut h);
+        }
+    }
+    geometry.ports.len().hash(&mut h);
+    for p in geometry.ports {
+        point(p, &mut h);
+    }
+    let RouteSettings {
+        clearance_m,
+        harbour_allowance_m,
+        max_length_m,
+    } = geometry.route;
+    for x in [
+        geometry.stretch_length_nm,
+        geometry.route_step_nm,
+        clearance_m,
+        harbour_allowance_m,
+        max_length_m,
+    ] {
+        x.to_bits().hash(&mut h);
+    }
+    geometry.land.fingerprint().hash(&mut h);
+    h.finish()
 }
 
 /// Samples the wind for a coast and its ports, each run of the forecast (`rule`: see
@@ -544,7 +580,7 @@ pub fn sample_forecast_conditions(
         .iter()
         .map(|s| SourceIdentity::of(s.path()))
         .collect::<Result<Vec<_>, _>>()?;
-    let fingerprint = groups_fingerprint(&groups);
+    let fingerprint = forecast_key(geometry);
     let runs_of = forecast_runs(sources, rule)?;
     let members: Vec<Option<Member>> = if runs_of.members.is_empty() {
         vec![None]
@@ -1225,5 +1261,81 @@ mod tests {
         assert!(got[2].max_wind_kt.iter().all(|x| x.is_nan()));
         assert_eq!(got[4].wave_source, WaveSource::Estimate);
         assert_eq!(got[0].wave_source, WaveSource::Forecast);
+    }
+
+    /// The cache key changes with everything the sampled points are found from, and
+    /// only with that: the same inputs give the same key.
+    #[test]
+    fn forecast_key_follows_what_the_points_come_from() {
+        use crate::coast::SeaSide;
+        let segments = vec![Segment {
+            id: "reef".into(),
+            points: vec![LatLon::new(38.0, -123.0), LatLon::new(38.1, -123.05)],
+            sea: SeaSide::Left,
+        }];
+        let ports = vec![LatLon::new(38.05, -122.95)];
+        let land = Land::default();
+        let island = Land::from_rings(vec![vec![
+            LatLon::new(38.2, -123.3),
+            LatLon::new(38.2, -123.2),
+            LatLon::new(38.3, -123.2),
+        ]]);
+        let base = ForecastGeometry {
+            segments: &segments,
+            stretch_length_nm: 1.0,
+            ports: &ports,
+            route_step_nm: 2.0,
+            route: RouteSettings::default(),
+            land: &land,
+        };
+        let key = forecast_key(&base);
+        assert_eq!(key, forecast_key(&ForecastGeometry { ..base }));
+        let mut moved = segments.clone();
+        moved[0].points[1].lon_deg = -123.06;
+        let mut renamed = segments.clone();
+        renamed[0].id = "bank".into();
+        let mut flipped = segments.clone();
+        flipped[0].sea = SeaSide::Right;
+        let other_port = vec![LatLon::new(38.05, -122.9)];
+        let changed = [
+            ForecastGeometry {
+                segments: &moved,
+                ..base
+            },
+            ForecastGeometry {
+                segments: &renamed,
+                ..base
+            },
+            ForecastGeometry {
+                segments: &flipped,
+                ..base
+            },
+            ForecastGeometry {
+                ports: &other_port,
+                ..base
+            },
+            ForecastGeometry {
+                stretch_length_nm: 0.5,
+                ..base
+            },
+            ForecastGeometry {
+                route_step_nm: 1.0,
+                ..base
+            },
+            ForecastGeometry {
+                route: RouteSettings {
+                    clearance_m: 100.0,
+                    ..RouteSettings::default()
+                },
+                ..base
+            },
+            ForecastGeometry {
+                land: &island,
+                ..base
+            },
+        ];
+        for (k, g) in changed.iter().enumerate() {
+            assert_ne!(forecast_key(g), key, "change {k}");
+        }
     }
 }

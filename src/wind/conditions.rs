@@ -26,7 +26,6 @@ use crate::progress::Progress;
 use chrono::{DateTime, Utc};
 use rayon::prelude::*;
 use std::collections::HashMap;
-use std::hash::{Hash, Hasher};
 use std::path::{Path, PathBuf};
 use std::sync::Arc;
 use std::time::SystemTime;
@@ -150,28 +149,6 @@ impl SourceIdentity {
             modified: meta.modified().ok(),
         })
     }
-}
-
-/// A fingerprint of the groups' geometry, to tell whether sampled conditions still fit.
-#[must_use]
-pub fn groups_fingerprint(groups: &[PointGroup]) -> u64 {
-    let mut h = std::collections::hash_map::DefaultHasher::new();
-    let point = |p: &LatLon, h: &mut std::collections::hash_map::DefaultHasher| {
-        p.lat_deg.to_bits().hash(h);
-        p.lon_deg.to_bits().hash(h);
-    };
-    for g in groups {
-        g.points.len().hash(&mut h);
-        for p in &g.points {
-            point(p, &mut h);
-        }
-        if let Some(p) = &g.extra {
-            point(p, &mut h);
-        }
-        point(&g.anchor, &mut h);
-        g.grids_only.hash(&mut h);
-    }
-    h.finish()
 }
 
 /// One source's wind at a list of points.

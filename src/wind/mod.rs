@@ -25,8 +25,8 @@ pub use assign::{
 };
 pub use conditions::{
     Conditions, GroupWind, LongRecord, Member, PointGroup, RunRule, Runs, SourceIdentity,
-    SourceKind, SourceSpan, check_source, forecast_runs, groups_fingerprint, sample_conditions,
-    sample_run, sample_waves,
+    SourceKind, SourceSpan, check_source, forecast_runs, sample_conditions, sample_run,
+    sample_waves,
 };
 pub use csv::read_csv_series;
 pub(crate) use csv::{csv_problem, find as find_column, parse_time};
