@@ -187,7 +187,7 @@ fn point_stations_give_no_ekman_pumping() {
     );
     let p = plan(&sc, "2027-05-07", 1);
     let s = &p.stretches[0];
-    assert!(s.hours.iter().all(|h| h.pumping_m_s.is_none()));
+    assert!(s.hours.iter().all(|h| h.pumping_m_s().is_none()));
     assert!(s.hours.iter().all(|h| h.index_m3s_per_100m.abs() < 1.0));
     let d = s.day(day("2027-05-07")).expect("day");
     assert!(d.response.productivity < 0.05, "{:?}", d.response);

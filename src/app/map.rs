@@ -304,7 +304,11 @@ struct CoastLayer<'a> {
 /// Draws an hour's arrows from a point a little offshore of a stretch (one stretch per
 /// 30-pixel cell, so a crowded coast stays readable): wind (downwind) in dark grey,
 /// Ekman transport in purple.
-fn hour_arrows(painter: &egui::Painter, c: Pos2, h: &crate::plan::StretchHour) {
+fn hour_arrows(
+    painter: &egui::Painter,
+    c: Pos2,
+    (s, h): (&crate::plan::StretchForecast, &crate::plan::StretchHour),
+) {
     let kt = m_s_to_knots(h.wind.speed_m_s()) as f32;
     if let Some(from) = h.wind.direction_from_deg() {
         arrow(
@@ -314,7 +318,7 @@ fn hour_arrows(painter: &egui::Painter, c: Pos2, h: &crate::plan::StretchHour) {
             Stroke::new(2.0, Color32::from_rgb(60, 60, 60)),
         );
     }
-    let (mx, my) = h.transport_m2_s;
+    let (mx, my) = s.transport_m2_s(h);
     let m = (mx.hypot(my) as f32).min(6.0);
     if m > 0.05 {
         let dir = Vec2::new(mx as f32, -(my as f32)).normalized();
@@ -408,11 +412,11 @@ impl CoastLayer<'_> {
         if let Some(t) = self.time {
             for cell in self.paint.arrow_cells() {
                 let first = cell.iter().find_map(|&(l, start)| {
-                    let k = self.paint.lines()[l].stretch;
-                    plan.stretches[k].hour_at(t).map(|h| (start, h))
+                    let s = &plan.stretches[self.paint.lines()[l].stretch];
+                    s.hour_at(t).map(|h| (start, (&**s, h)))
                 });
-                if let Some((start, h)) = first {
-                    hour_arrows(painter, start, h);
+                if let Some((start, hour)) = first {
+                    hour_arrows(painter, start, hour);
                 }
             }
         }

@@ -3,7 +3,7 @@
 use super::commands::Command;
 use super::state::ShelfwindApp;
 use crate::physics::m_s_to_knots;
-use crate::plan::{Plan, StretchHour, StretchInfo};
+use crate::plan::{Plan, StretchForecast, StretchHour, StretchInfo};
 use eframe::egui::{self, Color32, RichText};
 use egui_plot::{
     Bar, BarChart, HLine, Legend, Line, Plot, PlotPoints, Points, Polygon, Span, VLine,
@@ -71,12 +71,12 @@ impl Hourly {
         Hourly::PumpingMDay,
     ];
 
-    fn of(self, h: &StretchHour) -> Option<f64> {
+    fn of(self, s: &StretchForecast, h: &StretchHour) -> Option<f64> {
         match self {
             Hourly::WindKt => Some(m_s_to_knots(h.wind.speed_m_s())),
-            Hourly::StressPa => Some(h.alongshore_stress_pa),
+            Hourly::StressPa => Some(s.alongshore_stress_pa(h)),
             Hourly::Index => Some(h.index_m3s_per_100m),
-            Hourly::PumpingMDay => h.pumping_m_s.map(|w| w * 86_400.0),
+            Hourly::PumpingMDay => h.pumping_m_s().map(|w| w * 86_400.0),
         }
     }
 }
@@ -153,7 +153,7 @@ impl PlotFrame<'_> {
                 .hours
                 .iter()
                 .filter_map(|h| {
-                    what.of(h)
+                    what.of(s, h)
                         .map(|v| [hours_since(self.t0, h.time), v * scale])
                 })
                 .collect();
@@ -451,7 +451,7 @@ fn run_spread(s: &StretchInfo, what: Hourly) -> Vec<Spread> {
         std::collections::BTreeMap::new();
     for run in &s.runs {
         for h in &run.hours {
-            if let Some(v) = what.of(h) {
+            if let Some(v) = what.of(run, h) {
                 by_time.entry(h.time).or_default().push(v);
             }
         }

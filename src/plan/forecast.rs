@@ -12,7 +12,7 @@ use crate::coast::{
 };
 use crate::localtime::local_day;
 use crate::physics::{
-    LatitudeCheck, NAUTICAL_MILE_M, ProbeStress, PumpingProbes, Wind, check_latitude,
+    LatitudeCheck, NAUTICAL_MILE_M, ProbeStress, PumpingProbes, Wind, WindStress, check_latitude,
     coriolis_parameter, ekman_depth_empirical_m, ekman_pumping_with_f_m_s, ekman_transport,
     m_s_to_knots, wind_stress,
 };
@@ -51,24 +51,41 @@ pub enum Latitude {
     TooClose,
 }
 
-/// The wind and index of a stretch in one hour.
-#[derive(Debug, Clone, Copy, PartialEq)]
+/// The wind and index of a stretch in one hour. What follows from the wind alone (the
+/// alongshore stress, the Ekman transport and depth) is worked out by the stretch when
+/// asked ([`StretchForecast::alongshore_stress_pa`], [`StretchForecast::transport_m2_s`],
+/// [`StretchForecast::ekman_depth_m`]): a long coast's hours are kept in half the
+/// memory.
+#[derive(Debug, Clone, Copy)]
 pub struct StretchHour {
     /// The hour, UTC.
     pub time: DateTime<Utc>,
     /// Wind at the stretch centre.
     pub wind: Wind,
-    /// Alongshore wind stress, N/m^2, positive toward the stretch's alongshore bearing.
-    pub alongshore_stress_pa: f64,
     /// Coastal upwelling index, m^3/s per 100 m (the length-weighted mean over the
     /// stretch's pieces, as `shelfwind index` computes it for a segment).
     pub index_m3s_per_100m: f64,
+    /// Ekman pumping just offshore, m/s; NaN where no grid gives it (read it with
+    /// [`StretchHour::pumping_m_s`]).
+    pumping: f64,
+}
+
+impl StretchHour {
     /// Ekman pumping just offshore, m/s, where a grid gives it.
-    pub pumping_m_s: Option<f64>,
-    /// Ekman transport at the centre, toward east and north, m^2/s.
-    pub transport_m2_s: (f64, f64),
-    /// Empirical Ekman layer depth at the centre, m (`None` within 10° of the equator).
-    pub ekman_depth_m: Option<f64>,
+    #[must_use]
+    pub fn pumping_m_s(&self) -> Option<f64> {
+        (!self.pumping.is_nan()).then_some(self.pumping)
+    }
+}
+
+impl PartialEq for StretchHour {
+    /// Equal values, an hour without pumping equal to another without.
+    fn eq(&self, other: &Self) -> bool {
+        self.time == other.time
+            && self.wind == other.wind
+            && self.index_m3s_per_100m == other.index_m3s_per_100m
+            && self.pumping_m_s() == other.pumping_m_s()
+    }
 }
 
 /// A stretch of coast and its upwelling over the forecast.
@@ -100,9 +117,41 @@ pub struct StretchForecast {
     pub days: Vec<UpwellingDay>,
     /// Upwelling events in the wind record.
     pub events: Vec<UpwellingEvent>,
+    /// The model settings its hours were worked out with.
+    index: IndexSettings,
 }
 
 impl StretchForecast {
+    /// The wind stress of an hour, N/m^2.
+    fn stress(&self, h: &StretchHour) -> WindStress {
+        wind_stress(h.wind, &self.index.drag, self.index.rho_air_kg_m3)
+    }
+
+    /// Alongshore wind stress in an hour, N/m^2, positive toward the stretch's
+    /// alongshore bearing.
+    #[must_use]
+    pub fn alongshore_stress_pa(&self, h: &StretchHour) -> f64 {
+        let tau = self.stress(h);
+        let along = self.alongshore_bearing_deg.to_radians();
+        tau.x_pa * along.sin() + tau.y_pa * along.cos()
+    }
+
+    /// Ekman transport at the centre in an hour, toward east and north, m^2/s.
+    #[must_use]
+    pub fn transport_m2_s(&self, h: &StretchHour) -> (f64, f64) {
+        let f_centre = coriolis_parameter(self.centre.lat_deg);
+        let m = ekman_transport(self.stress(h), f_centre, self.index.rho_water_kg_m3);
+        (m.x_m2_s, m.y_m2_s)
+    }
+
+    /// Empirical Ekman layer depth at the centre in an hour, m (`None` within 10° of
+    /// the equator).
+    #[must_use]
+    pub fn ekman_depth_m(&self, h: &StretchHour) -> Option<f64> {
+        (self.latitude == Latitude::Fine)
+            .then(|| ekman_depth_empirical_m(h.wind.speed_m_s(), self.centre.lat_deg))
+    }
+
     /// The hour at `t`, if the stretch has wind then. Hours are hourly, so the index is
     /// found by arithmetic first (one memory access on a long coast), by search after.
     #[must_use]
@@ -344,6 +393,7 @@ fn cut_stretches(segments: &[Segment], stretch_length_nm: f64) -> Vec<(Segment, 
                 hours: Vec::new(),
                 days: Vec::new(),
                 events: Vec::new(),
+                index: IndexSettings::default(),
             };
             out.push((part, info));
         }
@@ -1056,34 +1106,25 @@ impl SampledConditions {
         let probes = conditions.groups[l.pumping]
             .as_ref()
             .map(|p| Probes::new(p, steps.of(p), &l.probes));
-        let f_centre = coriolis_parameter(s.centre.lat_deg);
-        let along = s.alongshore_bearing_deg.to_radians();
-        let (along_sin, along_cos) = (along.sin(), along.cos());
         let idx = &settings.index;
+        s.index = *idx;
         s.hours = series
             .times
             .iter()
             .zip(&series.wind)
             .zip(&series.index_m3s_per_100m)
-            .map(|((&time, &wind), &index)| {
-                let tau = wind_stress(wind, &idx.drag, idx.rho_air_kg_m3);
-                let m = ekman_transport(tau, f_centre, idx.rho_water_kg_m3);
-                StretchHour {
-                    time,
-                    wind,
-                    alongshore_stress_pa: tau.x_pa * along_sin + tau.y_pa * along_cos,
-                    index_m3s_per_100m: index,
-                    pumping_m_s: probes
-                        .as_ref()
-                        .and_then(|p| p.pumping_at(steps.hour(time)?, idx)),
-                    transport_m2_s: (m.x_m2_s, m.y_m2_s),
-                    ekman_depth_m: (s.latitude == Latitude::Fine)
-                        .then(|| ekman_depth_empirical_m(wind.speed_m_s(), s.centre.lat_deg)),
-                }
+            .map(|((&time, &wind), &index)| StretchHour {
+                time,
+                wind,
+                index_m3s_per_100m: index,
+                pumping: probes
+                    .as_ref()
+                    .and_then(|p| p.pumping_at(steps.hour(time)?, idx))
+                    .unwrap_or(f64::NAN),
             })
             .collect();
-        let pumping: Vec<Option<f64>> = s.hours.iter().map(|h| h.pumping_m_s).collect();
-        let depth: Vec<Option<f64>> = s.hours.iter().map(|h| h.ekman_depth_m).collect();
+        let pumping: Vec<Option<f64>> = s.hours.iter().map(StretchHour::pumping_m_s).collect();
+        let depth: Vec<Option<f64>> = s.hours.iter().map(|h| s.ekman_depth_m(h)).collect();
         s.events = detect_events(&series.times, &series.index_m3s_per_100m, &settings.events);
         let hourly = HourlySeries {
             times: &series.times,
@@ -1337,5 +1378,52 @@ mod tests {
         for (k, g) in changed.iter().enumerate() {
             assert_ne!(forecast_key(g), key, "change {k}");
         }
+    }
+
+    /// What a stretch works out from an hour's wind: a 10 m/s northerly on a coast
+    /// running north at 38.4°N gives a stress of 0.1586 N/m^2 toward the south
+    /// (REFERENCES.md, C_D 1.3e-3 and air 1.22 kg/m^3), so −0.1586 along the coast; an
+    /// Ekman transport of tau / (rho f) = 0.1586 / (1025 × 9.059e-5) = 1.708 m^2/s to the
+    /// right of the stress in the northern hemisphere, toward the west (Ekman 1905); a
+    /// layer depth of 7.6 × 10 / sqrt(sin 38.4°) = 96.4 m (by hand); and no pumping where
+    /// no grid gives it.
+    #[test]
+    fn an_hour_worked_out_from_its_wind() {
+        let centre = LatLon::new(38.4, -123.2);
+        let s = StretchForecast {
+            id: "reef/0".into(),
+            segment_id: "reef".into(),
+            part: (0, 1),
+            points: vec![centre],
+            centre,
+            alongshore_bearing_deg: 0.0,
+            offshore_bearing_deg: 270.0,
+            latitude: Latitude::Fine,
+            has_wind: true,
+            wind_source: Some(0),
+            hours: Vec::new(),
+            days: Vec::new(),
+            events: Vec::new(),
+            index: IndexSettings::default(),
+        };
+        let h = StretchHour {
+            time: "2027-05-11T00:00:00Z".parse().expect("time"),
+            wind: Wind::from_speed_direction(10.0, 0.0),
+            index_m3s_per_100m: 0.0,
+            pumping: f64::NAN,
+        };
+        assert!((s.alongshore_stress_pa(&h) + 0.1586).abs() < 5.1e-5);
+        let (east, north) = s.transport_m2_s(&h);
+        assert!((east + 1.708).abs() < 0.002, "{east}");
+        assert!(north.abs() < 1e-12, "{north}");
+        let depth = s.ekman_depth_m(&h).expect("depth");
+        assert!((depth - 96.4).abs() < 0.1, "{depth}");
+        assert_eq!(h.pumping_m_s(), None);
+        assert_eq!(h, h);
+        let tropical = StretchForecast {
+            latitude: Latitude::NearEquator,
+            ..s
+        };
+        assert_eq!(tropical.ekman_depth_m(&h), None);
     }
 }
