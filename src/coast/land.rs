@@ -208,7 +208,8 @@ impl Land {
     /// Caspian Sea is a hole, so sea. Points exactly on a ring edge may fall either way.
     #[must_use]
     pub fn is_land(&self, p: LatLon) -> bool {
-        if !(p.lat_deg.is_finite() && p.lon_deg.is_finite()) {
+        // No land (or no position): sea, without setting up the cells.
+        if self.rings.is_empty() || !(p.lat_deg.is_finite() && p.lon_deg.is_finite()) {
             return false;
         }
         let lat = p.lat_deg;
