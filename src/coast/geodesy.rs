@@ -24,6 +24,13 @@ impl LatLon {
         Self { lat_deg, lon_deg }
     }
 
+    /// The exact bits of latitude and longitude: a key for the very same position
+    /// (in maps and hashes, which `f64` is not).
+    #[must_use]
+    pub fn bits(self) -> (u64, u64) {
+        (self.lat_deg.to_bits(), self.lon_deg.to_bits())
+    }
+
     fn to_unit_vector(self) -> [f64; 3] {
         let (lat, lon) = (self.lat_deg.to_radians(), self.lon_deg.to_radians());
         [lat.cos() * lon.cos(), lat.cos() * lon.sin(), lat.sin()]

@@ -182,8 +182,7 @@ impl Land {
         for ring in &rings {
             ring.len().hash(&mut h);
             for p in ring {
-                p.lat_deg.to_bits().hash(&mut h);
-                p.lon_deg.to_bits().hash(&mut h);
+                p.bits().hash(&mut h);
             }
         }
         Land {

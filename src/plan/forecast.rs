@@ -270,7 +270,7 @@ pub struct ForecastGeometry<'a> {
 pub struct SampledConditions {
     /// The files sampled.
     pub sources: Vec<SourceIdentity>,
-    /// Fingerprint of the points sampled.
+    /// The [`forecast_key`] of the coast and ports sampled for.
     pub geometry: u64,
     /// How the runs were made from the files.
     pub rule: RunRule,
@@ -549,12 +549,10 @@ fn layout(geometry: &ForecastGeometry<'_>) -> Layout {
             let at = pts
                 .into_iter()
                 .map(|p| {
-                    *route_points
-                        .entry((p.lat_deg.to_bits(), p.lon_deg.to_bits()))
-                        .or_insert_with(|| {
-                            groups.push(PointGroup::point(p));
-                            groups.len() - 1
-                        })
+                    *route_points.entry(p.bits()).or_insert_with(|| {
+                        groups.push(PointGroup::point(p));
+                        groups.len() - 1
+                    })
                 })
                 .collect();
             route_groups.push((at, way.map(Arc::new)));
@@ -576,23 +574,19 @@ fn layout(geometry: &ForecastGeometry<'_>) -> Layout {
 pub fn forecast_key(geometry: &ForecastGeometry<'_>) -> u64 {
     use std::hash::{Hash, Hasher};
     let mut h = std::collections::hash_map::DefaultHasher::new();
-    let point = |p: &LatLon, h: &mut std::collections::hash_map::DefaultHasher| {
-        p.lat_deg.to_bits().hash(h);
-        p.lon_deg.to_bits().hash(h);
+    let points = |ps: &[LatLon], h: &mut std::collections::hash_map::DefaultHasher| {
+        ps.len().hash(h);
+        for p in ps {
+            p.bits().hash(h);
+        }
     };
     geometry.segments.len().hash(&mut h);
     for s in geometry.segments {
         s.id.hash(&mut h);
         s.sea.hash(&mut h);
-        s.points.len().hash(&mut h);
-        for p in &s.points {
-            point(p, &mut h);
-        }
+        points(&s.points, &mut h);
     }
-    geometry.ports.len().hash(&mut h);
-    for p in geometry.ports {
-        point(p, &mut h);
-    }
+    points(geometry.ports, &mut h);
     let RouteSettings {
         clearance_m,
         harbour_allowance_m,
@@ -744,12 +738,10 @@ fn port_routes(
     let mut seen: std::collections::HashMap<(u64, u64), usize> = std::collections::HashMap::new();
     let mut unique: Vec<(LatLon, HoursFrom)> = Vec::new();
     let mut index_of = |p: LatLon, from: HoursFrom| {
-        *seen
-            .entry((p.lat_deg.to_bits(), p.lon_deg.to_bits()))
-            .or_insert_with(|| {
-                unique.push((p, from));
-                unique.len() - 1
-            })
+        *seen.entry(p.bits()).or_insert_with(|| {
+            unique.push((p, from));
+            unique.len() - 1
+        })
     };
     let mut ways: Vec<(Vec<usize>, bool)> = Vec::with_capacity(stretches.len());
     for ((s, l), (at, _)) in stretches.iter().zip(layout).zip(route_groups) {

@@ -817,9 +817,8 @@ impl Gathered {
             });
             if members.last().is_none_or(|m| m.member != id) {
                 if let Some(last) = members.last_mut() {
-                    push_winds(&mut last.samples.points, &block);
+                    push_winds(&mut last.samples.points, &mut block);
                 }
-                block.clear();
                 members.push(MemberSamples {
                     member: id,
                     samples: Grib2Samples {
@@ -837,12 +836,11 @@ impl Gathered {
             last.samples.times.push(t);
             block.push((u, v));
             if block.len() == WIND_BLOCK {
-                push_winds(&mut last.samples.points, &block);
-                block.clear();
+                push_winds(&mut last.samples.points, &mut block);
             }
         }
         if let Some(last) = members.last_mut() {
-            push_winds(&mut last.samples.points, &block);
+            push_winds(&mut last.samples.points, &mut block);
         }
         Ok(members)
     }
@@ -920,8 +918,9 @@ const WIND_BLOCK: usize = 32;
 
 /// Appends a few time steps to each point's series, turning winds given along a grid's
 /// axes to east and north; a point missing at any time ends up with no series (see
-/// [`Grib2Samples::points`]). Points in parallel, each taking its times in order.
-fn push_winds(per_point: &mut [Option<Vec<Wind>>], block: &[(Field, Field)]) {
+/// [`Grib2Samples::points`]). Points in parallel, each taking its times in order; the
+/// block is left empty, its fields dropped.
+fn push_winds(per_point: &mut [Option<Vec<Wind>>], block: &mut Vec<(Field, Field)>) {
     use rayon::prelude::*;
     if block.is_empty() {
         return;
@@ -950,6 +949,7 @@ fn push_winds(per_point: &mut [Option<Vec<Wind>>], block: &[(Field, Field)]) {
                 *slot = None;
             }
         });
+    block.clear();
 }
 
 /// Reads every 10 m u/v field of a GRIB2 stream and samples it at `points`.
