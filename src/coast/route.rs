@@ -15,7 +15,10 @@
 //! a leg only when it would shorten the way to its far end (lazy visibility). Each target
 //! then takes, among the nodes it sees, the one that minimises the node's distance plus
 //! the last leg, trying nodes in increasing order of that sum: the first one seen is the
-//! best, and usually the first one tried.
+//! best, and usually the first one tried. A node's sum is only worked out when a lower
+//! bound of it (its distance, plus the difference of its and the target's straight-line
+//! distances from the port's first node: the triangle inequality) does not already rule
+//! it out.
 //!
 //! Why not a raster searched with A* (Hart, Nilsson & Raphael 1968): the bundled land has
 //! 59 000 vertices for the whole world, tens of kilometres apart along smooth coasts,
@@ -58,7 +61,7 @@
 //! square, not with the box's area; a target beyond `max_length_m` in a straight line
 //! costs nothing.
 
-use std::cmp::Ordering;
+use std::cmp::{Ordering, Reverse};
 use std::collections::BinaryHeap;
 
 use rayon::prelude::*;
@@ -194,6 +197,9 @@ pub fn sea_routes(
 
 /// Ends poleward of this latitude get no way, degrees.
 const MAX_LAT_DEG: f64 = 85.0;
+/// How far a node's lower bound may pass the shortest length found and still be
+/// measured, metres: far more than the rounding of two great-circle distances.
+const BOUND_SLACK_M: f64 = 0.01;
 /// Least margin of the search box around the port and the targets, metres.
 const MIN_MARGIN_M: f64 = 20_000.0;
 /// Legs and nodes must clear land by this factor times the clearance, which covers the
@@ -645,6 +651,9 @@ struct Search<'r, 'a> {
     prev: Vec<usize>,
     /// The cosine of each node's latitude.
     cos_lat: Vec<f64>,
+    /// The great-circle distance from the first node (the port's navigable point) to
+    /// each node, metres.
+    from_start_m: Vec<f64>,
 }
 
 /// An entry of Dijkstra's queue, smallest distance first.
@@ -718,16 +727,23 @@ impl<'r, 'a> Search<'r, 'a> {
                 }
             }
         }
+        let cos_lat: Vec<f64> = nodes
+            .iter()
+            .map(|n| n.at.lat_deg.to_radians().cos())
+            .collect();
+        let from_start_m = nodes
+            .iter()
+            .zip(&cos_lat)
+            .map(|(n, &c)| distance_with_cos_m((nodes[0].at, cos_lat[0]), (n.at, c)))
+            .collect();
         Some(Search {
             region,
             from,
-            cos_lat: nodes
-                .iter()
-                .map(|n| n.at.lat_deg.to_radians().cos())
-                .collect(),
             nodes,
             dist_m,
             prev,
+            cos_lat,
+            from_start_m,
         })
     }
 
@@ -740,32 +756,69 @@ impl<'r, 'a> Search<'r, 'a> {
         let end_leg_m = distance_m(end, target);
         let end_xy = self.region.frame.xy(end);
         let end_cos = end.lat_deg.to_radians().cos();
-        let mut candidates: Vec<(f64, usize)> = self
-            .dist_m
-            .iter()
-            .enumerate()
-            .filter(|&(_, d)| d.is_finite())
-            .map(|(k, d)| {
-                let leg_m =
-                    distance_with_cos_m((self.nodes[k].at, self.cos_lat[k]), (end, end_cos));
-                (d + leg_m + end_leg_m, k)
-            })
-            .filter(|&(length_m, _)| length_m <= limits.max_length_m)
-            .collect();
-        // Shortest first (the first node on equal lengths); the shortest is most often
-        // clear, so the rest is sorted only when it is not.
+        let length_m = |k: usize| {
+            self.dist_m[k]
+                + distance_with_cos_m((self.nodes[k].at, self.cos_lat[k]), (end, end_cos))
+                + end_leg_m
+        };
+        // No way through node k is shorter than this (the triangle inequality on the
+        // sphere, from the first node): nodes whose bound is past the shortest length
+        // found so far, by more than rounding, are not measured.
+        let end_from_start_m =
+            distance_with_cos_m((self.nodes[0].at, self.cos_lat[0]), (end, end_cos));
+        let bound_m =
+            |k: usize| self.dist_m[k] + (self.from_start_m[k] - end_from_start_m).abs() + end_leg_m;
+        let reached = (0..self.nodes.len()).filter(|&k| self.dist_m[k].is_finite());
+        // Shortest first (the first node on equal lengths).
         let order = |a: &(f64, usize), b: &(f64, usize)| a.0.total_cmp(&b.0).then(a.1.cmp(&b.1));
+        let likely = reached
+            .clone()
+            .min_by(|&a, &b| bound_m(a).total_cmp(&bound_m(b)));
+        let mut shortest: Option<(f64, usize)> = None;
+        for k in likely.into_iter().chain(reached.clone()) {
+            if shortest.is_some_and(|(best_m, _)| bound_m(k) > best_m + BOUND_SLACK_M) {
+                continue;
+            }
+            let candidate = (length_m(k), k);
+            if candidate.0 <= limits.max_length_m
+                && shortest.is_none_or(|s| order(&candidate, &s).is_lt())
+            {
+                shortest = Some(candidate);
+            }
+        }
         let is_clear = |k: usize| self.region.clear(self.nodes[k].xy, end_xy, limits.check_m);
-        let Some(&shortest) = candidates.iter().min_by(|a, b| order(a, b)) else {
+        let Some(shortest) = shortest else {
             return Reach::NoWay;
         };
+        // The shortest is most often clear. When it is not, the others are taken in
+        // order of length; a node is measured only once no node measured so far is
+        // certainly shorter than every node left (lengths and bounds are not negative,
+        // so their bits sort as they do).
         let last = if is_clear(shortest.1) {
             shortest.1
         } else {
-            candidates.sort_unstable_by(order);
-            match candidates.iter().skip(1).find(|&&(_, k)| is_clear(k)) {
-                Some(&(_, k)) => k,
-                None => return Reach::NoWay,
+            let mut unmeasured: BinaryHeap<Reverse<(u64, usize)>> = reached
+                .map(|k| Reverse((bound_m(k).to_bits(), k)))
+                .collect();
+            let mut measured: BinaryHeap<Reverse<(u64, usize)>> = BinaryHeap::new();
+            'next: loop {
+                let least_left_m = unmeasured.peek().map(|Reverse((b, _))| f64::from_bits(*b));
+                while let Some(&Reverse((l, k))) = measured.peek() {
+                    if least_left_m.is_some_and(|b| f64::from_bits(l) >= b - BOUND_SLACK_M) {
+                        break;
+                    }
+                    measured.pop();
+                    if k != shortest.1 && is_clear(k) {
+                        break 'next k;
+                    }
+                }
+                let Some(Reverse((_, k))) = unmeasured.pop() else {
+                    return Reach::NoWay;
+                };
+                let l = length_m(k);
+                if l <= limits.max_length_m {
+                    measured.push(Reverse((l.to_bits(), k)));
+                }
             }
         };
         let mut way = vec![end];
@@ -1157,6 +1210,89 @@ mod tests {
             .map(|r| r.iter().map(|&(lat, lon)| LatLon::new(lat, lon)).collect())
             .collect();
         crate::coast::land::write_land_body(&rings)
+    }
+
+    /// The way to each target found with the distance bound is the way found by
+    /// measuring through every node (the plain definition, written out here): the
+    /// shortest whose last leg is clear, the first node on equal lengths.
+    #[test]
+    fn bounded_search_finds_the_way_measuring_every_node_finds() {
+        // A field of small square islands 0.05° apart, the port at its west edge.
+        let mut rings: Vec<Vec<(f64, f64)>> = Vec::new();
+        for i in 0..6 {
+            for j in 0..4 {
+                let (lat, lon) = (0.05 * f64::from(j), 0.05 * f64::from(i));
+                rings.push(vec![
+                    (lat, lon),
+                    (lat, lon + 0.02),
+                    (lat + 0.02, lon + 0.02),
+                    (lat + 0.02, lon),
+                ]);
+            }
+        }
+        let rings: Vec<&[(f64, f64)]> = rings.iter().map(Vec::as_slice).collect();
+        let land = Land::from_bytes(&land_file(&rings)).expect("valid");
+        let settings = RouteSettings::default();
+        let limits = Limits::new(&settings).expect("settings");
+        let from = LatLon::new(0.06, -0.04);
+        let targets: Vec<LatLon> = (0..40)
+            .map(|k| {
+                let k = f64::from(k);
+                LatLon::new(-0.01 + 0.0043 * k, 0.01 + 0.0071 * k)
+            })
+            .collect();
+        let region = Region::new(&land, from, targets.iter().copied(), 50_000.0, &limits);
+        let search = Search::run(&region, from).expect("the port is at sea");
+        let mut ways = 0;
+        for &t in &targets {
+            let found = search.route_to(t);
+            let Some(end) = region.connect(t) else {
+                assert!(matches!(found, Reach::Unconnected), "{t:?}");
+                continue;
+            };
+            let end_xy = region.frame.xy(end);
+            let mut best: Option<(f64, usize)> = None;
+            for k in 0..search.nodes.len() {
+                let length_m =
+                    search.dist_m[k] + distance_m(search.nodes[k].at, end) + distance_m(end, t);
+                let better = best.is_none_or(|(b, _)| length_m < b);
+                if search.dist_m[k].is_finite()
+                    && length_m <= limits.max_length_m
+                    && better
+                    && region.clear(search.nodes[k].xy, end_xy, limits.check_m)
+                {
+                    best = Some((length_m, k));
+                }
+            }
+            match (found, best) {
+                (Reach::Way(route), Some((length_m, k))) => {
+                    let mut way = vec![end];
+                    let mut n = k;
+                    loop {
+                        way.push(search.nodes[n].at);
+                        if n == 0 {
+                            break;
+                        }
+                        n = search.prev[n];
+                    }
+                    way.reverse();
+                    assert_eq!(route, assemble(from, &way, t), "{t:?}");
+                    assert!((route.length_m - length_m).abs() < 1e-6, "{t:?}");
+                    ways += 1;
+                }
+                (Reach::NoWay, None) => {}
+                (found, best) => panic!(
+                    "{t:?}: {best:?} but {}",
+                    match found {
+                        Reach::Way(_) => "a way",
+                        Reach::NoWay => "no way",
+                        Reach::Unconnected => "unconnected",
+                    }
+                ),
+            }
+        }
+        // Most targets lie among the islands, and the ways to them turn at corners.
+        assert!(ways >= 30, "{ways} ways");
     }
 
     #[test]

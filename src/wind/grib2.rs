@@ -444,7 +444,7 @@ struct Gathered {
 }
 
 /// A message's number, reference time and its wind fields decoded (or why not).
-type DecodedMessage = (usize, DateTime<Utc>, Result<Vec<SampledField>, String>);
+type DecodedMessage = (usize, DateTime<Utc>, Result<Vec<DecodedField>, String>);
 
 /// A message whose wind fields are ready to decode.
 struct Prepared {
@@ -454,8 +454,9 @@ struct Prepared {
     headers: Vec<FieldHeader>,
 }
 
-/// How many messages, or bytes of them, are decoded at once: enough to keep every core
-/// busy, little enough to keep memory bounded by a few messages per core.
+/// How many messages, or bytes of them and of their decoded fields, are decoded at
+/// once: enough to keep every core busy and to read each point's sampling rule once for
+/// many fields, little enough to keep memory bounded.
 const BATCH_MESSAGES: usize = 32;
 const BATCH_BYTES: usize = 64 << 20;
 
@@ -722,8 +723,21 @@ impl Gathered {
         }))
     }
 
-    /// Decodes the prepared messages, several at once on as many cores, then files their
-    /// fields in file order; the first error in file order is the one reported.
+    /// The bytes a prepared message's wind fields take once decoded.
+    fn decoded_bytes(&self, p: &Prepared) -> usize {
+        p.headers
+            .iter()
+            .filter_map(|h| {
+                self.grids
+                    .get(&p.message.bytes[h.grid.0..h.grid.0 + h.grid.1])
+            })
+            .map(|g| g.count * std::mem::size_of::<f32>())
+            .sum()
+    }
+
+    /// Decodes the prepared messages, several at once on as many cores, samples their
+    /// fields at the points, then files them in file order; the first error in file
+    /// order is the one reported.
     fn add_batch(&mut self, batch: Vec<Prepared>) -> Result<(), WindFileError> {
         use rayon::prelude::*;
         let grids = &self.grids;
@@ -734,11 +748,50 @@ impl Gathered {
                 (p.message.number, p.ref_time, fields)
             })
             .collect();
+        // Every field of the batch that decoded, sampled at once per grid: each point's
+        // rule is read once for all of them.
+        let decoded_fields: Vec<&DecodedField> = decoded
+            .iter()
+            .filter_map(|d| d.2.as_ref().ok())
+            .flatten()
+            .collect();
+        let mut on_grid: HashMap<&[u8], Vec<usize>> = HashMap::new();
+        for (k, f) in decoded_fields.iter().enumerate() {
+            on_grid.entry(f.grid.as_slice()).or_default().push(k);
+        }
+        let mut sampled: Vec<Vec<f32>> = vec![Vec::new(); decoded_fields.len()];
+        for (grid, ks) in on_grid {
+            let values: Vec<&[f32]> = ks
+                .iter()
+                .map(|&k| decoded_fields[k].values.as_slice())
+                .collect();
+            for (k, values) in ks
+                .into_iter()
+                .zip(sample_fields(&grids[grid].rules, &values))
+            {
+                sampled[k] = values;
+            }
+        }
+        let mut sampled = sampled.into_iter();
         for (message, ref_time, fields) in decoded {
             let fail = |problem: String| message_error(message, problem);
             for field in fields.map_err(fail)? {
                 let t = valid_time(ref_time, &field.header).map_err(fail)?;
-                self.store(message, t, field)?;
+                let values = sampled.next().unwrap_or_default();
+                let north_angles = self
+                    .grids
+                    .get(field.grid.as_slice())
+                    .and_then(|g| g.north_angles.clone());
+                self.store(
+                    message,
+                    t,
+                    SampledField {
+                        header: field.header,
+                        component: field.component,
+                        values,
+                        north_angles,
+                    },
+                )?;
             }
         }
         Ok(())
@@ -1054,7 +1107,7 @@ fn sample_gathered<R: Read + Seek>(
                 progress.set(m.start as f32 / file_len as f32);
                 gathered.prepare(m, points).map(|p| {
                     if let Some(p) = p {
-                        batch_bytes += p.message.bytes.len();
+                        batch_bytes += p.message.bytes.len() + gathered.decoded_bytes(&p);
                         batch.push(p);
                     }
                     true
@@ -1123,13 +1176,20 @@ struct SampledField {
     north_angles: Option<Arc<Vec<f64>>>,
 }
 
-/// Decodes the wind fields of one message and samples them at the points (NaN outside
-/// the grid or where the field has no value nearby); their grids are set up in `grids`.
+/// One decoded wind field: its values on its grid (section 3 as given).
+struct DecodedField {
+    header: FieldHeader,
+    component: Component,
+    grid: Vec<u8>,
+    values: Vec<f32>,
+}
+
+/// Decodes the wind fields of one message whose grids are set up in `grids`.
 fn decode_message(
     msg: &[u8],
     headers: &[FieldHeader],
     grids: &HashMap<Vec<u8>, GridRules>,
-) -> Result<Vec<SampledField>, String> {
+) -> Result<Vec<DecodedField>, String> {
     let mut out = Vec::new();
     for h in headers {
         let Some(component) = h.wind_component() else {
@@ -1148,12 +1208,44 @@ fn decode_message(
                 grid.count
             ));
         }
-        out.push(SampledField {
+        out.push(DecodedField {
             header: *h,
             component,
-            values: grid.rules.iter().map(|r| r.sample(&values)).collect(),
-            north_angles: grid.north_angles.clone(),
+            grid: section3.to_vec(),
+            values,
         });
     }
     Ok(out)
+}
+
+/// Fields on one grid sampled at every point (NaN outside the grid or where a field has
+/// no value nearby), one list per field. Points are taken a few hundred at a time, in
+/// parallel, and each block's rules are read from the cache for every field, not
+/// brought in again from memory field after field. Each list is allocated by a worker,
+/// as when the fields were sampled one by one, which keeps the heap from scattering.
+fn sample_fields(rules: &[PointRule], fields: &[&[f32]]) -> Vec<Vec<f32>> {
+    use rayon::prelude::*;
+    const POINTS: usize = 256;
+    let mut out: Vec<Vec<f32>> = fields
+        .par_iter()
+        .map(|_| Vec::with_capacity(rules.len()))
+        .collect();
+    let blocks: Vec<Vec<f32>> = rules
+        .par_chunks(POINTS)
+        .map(|rules| {
+            let mut block = Vec::with_capacity(rules.len() * fields.len());
+            for field in fields {
+                for rule in rules {
+                    block.push(rule.sample(field));
+                }
+            }
+            block
+        })
+        .collect();
+    for (b, rules) in blocks.iter().zip(rules.chunks(POINTS)) {
+        for (values, part) in out.iter_mut().zip(b.chunks(rules.len().max(1))) {
+            values.extend_from_slice(part);
+        }
+    }
+    out
 }
