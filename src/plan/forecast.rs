@@ -23,8 +23,8 @@ use crate::upwelling::{
 };
 use crate::wind::{
     Conditions, GroupWind, Member, PointGroup, PointSeries, RunRule, SegmentWind, SourceIdentity,
-    SourceSpan, TimeStep, WindError, WindSource, forecast_runs, length_weighted_at, sample_run,
-    sample_waves, time_step,
+    SourceSpan, TimeStep, WindError, WindSource, WindTrack, forecast_runs, length_weighted_at,
+    sample_run, sample_waves, time_step,
 };
 use chrono::{DateTime, Duration, NaiveDate, Timelike, Utc};
 use chrono_tz::Tz;
@@ -490,9 +490,9 @@ impl<'a> Steps<'a> {
     }
 }
 
-/// The wind of one point's series at a step (`None` where the hour has no step).
-fn wind_on(step: Option<TimeStep>, wind: &[Wind]) -> Option<Wind> {
-    step?.wind(wind)
+/// The wind of one point's track at a step (`None` where the hour has no step).
+fn wind_on(step: Option<TimeStep>, wind: &WindTrack) -> Option<Wind> {
+    step?.wind_on(wind)
 }
 
 /// The points a coast and its ports need, in groups, and where each stretch's are.
@@ -804,10 +804,10 @@ impl HoursFrom {
     }
 
     /// The point's series in that group.
-    fn series(self, g: &GroupWind) -> Option<&[Wind]> {
+    fn series(self, g: &GroupWind) -> Option<&WindTrack> {
         match self {
-            Self::Point(_) => g.points.first().map(Vec::as_slice),
-            Self::Centre(_) => g.extra.as_deref(),
+            Self::Point(_) => g.points.first(),
+            Self::Centre(_) => g.extra.as_ref(),
         }
     }
 }
@@ -1083,7 +1083,7 @@ impl SampledConditions {
             }
             let centre = g
                 .extra
-                .as_deref()
+                .as_ref()
                 .and_then(|e| wind_on(step, e))
                 .unwrap_or_else(|| length_weighted_at(&part.pieces(), &at));
             wind.times.push(t);
@@ -1194,10 +1194,13 @@ mod tests {
         let series: Vec<Wind> = (0..hours.len())
             .map(|k| Wind::new(k as f64, -2.0 * k as f64))
             .collect();
+        // Whole numbers: the track keeps them in single precision.
+        let track = WindTrack::new(series.clone());
+        assert!(matches!(track, WindTrack::Single(_)));
         let group = GroupWind {
             source: 0,
             times: times.clone(),
-            points: vec![series.clone()],
+            points: vec![track.clone()],
             extra: None,
         };
         let timeline: Vec<DateTime<Utc>> = (-2..22).map(|h| t0 + Duration::hours(h)).collect();
@@ -1206,17 +1209,17 @@ mod tests {
         assert_eq!(on.len(), timeline.len());
         for (&t, &step) in timeline.iter().zip(on) {
             assert_eq!(
-                wind_on(step, &series),
+                wind_on(step, &track),
                 wind_at_time(&times, &series, t, MAX_WIND_GAP_H),
                 "at {t}"
             );
         }
         // 01:00 is a third of the way from 00:00 to 03:00; 10:00 is in the nine-hour gap.
         assert_eq!(
-            wind_on(on[3], &series),
+            wind_on(on[3], &track),
             Some(Wind::new(1.0 / 3.0, -2.0 / 3.0))
         );
-        assert_eq!(wind_on(on[12], &series), None);
+        assert_eq!(wind_on(on[12], &track), None);
         assert_eq!(steps.hour(t0 + Duration::hours(5)), Some(7));
         assert_eq!(steps.hour(t0 + Duration::minutes(90)), None);
     }

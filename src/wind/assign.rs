@@ -160,13 +160,19 @@ fn segment_wind(
             files: sources.len(),
         });
     };
-    let midpoint = g
-        .extra
-        .unwrap_or_else(|| length_weighted(&seg.pieces(), &g.points));
+    let pieces: Vec<Vec<Wind>> = g
+        .points
+        .into_iter()
+        .map(super::WindTrack::into_winds)
+        .collect();
+    let midpoint = g.extra.map_or_else(
+        || length_weighted(&seg.pieces(), &pieces),
+        super::WindTrack::into_winds,
+    );
     Ok(SegmentWind {
         source: g.source,
         times: g.times.to_vec(),
-        pieces: g.points,
+        pieces,
         midpoint,
     })
 }

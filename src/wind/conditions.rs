@@ -17,8 +17,8 @@
 //! time, the first source winning where two give the same time ([`LongRecord`]).
 
 use super::{
-    PointSeries, WindError, WindFileError, WindSource, grib2_contents, sample_grib2_member_with,
-    sample_grib2_with, sample_waves_grib2_sized,
+    PointSeries, WindError, WindFileError, WindSource, WindTrack, grib2_contents,
+    sample_grib2_member_with, sample_grib2_with, sample_waves_grib2_sized,
 };
 use crate::coast::{LatLon, distance_m};
 use crate::physics::Wind;
@@ -71,9 +71,9 @@ pub struct GroupWind {
     /// Valid times, UTC, increasing (shared by every group read from the same file).
     pub times: Arc<[DateTime<Utc>]>,
     /// For each point of the group, the wind at each time.
-    pub points: Vec<Vec<Wind>>,
+    pub points: Vec<WindTrack>,
     /// The wind at the extra point at each time, where the source covers it.
-    pub extra: Option<Vec<Wind>>,
+    pub extra: Option<WindTrack>,
 }
 
 /// The wind of every group.
@@ -517,6 +517,11 @@ type CoveredWind = (Vec<Arc<Vec<Wind>>>, Option<Arc<Vec<Wind>>>);
 /// A source's samples, one per point.
 type Sample = Option<Arc<Vec<Wind>>>;
 
+/// A sample kept as a group's track (taken over where no other group shares it).
+fn track(sample: Arc<Vec<Wind>>) -> WindTrack {
+    WindTrack::new(Arc::unwrap_or_clone(sample))
+}
+
 /// The one coverage rule: the wind source `k` gives group `g`, whose points' samples
 /// from that source are `samples` (its points, then its extra point), or `None`.
 fn cover(
@@ -597,8 +602,8 @@ pub fn sample_run(
                 out.groups[g] = Some(GroupWind {
                     source: k,
                     times: times.clone(),
-                    points: points.into_iter().map(Arc::unwrap_or_clone).collect(),
-                    extra: extra.map(Arc::unwrap_or_clone),
+                    points: points.into_iter().map(track).collect(),
+                    extra: extra.map(track),
                 });
             }
         }
@@ -742,17 +747,19 @@ impl<'a> LongRecord<'a> {
             return Some(GroupWind {
                 source,
                 times: file.times.clone(),
-                points: points.into_iter().map(Arc::unwrap_or_clone).collect(),
-                extra: extra.map(Arc::unwrap_or_clone),
+                points: points.into_iter().map(track).collect(),
+                extra: extra.map(track),
             });
         }
         let axis = self.axis(covering.iter().map(|c| c.0).collect());
         let points = (0..group.points.len())
             .map(|p| {
-                axis.from
-                    .iter()
-                    .map(|&(s, i)| covering[s].1.0[p][i])
-                    .collect()
+                WindTrack::new(
+                    axis.from
+                        .iter()
+                        .map(|&(s, i)| covering[s].1.0[p][i])
+                        .collect(),
+                )
             })
             .collect();
         // The extra point keeps a value only where every time has one.
@@ -760,7 +767,8 @@ impl<'a> LongRecord<'a> {
             axis.from
                 .iter()
                 .map(|&(s, i)| covering[s].1.1.as_ref().map(|e| e[i]))
-                .collect()
+                .collect::<Option<Vec<Wind>>>()
+                .map(WindTrack::new)
         });
         Some(GroupWind {
             source,
@@ -838,7 +846,7 @@ mod tests {
                 .map(|t| (*t - g.times[0]).num_hours())
                 .collect();
             assert_eq!(hours, [0, 1, 2, 3]);
-            let u = |w: &Vec<Wind>| w.iter().map(|w| w.u_m_s).collect::<Vec<_>>();
+            let u = |w: &WindTrack| w.to_winds().iter().map(|w| w.u_m_s).collect::<Vec<_>>();
             assert_eq!(u(&g.points[0]), [1.0, 1.0, 1.0, 2.0]);
             assert_eq!(u(&g.points[1]), [1.0, 1.0, 1.0, 2.0]);
             assert_eq!(g.extra.as_ref().map(u), Some(vec![1.0, 1.0, 1.0, 2.0]));
@@ -861,7 +869,10 @@ mod tests {
         let c = sample_conditions(&sources, &[near_north, probes], &Progress::new())
             .expect("stations read");
         let g = c.groups[0].as_ref().expect("covered");
-        assert_eq!((g.source, g.points[0][0].u_m_s), (1, 2.0));
+        assert_eq!(
+            (g.source, g.points[0].get(0).map(|w| w.u_m_s)),
+            (1, Some(2.0))
+        );
         assert!(c.groups[1].is_none());
     }
 }

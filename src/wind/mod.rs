@@ -103,9 +103,19 @@ impl TimeStep {
     /// The wind at this step of a series on the times it was found on.
     #[must_use]
     pub fn wind(self, wind: &[Wind]) -> Option<Wind> {
+        self.wind_by(|k| wind.get(k).copied())
+    }
+
+    /// The wind at this step of a track on the times it was found on.
+    #[must_use]
+    pub fn wind_on(self, track: &WindTrack) -> Option<Wind> {
+        self.wind_by(|k| track.get(k))
+    }
+
+    fn wind_by(self, at: impl Fn(usize) -> Option<Wind>) -> Option<Wind> {
         match self {
-            Self::At(k) => wind.get(k).copied(),
-            Self::Between(k, frac) => Some(wind.get(k - 1)?.lerp(*wind.get(k)?, frac)),
+            Self::At(k) => at(k),
+            Self::Between(k, frac) => Some(at(k.checked_sub(1)?)?.lerp(at(k)?, frac)),
         }
     }
 }
@@ -128,6 +138,77 @@ pub fn time_step(times: &[DateTime<Utc>], t: DateTime<Utc>, max_gap_h: f64) -> O
     }
     let frac = (t - a).num_seconds() as f64 / span_s;
     Some(TimeStep::Between(k, frac))
+}
+
+/// One point's wind at each time of its series, kept in half the memory where that
+/// loses nothing: in single precision when every component is a single-precision
+/// number (a grid's components along east and north are decoded and sampled in single
+/// precision), else as given. Either way it gives back the very numbers it was made
+/// from.
+#[derive(Debug, Clone, PartialEq)]
+pub enum WindTrack {
+    /// Every component is exactly a single-precision number: (u, v), m/s.
+    Single(Vec<[f32; 2]>),
+    /// As given.
+    Double(Vec<Wind>),
+}
+
+impl WindTrack {
+    /// The track of these winds, in single precision when that keeps every one exactly.
+    #[must_use]
+    pub fn new(wind: Vec<Wind>) -> Self {
+        let single = |x: f64| f64::from(x as f32).to_bits() == x.to_bits();
+        if wind.iter().all(|w| single(w.u_m_s) && single(w.v_m_s)) {
+            Self::Single(
+                wind.iter()
+                    .map(|w| [w.u_m_s as f32, w.v_m_s as f32])
+                    .collect(),
+            )
+        } else {
+            Self::Double(wind)
+        }
+    }
+
+    /// Number of times.
+    #[must_use]
+    pub fn len(&self) -> usize {
+        match self {
+            Self::Single(w) => w.len(),
+            Self::Double(w) => w.len(),
+        }
+    }
+
+    /// Whether it holds no time.
+    #[must_use]
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// The wind at time `k`.
+    #[must_use]
+    pub fn get(&self, k: usize) -> Option<Wind> {
+        match self {
+            Self::Single(w) => w
+                .get(k)
+                .map(|&[u, v]| Wind::new(f64::from(u), f64::from(v))),
+            Self::Double(w) => w.get(k).copied(),
+        }
+    }
+
+    /// Every wind, in order.
+    #[must_use]
+    pub fn to_winds(&self) -> Vec<Wind> {
+        (0..self.len()).filter_map(|k| self.get(k)).collect()
+    }
+
+    /// Every wind, in order, taking over the winds kept as given.
+    #[must_use]
+    pub fn into_winds(self) -> Vec<Wind> {
+        match self {
+            Self::Double(w) => w,
+            single @ Self::Single(_) => single.to_winds(),
+        }
+    }
 }
 
 /// A point series read from a CSV file.
@@ -212,4 +293,35 @@ pub enum WindError {
     /// The files cannot make the runs asked for.
     #[error("{0}")]
     Runs(String),
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A track gives back exactly the winds it was made from, in single precision only
+    /// when that holds every component (0.1 m/s is not a single-precision number; a
+    /// grid's sampled component 3.25 is), and steps between times read it as they read
+    /// the winds themselves.
+    #[test]
+    fn a_track_keeps_its_winds_exactly() {
+        let exact = vec![Wind::new(3.25, -1.5), Wind::new(f64::from(7.3_f32), -0.0)];
+        let inexact = vec![Wind::new(3.25, -1.5), Wind::new(0.1, 2.0)];
+        for (winds, single) in [(exact, true), (inexact, false)] {
+            let track = WindTrack::new(winds.clone());
+            assert_eq!(matches!(track, WindTrack::Single(_)), single, "{track:?}");
+            assert_eq!(track.len(), 2);
+            assert_eq!(track.to_winds(), winds);
+            assert_eq!(track.clone().into_winds(), winds);
+            for (k, b) in winds.iter().enumerate() {
+                let a = track.get(k).expect("a wind");
+                assert_eq!(a.u_m_s.to_bits(), b.u_m_s.to_bits());
+                assert_eq!(a.v_m_s.to_bits(), b.v_m_s.to_bits());
+            }
+            assert_eq!(track.get(2), None);
+            for step in [TimeStep::At(1), TimeStep::Between(1, 0.3)] {
+                assert_eq!(step.wind_on(&track), step.wind(&winds));
+            }
+        }
+    }
 }
