@@ -481,13 +481,6 @@ impl<'a> Steps<'a> {
             .find(|(times, _)| Arc::ptr_eq(times, &g.times))
             .map_or(&[], |(_, steps)| steps.as_slice())
     }
-
-    /// The index of `t` on the timeline, if it is one of its hours.
-    fn hour(&self, t: DateTime<Utc>) -> Option<usize> {
-        let first = *self.timeline.first()?;
-        let h = usize::try_from((t - first).num_hours()).ok()?;
-        (self.timeline.get(h) == Some(&t)).then_some(h)
-    }
 }
 
 /// The wind of one point's track at a step (`None` where the hour has no step).
@@ -1072,7 +1065,9 @@ impl SampledConditions {
             midpoint: Vec::new(),
         };
         let mut at = Vec::with_capacity(g.points.len());
-        for (&t, &step) in self.timeline.iter().zip(steps.of(g)) {
+        // The timeline's hour of each time kept.
+        let mut hour_of = Vec::with_capacity(self.timeline.len());
+        for (h, (&t, &step)) in self.timeline.iter().zip(steps.of(g)).enumerate() {
             at.clear();
             let complete = g
                 .points
@@ -1087,6 +1082,7 @@ impl SampledConditions {
                 .and_then(|e| wind_on(step, e))
                 .unwrap_or_else(|| length_weighted_at(&part.pieces(), &at));
             wind.times.push(t);
+            hour_of.push(h);
             for (p, &w) in wind.pieces.iter_mut().zip(&at) {
                 p.push(w);
             }
@@ -1105,13 +1101,14 @@ impl SampledConditions {
             .iter()
             .zip(&series.wind)
             .zip(&series.index_m3s_per_100m)
-            .map(|((&time, &wind), &index)| StretchHour {
+            .zip(&hour_of)
+            .map(|(((&time, &wind), &index), &h)| StretchHour {
                 time,
                 wind,
                 index_m3s_per_100m: index,
                 pumping: probes
                     .as_ref()
-                    .and_then(|p| p.pumping_at(steps.hour(time)?, idx))
+                    .and_then(|p| p.pumping_at(h, idx))
                     .unwrap_or(f64::NAN),
             })
             .collect();
@@ -1220,8 +1217,6 @@ mod tests {
             Some(Wind::new(1.0 / 3.0, -2.0 / 3.0))
         );
         assert_eq!(wind_on(on[12], &track), None);
-        assert_eq!(steps.hour(t0 + Duration::hours(5)), Some(7));
-        assert_eq!(steps.hour(t0 + Duration::minutes(90)), None);
     }
 
     /// The maxima carried on along ways that share their first points are those of
