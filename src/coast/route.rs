@@ -821,8 +821,14 @@ impl<'r, 'a> Search<'r, 'a> {
                 }
             }
         };
+        Reach::Way(assemble(self.from, &self.way_through(last, end), target))
+    }
+
+    /// The navigable part of the way that reaches `end` from node `k`: the nodes from
+    /// the port's navigable point to `k`, then `end`.
+    fn way_through(&self, k: usize, end: LatLon) -> Vec<LatLon> {
         let mut way = vec![end];
-        let mut k = last;
+        let mut k = k;
         loop {
             way.push(self.nodes[k].at);
             if k == 0 {
@@ -831,7 +837,7 @@ impl<'r, 'a> Search<'r, 'a> {
             k = self.prev[k];
         }
         way.reverse();
-        Reach::Way(assemble(self.from, &way, target))
+        way
     }
 }
 
@@ -1266,16 +1272,7 @@ mod tests {
             }
             match (found, best) {
                 (Reach::Way(route), Some((length_m, k))) => {
-                    let mut way = vec![end];
-                    let mut n = k;
-                    loop {
-                        way.push(search.nodes[n].at);
-                        if n == 0 {
-                            break;
-                        }
-                        n = search.prev[n];
-                    }
-                    way.reverse();
+                    let way = search.way_through(k, end);
                     assert_eq!(route, assemble(from, &way, t), "{t:?}");
                     assert!((route.length_m - length_m).abs() < 1e-6, "{t:?}");
                     ways += 1;

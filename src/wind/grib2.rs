@@ -98,6 +98,11 @@ impl FieldHeader {
     }
 
     /// "discipline/category/number at surface type", for messages listing what a file holds.
+    /// The field's grid definition section (section 3) in its message.
+    pub(super) fn section3<'m>(&self, msg: &'m [u8]) -> &'m [u8] {
+        &msg[self.grid.0..self.grid.0 + self.grid.1]
+    }
+
     pub(super) fn describe(&self) -> String {
         format!(
             "{}/{}/{} at surface {}",
@@ -710,7 +715,7 @@ impl Gathered {
         self.latest_reference = Some(self.latest_reference.map_or(ref_time, |t| t.max(ref_time)));
         headers.retain(|h| h.wind_component().is_some());
         for h in &headers {
-            let section3 = &message.bytes[h.grid.0..h.grid.0 + h.grid.1];
+            let section3 = h.section3(&message.bytes);
             if !self.grids.contains_key(section3) {
                 let rules = GridRules::new(section3, points).map_err(fail)?;
                 self.grids.insert(section3.to_vec(), rules);
@@ -727,10 +732,7 @@ impl Gathered {
     fn decoded_bytes(&self, p: &Prepared) -> usize {
         p.headers
             .iter()
-            .filter_map(|h| {
-                self.grids
-                    .get(&p.message.bytes[h.grid.0..h.grid.0 + h.grid.1])
-            })
+            .filter_map(|h| self.grids.get(h.section3(&p.message.bytes)))
             .map(|g| g.count * std::mem::size_of::<f32>())
             .sum()
     }
@@ -741,46 +743,39 @@ impl Gathered {
     fn add_batch(&mut self, batch: Vec<Prepared>) -> Result<(), WindFileError> {
         use rayon::prelude::*;
         let grids = &self.grids;
-        let decoded: Vec<DecodedMessage> = batch
+        let mut decoded: Vec<DecodedMessage> = batch
             .into_par_iter()
             .map(|p| {
                 let fields = decode_message(&p.message.bytes, &p.headers, grids);
                 (p.message.number, p.ref_time, fields)
             })
             .collect();
-        // Every field of the batch that decoded, sampled at once per grid: each point's
-        // rule is read once for all of them.
-        let decoded_fields: Vec<&DecodedField> = decoded
-            .iter()
-            .filter_map(|d| d.2.as_ref().ok())
+        // Every field of the batch that decoded, sampled at once per grid (each point's
+        // rule is read once for all of them): its values on the grid give way to its
+        // values at the points.
+        let mut fields: Vec<&mut DecodedField> = decoded
+            .iter_mut()
+            .filter_map(|d| d.2.as_mut().ok())
             .flatten()
             .collect();
-        let mut on_grid: HashMap<&[u8], Vec<usize>> = HashMap::new();
-        for (k, f) in decoded_fields.iter().enumerate() {
-            on_grid.entry(f.grid.as_slice()).or_default().push(k);
+        let mut on_grid: HashMap<Vec<u8>, Vec<usize>> = HashMap::new();
+        for (k, f) in fields.iter().enumerate() {
+            on_grid.entry(f.grid.clone()).or_default().push(k);
         }
-        let mut sampled: Vec<Vec<f32>> = vec![Vec::new(); decoded_fields.len()];
         for (grid, ks) in on_grid {
-            let values: Vec<&[f32]> = ks
-                .iter()
-                .map(|&k| decoded_fields[k].values.as_slice())
-                .collect();
-            for (k, values) in ks
-                .into_iter()
-                .zip(sample_fields(&grids[grid].rules, &values))
-            {
-                sampled[k] = values;
+            let values: Vec<&[f32]> = ks.iter().map(|&k| fields[k].values.as_slice()).collect();
+            let sampled = sample_fields(&grids[&grid].rules, &values);
+            for (k, values) in ks.into_iter().zip(sampled) {
+                fields[k].values = values;
             }
         }
-        let mut sampled = sampled.into_iter();
         for (message, ref_time, fields) in decoded {
             let fail = |problem: String| message_error(message, problem);
             for field in fields.map_err(fail)? {
                 let t = valid_time(ref_time, &field.header).map_err(fail)?;
-                let values = sampled.next().unwrap_or_default();
                 let north_angles = self
                     .grids
-                    .get(field.grid.as_slice())
+                    .get(&field.grid)
                     .and_then(|g| g.north_angles.clone());
                 self.store(
                     message,
@@ -788,7 +783,7 @@ impl Gathered {
                     SampledField {
                         header: field.header,
                         component: field.component,
-                        values,
+                        values: field.values,
                         north_angles,
                     },
                 )?;
@@ -1176,7 +1171,8 @@ struct SampledField {
     north_angles: Option<Arc<Vec<f64>>>,
 }
 
-/// One decoded wind field: its values on its grid (section 3 as given).
+/// One decoded wind field: its values on its grid (section 3 as given), then, once
+/// sampled, at the points.
 struct DecodedField {
     header: FieldHeader,
     component: Component,
@@ -1195,7 +1191,7 @@ fn decode_message(
         let Some(component) = h.wind_component() else {
             continue;
         };
-        let section3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
+        let section3 = h.section3(msg);
         let Some(grid) = grids.get(section3) else {
             continue;
         };

@@ -354,7 +354,7 @@ impl Inventory {
             }
             let t = valid_time(ref_time, h).ok();
             self.all_times.extend(t);
-            let s3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
+            let s3 = h.section3(msg);
             let wind = h.is_wind_u().is_some();
             if wind {
                 self.wind_times.extend(t);
@@ -564,7 +564,7 @@ pub fn grib2_wind_grids(reader: impl Read) -> Result<Vec<GribGrid>, WindFileErro
     while let Some(m) = messages.next_message()? {
         let (_, headers) = scan_message(&m.bytes).map_err(|p| message_error(m.number, p))?;
         for h in headers.iter().filter(|h| h.is_wind_u().is_some()) {
-            let s3 = &m.bytes[h.grid.0..h.grid.0 + h.grid.1];
+            let s3 = h.section3(&m.bytes);
             if !grids.iter().any(|(k, _)| k == s3) {
                 let grid = super::grib2::read_grid(s3, "10 m wind")
                     .map_err(|p| message_error(m.number, p))?;

@@ -70,7 +70,7 @@ pub fn sample_sst_grib2(
             let Some(k) = kind(h) else { continue };
             let values = decode_field(&m.bytes, h)
                 .map_err(|e| fail(format!("sea temperature cannot be decoded: {e}")))?;
-            let grid = m.bytes[h.grid.0..h.grid.0 + h.grid.1].to_vec();
+            let grid = h.section3(&m.bytes).to_vec();
             if k == Kind::Mask {
                 mask = Some((values, grid));
                 continue;

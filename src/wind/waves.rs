@@ -200,7 +200,7 @@ impl Gathered {
         kind: WaveKind,
         points: &[LatLon],
     ) -> Result<Vec<f32>, String> {
-        let section3 = &msg[h.grid.0..h.grid.0 + h.grid.1];
+        let section3 = h.section3(msg);
         if !self.grids.contains_key(section3) {
             let grid = read_grid(section3, kind.name())?;
             let rules = points.iter().map(|&p| PointRule::new(&grid, p)).collect();
