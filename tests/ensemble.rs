@@ -42,7 +42,7 @@ fn three_members_are_read_apart_with_eccodes_values() {
         assert_eq!(id.is_control(), k == 0, "member {k}: type {}", id.kind);
         assert_eq!(id.ensemble_size, Some(3));
         assert_eq!(m.samples.times.len(), 2);
-        let series = m.samples.points[0].as_ref().expect("covered");
+        let series = m.samples.points[0].as_ref().expect("covered").to_winds();
         for (step, wind) in series.iter().enumerate() {
             let u = reference[step * 6 + k * 2];
             let v = reference[step * 6 + k * 2 + 1];

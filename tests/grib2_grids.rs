@@ -212,7 +212,7 @@ fn winds_between_points_match_the_reference_tools() {
         let got = sample_grib2(std::io::BufReader::new(file), &points).expect("readable");
         assert_eq!(got.times.len(), 2, "{name}");
         for (k, reference) in reference_block.points.iter().enumerate() {
-            let series = got.points[k].as_ref().expect("covered");
+            let series = got.points[k].as_ref().expect("covered").to_winds();
             for (t, valid) in got.times.iter().enumerate() {
                 let (u, v) = independent_wind(
                     &dump,
@@ -277,7 +277,7 @@ fn gaussian_grid_rows_and_values_match_eccodes() {
             .position(|t| *t == field.valid)
             .expect("time");
         for (k, p) in field.points.iter().enumerate() {
-            let w = got.points[k].as_ref().expect("covered")[t];
+            let w = got.points[k].as_ref().expect("covered").to_winds()[t];
             let ours = if field.short_name() == "10u" {
                 w.u_m_s
             } else {
@@ -314,13 +314,16 @@ fn bit_mapped_wind_uses_valid_neighbours_or_reports_missing() {
         .iter()
         .find(|f| f.short_name() == "10u" && f.valid == t0)
         .expect("u");
-    let clean = got.points[0].as_ref().expect("no masked corner")[0];
+    let clean = got.points[0].as_ref().expect("no masked corner").to_winds()[0];
     let (u, _) = independent_wind(&dump, grid.ni, probes[0], false, t0);
     assert!((clean.u_m_s - u).abs() < 2e-4);
     // One masked corner, (i, j) = (8, 6) of the cell at (7.5, 5.5): the three valued
     // corners are equally near (0.71 cells), so the value is their mean, from the values
     // ecCodes decoded.
-    let one = got.points[1].as_ref().expect("valued neighbours")[0];
+    let one = got.points[1]
+        .as_ref()
+        .expect("valued neighbours")
+        .to_winds()[0];
     let node = |i: usize, j: usize| u0.points[j * grid.ni + i].2;
     assert!(node(8, 6).is_none(), "the masked corner");
     let mean = [(7, 5), (8, 5), (7, 6)]
@@ -533,7 +536,7 @@ fn a_real_lambert_forecast_gives_earth_relative_winds() {
     assert_eq!(got.times.len(), 1);
     let mut turned = 0;
     for (row, series) in rows.iter().zip(&got.points) {
-        let w = series.as_ref().expect("a grid point is covered")[0];
+        let w = series.as_ref().expect("a grid point is covered").to_winds()[0];
         assert!(
             (w.u_m_s - row[5]).abs() < 1e-3 && (w.v_m_s - row[6]).abs() < 1e-3,
             "at {},{}: ours ({}, {}), reference ({}, {})",

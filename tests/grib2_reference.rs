@@ -45,7 +45,10 @@ fn check_against_dump(name: &str, expected_times: usize) {
             .position(|t| *t == field.valid)
             .expect("valid time decoded");
         for (k, p) in field.points.iter().enumerate() {
-            let series = got.points[k].as_ref().expect("grid node is covered");
+            let series = got.points[k]
+                .as_ref()
+                .expect("grid node is covered")
+                .to_winds();
             let w = series[t];
             let value = if field.short_name() == "10u" {
                 w.u_m_s
@@ -126,7 +129,7 @@ fn undecodable_messages_of_other_parameters_are_skipped() {
 #[test]
 fn bilinear_between_nodes_follows_the_analytic_field() {
     let got = sample("simple_hours.grib2", &[LatLon::new(36.3, -121.7)]).expect("readable");
-    let w = got.points[0].as_ref().expect("covered")[1];
+    let w = got.points[0].as_ref().expect("covered").to_winds()[1];
     let (lat, lon_e, h) = (36.3, 360.0 - 121.7, 6.0);
     let u = 5.0 + 0.5 * (lat - 35.0) + 0.2 * (lon_e - 235.0) + 0.1 * h;
     let v = -8.0 + 0.3 * (lon_e - 235.0) - 0.1 * h;

@@ -181,7 +181,7 @@ fn one_file_with_wind_and_waves_serves_both_readers() {
         .iter()
         .find(|f| f.meta["shortName"] == "10u")
         .expect("10u");
-    let got = wind.points[0].as_ref().expect("covered")[0].u_m_s;
+    let got = wind.points[0].as_ref().expect("covered").to_winds()[0].u_m_s;
     assert!((got - u.at(33.0, 238.0).expect("value")).abs() < 1e-4);
 }
 

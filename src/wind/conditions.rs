@@ -155,7 +155,7 @@ impl SourceIdentity {
 struct SourceSamples {
     times: Vec<DateTime<Utc>>,
     /// Per point; for a point series every point shares the series.
-    points: Vec<Option<Arc<Vec<Wind>>>>,
+    points: Vec<Option<Arc<WindTrack>>>,
     latest_reference: Option<DateTime<Utc>>,
 }
 
@@ -332,7 +332,7 @@ fn read_pick(
         }),
         WindSource::Series { series, .. } => Ok(SourceSamples {
             times: series.series.times.clone(),
-            points: vec![Some(Arc::new(series.series.wind.clone())); points.len()],
+            points: vec![Some(Arc::new(WindTrack::new(series.series.wind.clone()))); points.len()],
             latest_reference: None,
         }),
         WindSource::Netcdf { path } => {
@@ -354,7 +354,11 @@ fn read_pick(
                     .points
                     .into_iter()
                     .map(|p| {
-                        p.map(|uv| Arc::new(uv.into_iter().map(|(u, v)| Wind::new(u, v)).collect()))
+                        p.map(|uv| {
+                            Arc::new(WindTrack::new(
+                                uv.into_iter().map(|(u, v)| Wind::new(u, v)).collect(),
+                            ))
+                        })
                     })
                     .collect(),
                 latest_reference: None,
@@ -512,14 +516,14 @@ fn flatten(groups: &[&PointGroup]) -> Vec<LatLon> {
 }
 
 /// A covered group's wind: at each of its points, and at its extra point.
-type CoveredWind = (Vec<Arc<Vec<Wind>>>, Option<Arc<Vec<Wind>>>);
+type CoveredWind = (Vec<Arc<WindTrack>>, Option<Arc<WindTrack>>);
 
 /// A source's samples, one per point.
-type Sample = Option<Arc<Vec<Wind>>>;
+type Sample = Option<Arc<WindTrack>>;
 
 /// A sample kept as a group's track (taken over where no other group shares it).
-fn track(sample: Arc<Vec<Wind>>) -> WindTrack {
-    WindTrack::new(Arc::unwrap_or_clone(sample))
+fn track(sample: Arc<WindTrack>) -> WindTrack {
+    Arc::unwrap_or_clone(sample)
 }
 
 /// The one coverage rule: the wind source `k` gives group `g`, whose points' samples
@@ -546,7 +550,7 @@ fn cover(
     if !allowed {
         return None;
     }
-    let at_points: Option<Vec<Arc<Vec<Wind>>>> = at_points.into_iter().collect();
+    let at_points: Option<Vec<Arc<WindTrack>>> = at_points.into_iter().collect();
     at_points.map(|p| (p, extra))
 }
 
@@ -754,19 +758,18 @@ impl<'a> LongRecord<'a> {
         let axis = self.axis(covering.iter().map(|c| c.0).collect());
         let points = (0..group.points.len())
             .map(|p| {
-                WindTrack::new(
-                    axis.from
-                        .iter()
-                        .map(|&(s, i)| covering[s].1.0[p][i])
-                        .collect(),
-                )
+                axis.from
+                    .iter()
+                    .map(|&(s, i)| covering[s].1.0[p].get(i))
+                    .collect::<Option<Vec<Wind>>>()
+                    .map(WindTrack::new)
             })
-            .collect();
+            .collect::<Option<Vec<WindTrack>>>()?;
         // The extra point keeps a value only where every time has one.
         let extra = group.extra.and_then(|_| {
             axis.from
                 .iter()
-                .map(|&(s, i)| covering[s].1.1.as_ref().map(|e| e[i]))
+                .map(|&(s, i)| covering[s].1.1.as_ref().and_then(|e| e.get(i)))
                 .collect::<Option<Vec<Wind>>>()
                 .map(WindTrack::new)
         });

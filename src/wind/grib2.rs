@@ -10,9 +10,9 @@
 //! `grib` crate and sampled at once at the requested points (bilinear in longitude and
 //! latitude).
 
-use super::WindFileError;
 use super::grib2_grid::{GribGrid, GridError, PointRule, TEMPLATES_READ, grid_template_name};
 use super::projection::grid_to_earth;
+use super::{WindFileError, WindTrack};
 use crate::coast::LatLon;
 use crate::physics::Wind;
 use crate::progress::Progress;
@@ -28,7 +28,7 @@ pub struct Grib2Samples {
     pub times: Vec<DateTime<Utc>>,
     /// For each requested point, the wind at every time, or `None` when the grid does
     /// not cover the point (outside the grid, or a missing value at some time).
-    pub points: Vec<Option<Vec<Wind>>>,
+    pub points: Vec<Option<WindTrack>>,
     /// The latest reference (issue) time of the wind messages: when the newest forecast
     /// in the file was made. Earlier steps of the file are the recent past.
     pub latest_reference: Option<DateTime<Utc>>,
@@ -872,7 +872,7 @@ impl Gathered {
                     samples: Grib2Samples {
                         times: Vec::new(),
                         points: (0..point_count)
-                            .map(|_| Some(Vec::with_capacity(times_of[&member])))
+                            .map(|_| Some(WindTrack::with_capacity(times_of[&member])))
                             .collect(),
                         latest_reference: self.latest_reference,
                     },
@@ -968,7 +968,7 @@ const WIND_BLOCK: usize = 32;
 /// axes to east and north; a point missing at any time ends up with no series (see
 /// [`Grib2Samples::points`]). Points in parallel, each taking its times in order; the
 /// block is left empty, its fields dropped.
-fn push_winds(per_point: &mut [Option<Vec<Wind>>], block: &mut Vec<(Field, Field)>) {
+fn push_winds(per_point: &mut [Option<WindTrack>], block: &mut Vec<(Field, Field)>) {
     use rayon::prelude::*;
     if block.is_empty() {
         return;

@@ -776,15 +776,19 @@ impl PointRule {
             return f32::NAN;
         };
         let value = |k: usize| values.get(k).copied().unwrap_or(f32::NAN);
-        if weights
-            .iter()
-            .all(|&(k, w)| w == 0.0 || value(k).is_finite())
-        {
-            return weights
-                .iter()
-                .filter(|&&(_, w)| w != 0.0)
-                .map(|&(k, w)| f64::from(value(k)) * w)
-                .sum::<f64>() as f32;
+        // The weighted corners summed in order in one pass (from −0, as a float `sum`
+        // starts), until a corner with weight lacks a value.
+        let mut sum = -0.0;
+        let whole = weights.iter().all(|&(k, w)| {
+            if w == 0.0 {
+                return true;
+            }
+            let v = value(k);
+            sum += f64::from(v) * w;
+            v.is_finite()
+        });
+        if whole {
+            return sum as f32;
         }
         let mut valued = self
             .nearby

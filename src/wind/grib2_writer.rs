@@ -250,7 +250,7 @@ mod tests {
         let got = sample_grib2(std::io::Cursor::new(file), &[LatLon::new(38.75, -125.25)])
             .expect("readable");
         assert_eq!(got.times[0].to_rfc3339(), "2027-05-10T03:00:00+00:00");
-        let w = got.points[0].as_ref().expect("inside")[0];
+        let w = got.points[0].as_ref().expect("inside").to_winds()[0];
         assert!((w.u_m_s - (1.5 + 4.75)).abs() < 0.006, "{w:?}");
         assert!((w.v_m_s + 10.75).abs() < 0.006, "{w:?}");
     }

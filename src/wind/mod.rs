@@ -157,8 +157,7 @@ impl WindTrack {
     /// The track of these winds, in single precision when that keeps every one exactly.
     #[must_use]
     pub fn new(wind: Vec<Wind>) -> Self {
-        let single = |x: f64| f64::from(x as f32).to_bits() == x.to_bits();
-        if wind.iter().all(|w| single(w.u_m_s) && single(w.v_m_s)) {
+        if wind.iter().all(is_single) {
             Self::Single(
                 wind.iter()
                     .map(|w| [w.u_m_s as f32, w.v_m_s as f32])
@@ -166,6 +165,33 @@ impl WindTrack {
             )
         } else {
             Self::Double(wind)
+        }
+    }
+
+    /// An empty track with room for `times` winds, kept in single precision until a
+    /// wind that is not comes.
+    #[must_use]
+    pub fn with_capacity(times: usize) -> Self {
+        Self::Single(Vec::with_capacity(times))
+    }
+
+    /// Adds the wind at the next time. A wind that single precision would change turns
+    /// a single-precision track into one kept as given.
+    pub fn push(&mut self, wind: Wind) {
+        match self {
+            Self::Single(w) if is_single(&wind) => {
+                w.push([wind.u_m_s as f32, wind.v_m_s as f32]);
+            }
+            Self::Single(w) => {
+                let mut given = Vec::with_capacity(w.capacity());
+                given.extend(
+                    w.iter()
+                        .map(|&[u, v]| Wind::new(f64::from(u), f64::from(v))),
+                );
+                given.push(wind);
+                *self = Self::Double(given);
+            }
+            Self::Double(w) => w.push(wind),
         }
     }
 
@@ -209,6 +235,12 @@ impl WindTrack {
             single @ Self::Single(_) => single.to_winds(),
         }
     }
+}
+
+/// Whether both components of a wind are single-precision numbers.
+fn is_single(w: &Wind) -> bool {
+    let single = |x: f64| f64::from(x as f32).to_bits() == x.to_bits();
+    single(w.u_m_s) && single(w.v_m_s)
 }
 
 /// A point series read from a CSV file.
@@ -322,6 +354,12 @@ mod tests {
             for step in [TimeStep::At(1), TimeStep::Between(1, 0.3)] {
                 assert_eq!(step.wind_on(&track), step.wind(&winds));
             }
+            // Built wind by wind (as the GRIB2 reader lays them), the same track.
+            let mut pushed = WindTrack::with_capacity(2);
+            for w in &winds {
+                pushed.push(*w);
+            }
+            assert_eq!(pushed, track);
         }
     }
 }
