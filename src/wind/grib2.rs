@@ -408,13 +408,27 @@ impl<R: Read> Messages<R> {
     }
 }
 
-struct Field {
+/// Where one 10 m wind field was found, and the angles that turn its grid's axes to
+/// east and north (`None` when the field is already along east and north).
+struct FieldMeta {
     message: usize,
-    /// One value per requested point (NaN where it has none).
-    values: Vec<f32>,
-    /// Per point, the angle that turns the grid's axes to east and north; `None` when
-    /// the field is already along east and north.
     north_angles: Option<Arc<Vec<f64>>>,
+}
+
+/// One valid time of one member: its column among the member's values at the points,
+/// and where its u and v fields were found.
+struct TimeEntry {
+    column: usize,
+    fields: [Option<FieldMeta>; 2],
+}
+
+/// One member's (u, v) at each point, a column per valid time in the order the times
+/// came in the file (NaN where a field has no value at the point): filled batch by
+/// batch as the fields are sampled, so no field is kept once sampled.
+#[derive(Default)]
+struct Columns {
+    count: usize,
+    points: Vec<Vec<[f32; 2]>>,
 }
 
 impl Component {
@@ -434,8 +448,10 @@ type MemberKey = Option<(u8, u8)>;
 /// The 10 m wind fields found so far while walking a file, and what else it holds.
 #[derive(Default)]
 struct Gathered {
-    /// Per valid time, the u and v fields.
-    fields: BTreeMap<(MemberKey, DateTime<Utc>), [Option<Field>; 2]>,
+    /// Per member and valid time, where its u and v fields were found.
+    fields: BTreeMap<(MemberKey, DateTime<Utc>), TimeEntry>,
+    /// Per member, the fields' values at the points so far.
+    columns: HashMap<MemberKey, Columns>,
     /// The ensemble size each member's fields declare.
     ensemble_size: BTreeMap<MemberKey, u8>,
     /// How each point is sampled, per distinct grid definition, so a grid is set up once.
@@ -737,68 +753,55 @@ impl Gathered {
             .sum()
     }
 
-    /// Decodes the prepared messages, several at once on as many cores, samples their
-    /// fields at the points, then files them in file order; the first error in file
-    /// order is the one reported.
-    fn add_batch(&mut self, batch: Vec<Prepared>) -> Result<(), WindFileError> {
+    /// Decodes the prepared messages, several at once on as many cores, files their
+    /// fields in file order (the first error in file order is the one reported), then
+    /// samples them at the `point_count` points into their members' columns.
+    fn add_batch(&mut self, batch: Vec<Prepared>, point_count: usize) -> Result<(), WindFileError> {
         use rayon::prelude::*;
         let grids = &self.grids;
-        let mut decoded: Vec<DecodedMessage> = batch
+        let decoded: Vec<DecodedMessage> = batch
             .into_par_iter()
             .map(|p| {
                 let fields = decode_message(&p.message.bytes, &p.headers, grids);
                 (p.message.number, p.ref_time, fields)
             })
             .collect();
-        // Every field of the batch that decoded, sampled at once per grid (each point's
-        // rule is read once for all of them): its values on the grid give way to its
-        // values at the points.
-        let mut fields: Vec<&mut DecodedField> = decoded
-            .iter_mut()
-            .filter_map(|d| d.2.as_mut().ok())
-            .flatten()
-            .collect();
-        let mut on_grid: HashMap<Vec<u8>, Vec<usize>> = HashMap::new();
-        for (k, f) in fields.iter().enumerate() {
-            on_grid.entry(f.grid.clone()).or_default().push(k);
-        }
-        for (grid, ks) in on_grid {
-            let values: Vec<&[f32]> = ks.iter().map(|&k| fields[k].values.as_slice()).collect();
-            let sampled = sample_fields(&grids[&grid].rules, &values);
-            for (k, values) in ks.into_iter().zip(sampled) {
-                fields[k].values = values;
-            }
-        }
+        let mut filed: Vec<(DecodedField, MemberKey, usize)> = Vec::new();
         for (message, ref_time, fields) in decoded {
             let fail = |problem: String| message_error(message, problem);
             for field in fields.map_err(fail)? {
                 let t = valid_time(ref_time, &field.header).map_err(fail)?;
-                let north_angles = self
-                    .grids
-                    .get(&field.grid)
-                    .and_then(|g| g.north_angles.clone());
-                self.store(
-                    message,
-                    t,
-                    SampledField {
-                        header: field.header,
-                        component: field.component,
-                        values: field.values,
-                        north_angles,
-                    },
-                )?;
+                let (member, column) = self.file(message, t, &field)?;
+                filed.push((field, member, column));
+            }
+        }
+        let mut of_member: BTreeMap<MemberKey, Vec<ToSample<'_>>> = BTreeMap::new();
+        for (field, member, column) in &filed {
+            if let Some(grid) = self.grids.get(&field.grid) {
+                of_member.entry(*member).or_default().push(ToSample {
+                    rules: &grid.rules,
+                    values: &field.values,
+                    column: *column,
+                    component: field.component as usize,
+                });
+            }
+        }
+        for (member, fields) in of_member {
+            if let Some(columns) = self.columns.get_mut(&member) {
+                sample_into(columns, &fields, point_count);
             }
         }
         Ok(())
     }
 
-    /// Files one field under its valid time, refusing a second one of the same kind.
-    fn store(
+    /// Files one field under its member and valid time, refusing a second one of the
+    /// same kind; gives its member and its column.
+    fn file(
         &mut self,
         message: usize,
         t: DateTime<Utc>,
-        field: SampledField,
-    ) -> Result<(), WindFileError> {
+        field: &DecodedField,
+    ) -> Result<(MemberKey, usize), WindFileError> {
         let component = field.component;
         let member = field
             .header
@@ -807,7 +810,15 @@ impl Gathered {
         if let Some((_, _, size)) = field.header.ensemble {
             self.ensemble_size.insert(member, size);
         }
-        let slot = &mut self.fields.entry((member, t)).or_default()[component as usize];
+        let columns = self.columns.entry(member).or_default();
+        let entry = self.fields.entry((member, t)).or_insert_with(|| {
+            columns.count += 1;
+            TimeEntry {
+                column: columns.count - 1,
+                fields: [None, None],
+            }
+        });
+        let slot = &mut entry.fields[component as usize];
         if let Some(first) = slot {
             return Err(message_error(
                 message,
@@ -820,32 +831,27 @@ impl Gathered {
                 ),
             ));
         }
-        *slot = Some(Field {
+        *slot = Some(FieldMeta {
             message,
-            values: field.values,
-            north_angles: field.north_angles,
+            north_angles: self
+                .grids
+                .get(&field.grid)
+                .and_then(|g| g.north_angles.clone()),
         });
-        Ok(())
+        Ok((member, entry.column))
     }
 
-    /// Pairs u with v at every valid time into wind series at each of `point_count`
-    /// points, one set per ensemble member (one set for a deterministic forecast).
-    fn into_members(self, point_count: usize) -> Result<Vec<MemberSamples>, WindFileError> {
+    /// Pairs u with v at every valid time into wind series at each point, one set per
+    /// ensemble member (one set for a deterministic forecast).
+    fn into_members(mut self) -> Result<Vec<MemberSamples>, WindFileError> {
         if self.fields.is_empty() {
             return Err(no_wind_error(self.other_params));
         }
-        // Each point's series is made as long as its member has times, so the series
-        // are not grown by doubling (which left up to half of a long forecast unused).
-        let mut times_of: BTreeMap<MemberKey, usize> = BTreeMap::new();
-        for (member, _) in self.fields.keys() {
-            *times_of.entry(*member).or_default() += 1;
-        }
+        // Per member, in order: its times, and each time's column and grid angles.
         let mut members: Vec<MemberSamples> = Vec::new();
-        // A few times at once are laid on every point (in parallel, point after
-        // point), then their fields dropped.
-        let mut block: Vec<(Field, Field)> = Vec::with_capacity(WIND_BLOCK);
-        for ((member, t), pair) in self.fields {
-            let Some((u, v)) = matched_pair(t, pair)? else {
+        let mut current: Option<(MemberKey, Vec<DateTime<Utc>>, Vec<Column>)> = None;
+        for ((member, t), entry) in std::mem::take(&mut self.fields) {
+            let Some((u, v)) = matched_pair(t, entry.fields)? else {
                 continue;
             };
             if u.north_angles != v.north_angles {
@@ -858,41 +864,78 @@ impl Gathered {
                     ),
                 ));
             }
-            let id = member.map(|(kind, number)| EnsembleMember {
+            if current.as_ref().is_none_or(|c| c.0 != member) {
+                members.extend(current.take().map(|c| self.lay_out(c)));
+                current = Some((member, Vec::new(), Vec::new()));
+            }
+            if let Some((_, times, order)) = current.as_mut() {
+                times.push(t);
+                order.push((entry.column, u.north_angles));
+            }
+        }
+        members.extend(current.take().map(|c| self.lay_out(c)));
+        Ok(members)
+    }
+
+    /// One member's wind at each point: its columns taken in time order, winds given
+    /// along a grid's axes turned to east and north. A point missing at any time has no
+    /// series (see [`Grib2Samples::points`]). Points in parallel; columns already in
+    /// time order along east and north are kept as they are.
+    fn lay_out(
+        &mut self,
+        (member, times, order): (MemberKey, Vec<DateTime<Utc>>, Vec<Column>),
+    ) -> MemberSamples {
+        use rayon::prelude::*;
+        let columns = self.columns.remove(&member).unwrap_or_default();
+        let as_read = order
+            .iter()
+            .enumerate()
+            .all(|(k, (c, a))| *c == k && a.is_none())
+            && order.len() == columns.count;
+        let points = columns
+            .points
+            .into_par_iter()
+            .enumerate()
+            .with_min_len(1024)
+            .map(|(k, mut series)| {
+                let valued = |[u, v]: [f32; 2]| u.is_finite() && v.is_finite();
+                if as_read {
+                    if !series.iter().all(|&w| valued(w)) {
+                        return None;
+                    }
+                    series.shrink_to_fit();
+                    return Some(WindTrack::Single(series));
+                }
+                let mut track = WindTrack::with_capacity(order.len());
+                for (column, angles) in &order {
+                    let w = series.get(*column).copied().filter(|&w| valued(w))?;
+                    let (uu, vv) = (f64::from(w[0]), f64::from(w[1]));
+                    let (east, north) = match angles {
+                        Some(angles) => grid_to_earth(uu, vv, angles[k]),
+                        None => (uu, vv),
+                    };
+                    track.push(Wind::new(east, north));
+                }
+                Some(track)
+            })
+            .collect();
+        MemberSamples {
+            member: member.map(|(kind, number)| EnsembleMember {
                 kind,
                 number,
                 ensemble_size: self.ensemble_size.get(&Some((kind, number))).copied(),
-            });
-            if members.last().is_none_or(|m| m.member != id) {
-                if let Some(last) = members.last_mut() {
-                    push_winds(&mut last.samples.points, &mut block);
-                }
-                members.push(MemberSamples {
-                    member: id,
-                    samples: Grib2Samples {
-                        times: Vec::new(),
-                        points: (0..point_count)
-                            .map(|_| Some(WindTrack::with_capacity(times_of[&member])))
-                            .collect(),
-                        latest_reference: self.latest_reference,
-                    },
-                });
-            }
-            let Some(last) = members.last_mut() else {
-                continue;
-            };
-            last.samples.times.push(t);
-            block.push((u, v));
-            if block.len() == WIND_BLOCK {
-                push_winds(&mut last.samples.points, &mut block);
-            }
+            }),
+            samples: Grib2Samples {
+                times,
+                points,
+                latest_reference: self.latest_reference,
+            },
         }
-        if let Some(last) = members.last_mut() {
-            push_winds(&mut last.samples.points, &mut block);
-        }
-        Ok(members)
     }
 }
+
+/// A valid time's column and the angles that turn its grid's axes to east and north.
+type Column = (usize, Option<Arc<Vec<f64>>>);
 
 /// The member of an ensemble forecast a set of fields belongs to (GRIB2 product
 /// templates 4.1 and 4.11).
@@ -942,9 +985,9 @@ fn no_wind_error(mut other_params: Vec<String>) -> WindFileError {
 /// The u and v fields valid at `t`, refusing one without the other; `None` when neither.
 fn matched_pair(
     t: DateTime<Utc>,
-    [u, v]: [Option<Field>; 2],
-) -> Result<Option<(Field, Field)>, WindFileError> {
-    let lone = |f: &Field, has: &str, lacks: &str| {
+    [u, v]: [Option<FieldMeta>; 2],
+) -> Result<Option<(FieldMeta, FieldMeta)>, WindFileError> {
+    let lone = |f: &FieldMeta, has: &str, lacks: &str| {
         message_error(
             f.message,
             format!(
@@ -959,45 +1002,6 @@ fn matched_pair(
         (None, Some(v)) => Err(lone(&v, "v", "u")),
         (None, None) => Ok(None),
     }
-}
-
-/// How many times are laid on the points' series at once.
-const WIND_BLOCK: usize = 32;
-
-/// Appends a few time steps to each point's series, turning winds given along a grid's
-/// axes to east and north; a point missing at any time ends up with no series (see
-/// [`Grib2Samples::points`]). Points in parallel, each taking its times in order; the
-/// block is left empty, its fields dropped.
-fn push_winds(per_point: &mut [Option<WindTrack>], block: &mut Vec<(Field, Field)>) {
-    use rayon::prelude::*;
-    if block.is_empty() {
-        return;
-    }
-    per_point
-        .par_iter_mut()
-        .enumerate()
-        .with_min_len(1024)
-        .for_each(|(k, slot)| {
-            let Some(series) = slot.as_mut() else {
-                return;
-            };
-            let complete = block.iter().all(|(u, v)| {
-                let (uu, vv) = (f64::from(u.values[k]), f64::from(v.values[k]));
-                let finite = uu.is_finite() && vv.is_finite();
-                if finite {
-                    let (east, north) = match &u.north_angles {
-                        Some(angles) => grid_to_earth(uu, vv, angles[k]),
-                        None => (uu, vv),
-                    };
-                    series.push(Wind::new(east, north));
-                }
-                finite
-            });
-            if !complete {
-                *slot = None;
-            }
-        });
-    block.clear();
 }
 
 /// Reads every 10 m u/v field of a GRIB2 stream and samples it at `points`.
@@ -1113,7 +1117,7 @@ fn sample_gathered<R: Read + Seek>(
         };
         if !matches!(more, Ok(true)) || batch.len() >= BATCH_MESSAGES || batch_bytes >= BATCH_BYTES
         {
-            gathered.add_batch(std::mem::take(&mut batch))?;
+            gathered.add_batch(std::mem::take(&mut batch), points.len())?;
             batch_bytes = 0;
         }
         if !more? {
@@ -1123,7 +1127,7 @@ fn sample_gathered<R: Read + Seek>(
     if messages.count == 0 {
         return Err(no_message_error());
     }
-    gathered.into_members(points.len())
+    gathered.into_members()
 }
 
 /// The error for a file of no bytes at all.
@@ -1163,16 +1167,7 @@ impl GridRules {
     }
 }
 
-/// One decoded wind field sampled at the points.
-struct SampledField {
-    header: FieldHeader,
-    component: Component,
-    values: Vec<f32>,
-    north_angles: Option<Arc<Vec<f64>>>,
-}
-
-/// One decoded wind field: its values on its grid (section 3 as given), then, once
-/// sampled, at the points.
+/// One decoded wind field: its values on its grid (section 3 as given).
 struct DecodedField {
     header: FieldHeader,
     component: Component,
@@ -1214,34 +1209,42 @@ fn decode_message(
     Ok(out)
 }
 
-/// Fields on one grid sampled at every point (NaN outside the grid or where a field has
-/// no value nearby), one list per field. Points are taken a few hundred at a time, in
-/// parallel, and each block's rules are read from the cache for every field, not
-/// brought in again from memory field after field. Each list is allocated by a worker,
-/// as when the fields were sampled one by one, which keeps the heap from scattering.
-fn sample_fields(rules: &[PointRule], fields: &[&[f32]]) -> Vec<Vec<f32>> {
+/// A decoded field to sample: the rules of its grid, its values there, and its column
+/// and component (u 0, v 1) among its member's.
+struct ToSample<'a> {
+    rules: &'a [PointRule],
+    values: &'a [f32],
+    column: usize,
+    component: usize,
+}
+
+/// Samples a batch's fields of one member at every point into its columns (NaN outside
+/// the grid or where a field has no value nearby). Points are taken a few hundred at a
+/// time, in parallel, and each block's rules are read from the cache for every field,
+/// not brought in again from memory field after field; each point's values are grown
+/// by the worker that samples it.
+fn sample_into(columns: &mut Columns, fields: &[ToSample<'_>], point_count: usize) {
     use rayon::prelude::*;
     const POINTS: usize = 256;
-    let mut out: Vec<Vec<f32>> = fields
-        .par_iter()
-        .map(|_| Vec::with_capacity(rules.len()))
-        .collect();
-    let blocks: Vec<Vec<f32>> = rules
-        .par_chunks(POINTS)
-        .map(|rules| {
-            let mut block = Vec::with_capacity(rules.len() * fields.len());
-            for field in fields {
-                for rule in rules {
-                    block.push(rule.sample(field));
+    if columns.points.len() < point_count {
+        columns.points.resize_with(point_count, Vec::new);
+    }
+    let count = columns.count;
+    columns
+        .points
+        .par_chunks_mut(POINTS)
+        .enumerate()
+        .for_each(|(b, block)| {
+            for series in block.iter_mut() {
+                series.resize(count, [f32::NAN; 2]);
+            }
+            for f in fields {
+                let rules = f.rules.get(b * POINTS..).unwrap_or_default();
+                for (series, rule) in block.iter_mut().zip(rules) {
+                    if let Some(w) = series.get_mut(f.column) {
+                        w[f.component] = rule.sample(f.values);
+                    }
                 }
             }
-            block
-        })
-        .collect();
-    for (b, rules) in blocks.iter().zip(rules.chunks(POINTS)) {
-        for (values, part) in out.iter_mut().zip(b.chunks(rules.len().max(1))) {
-            values.extend_from_slice(part);
-        }
-    }
-    out
+        });
 }

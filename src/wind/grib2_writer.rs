@@ -254,4 +254,61 @@ mod tests {
         assert!((w.u_m_s - (1.5 + 4.75)).abs() < 0.006, "{w:?}");
         assert!((w.v_m_s + 10.75).abs() < 0.006, "{w:?}");
     }
+
+    /// The reader lays each field in its place on the time axis, whatever order the
+    /// messages come in: 40 steps (more than one batch of messages), written in time
+    /// order and again backwards with v before u, read back the same, in time order.
+    #[test]
+    fn messages_in_any_order_read_as_in_time_order() {
+        let reference = DateTime::parse_from_rfc3339("2027-05-10T00:00:00Z")
+            .expect("valid")
+            .to_utc();
+        let message = |parameter: u8, step: u32| {
+            let values: Vec<f64> = (0..12)
+                .map(|k| {
+                    let s = f64::from(step);
+                    if parameter == 2 {
+                        s + f64::from(k) * 0.1
+                    } else {
+                        -s
+                    }
+                })
+                .collect();
+            encode_wind_message(&GridField {
+                lat_north_deg: 40.0,
+                lon_west_deg: -126.0,
+                step_deg: 0.5,
+                ni: 4,
+                nj: 3,
+                parameter,
+                reference,
+                step_hours: step,
+                values: &values,
+            })
+        };
+        let steps: Vec<u32> = (1..=40).collect();
+        let in_order: Vec<u8> = steps
+            .iter()
+            .flat_map(|&h| [message(2, h), message(3, h)])
+            .flatten()
+            .collect();
+        let backwards: Vec<u8> = steps
+            .iter()
+            .rev()
+            .flat_map(|&h| [message(3, h), message(2, h)])
+            .flatten()
+            .collect();
+        let points = [LatLon::new(40.0, -126.0), LatLon::new(39.25, -125.25)];
+        let a = sample_grib2(std::io::Cursor::new(in_order), &points).expect("readable");
+        let b = sample_grib2(std::io::Cursor::new(backwards), &points).expect("readable");
+        assert_eq!(a, b);
+        assert_eq!(a.times.len(), 40);
+        for ((k, t), h) in a.times.iter().enumerate().zip(1_i64..) {
+            assert_eq!(*t, reference + chrono::Duration::hours(h));
+            // The first node holds u = step, v = -step (packed to 0.01 m/s).
+            let w = a.points[0].as_ref().expect("inside").to_winds()[k];
+            assert!((w.u_m_s - (k + 1) as f64).abs() < 0.006, "{k}: {w:?}");
+            assert!((w.v_m_s + (k + 1) as f64).abs() < 0.006, "{k}: {w:?}");
+        }
+    }
 }
