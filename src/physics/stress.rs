@@ -31,7 +31,7 @@ impl WindStress {
     /// Stress magnitude, N/m^2.
     #[must_use]
     pub fn magnitude_pa(self) -> f64 {
-        self.x_pa.hypot(self.y_pa)
+        super::units::hypot(self.x_pa, self.y_pa)
     }
 }
 

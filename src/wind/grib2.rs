@@ -755,8 +755,14 @@ impl Gathered {
 
     /// Decodes the prepared messages, several at once on as many cores, files their
     /// fields in file order (the first error in file order is the one reported), then
-    /// samples them at the `point_count` points into their members' columns.
-    fn add_batch(&mut self, batch: Vec<Prepared>, point_count: usize) -> Result<(), WindFileError> {
+    /// samples them at the `point_count` points into their members' columns; `share`:
+    /// the share of the file read so far.
+    fn add_batch(
+        &mut self,
+        batch: Vec<Prepared>,
+        point_count: usize,
+        share: f64,
+    ) -> Result<(), WindFileError> {
         use rayon::prelude::*;
         let grids = &self.grids;
         let decoded: Vec<DecodedMessage> = batch
@@ -788,7 +794,7 @@ impl Gathered {
         }
         for (member, fields) in of_member {
             if let Some(columns) = self.columns.get_mut(&member) {
-                sample_into(columns, &fields, point_count);
+                sample_into(columns, &fields, point_count, share);
             }
         }
         Ok(())
@@ -1117,7 +1123,8 @@ fn sample_gathered<R: Read + Seek>(
         };
         if !matches!(more, Ok(true)) || batch.len() >= BATCH_MESSAGES || batch_bytes >= BATCH_BYTES
         {
-            gathered.add_batch(std::mem::take(&mut batch), points.len())?;
+            let share = messages.bytes_read() as f64 / file_len as f64;
+            gathered.add_batch(std::mem::take(&mut batch), points.len(), share)?;
             batch_bytes = 0;
         }
         if !more? {
@@ -1223,19 +1230,27 @@ struct ToSample<'a> {
 /// time, in parallel, and each block's rules are read from the cache for every field,
 /// not brought in again from memory field after field; each point's values are grown
 /// by the worker that samples it.
-fn sample_into(columns: &mut Columns, fields: &[ToSample<'_>], point_count: usize) {
+fn sample_into(columns: &mut Columns, fields: &[ToSample<'_>], point_count: usize, share: f64) {
     use rayon::prelude::*;
     const POINTS: usize = 256;
     if columns.points.len() < point_count {
         columns.points.resize_with(point_count, Vec::new);
     }
     let count = columns.count;
+    // Room for the columns the whole file likely holds (as many per byte as read so
+    // far, at most 32 times as many as now), so the points' values are not grown and
+    // copied again and again; room never written takes no memory.
+    let room =
+        ((count as f64 / share.max(1e-9)).ceil() as usize).clamp(count, count.saturating_mul(32));
     columns
         .points
         .par_chunks_mut(POINTS)
         .enumerate()
         .for_each(|(b, block)| {
             for series in block.iter_mut() {
+                if series.capacity() < count {
+                    series.reserve_exact(room - series.len());
+                }
                 series.resize(count, [f32::NAN; 2]);
             }
             for f in fields {
