@@ -97,12 +97,12 @@ impl FieldHeader {
         self.wind_component().map(|c| c == Component::U)
     }
 
-    /// "discipline/category/number at surface type", for messages listing what a file holds.
     /// The field's grid definition section (section 3) in its message.
     pub(super) fn section3<'m>(&self, msg: &'m [u8]) -> &'m [u8] {
         &msg[self.grid.0..self.grid.0 + self.grid.1]
     }
 
+    /// "discipline/category/number at surface type", for messages listing what a file holds.
     pub(super) fn describe(&self) -> String {
         format!(
             "{}/{}/{} at surface {}",

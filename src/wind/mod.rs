@@ -184,10 +184,7 @@ impl WindTrack {
             }
             Self::Single(w) => {
                 let mut given = Vec::with_capacity(w.capacity());
-                given.extend(
-                    w.iter()
-                        .map(|&[u, v]| Wind::new(f64::from(u), f64::from(v))),
-                );
+                given.extend(w.iter().map(|&pair| from_single(pair)));
                 given.push(wind);
                 *self = Self::Double(given);
             }
@@ -214,9 +211,7 @@ impl WindTrack {
     #[must_use]
     pub fn get(&self, k: usize) -> Option<Wind> {
         match self {
-            Self::Single(w) => w
-                .get(k)
-                .map(|&[u, v]| Wind::new(f64::from(u), f64::from(v))),
+            Self::Single(w) => w.get(k).map(|&pair| from_single(pair)),
             Self::Double(w) => w.get(k).copied(),
         }
     }
@@ -235,6 +230,11 @@ impl WindTrack {
             single @ Self::Single(_) => single.to_winds(),
         }
     }
+}
+
+/// The wind of a single-precision (u, v) pair.
+fn from_single([u, v]: [f32; 2]) -> Wind {
+    Wind::new(f64::from(u), f64::from(v))
 }
 
 /// Whether both components of a wind are single-precision numbers.
