@@ -3,7 +3,8 @@
 //! build (read and sample the forecast, compute the upwelling, rank), the upwelling
 //! again from the sampled conditions (a change of model settings), and ranking again
 //! for another boat or port (no file read, nothing recomputed), then the process's peak
-//! memory. Goals (issue 18): 10,000 stretches built in under 2 s, re-ranked in under
+//! memory. The plans from the shortcuts must print as the full build's (CSV), byte for
+//! byte. Goals (issue 18): 10,000 stretches built in under 2 s, re-ranked in under
 //! 100 ms, under 1 GB. Run with `cargo bench --bench rerank`.
 
 #[path = "common/long_coast.rs"]
@@ -11,6 +12,7 @@ mod long_coast;
 
 use long_coast::long_demo_scenario;
 use shelfwind::coast::{Land, resolve_segments};
+use shelfwind::export::{PlanFormat, render_plan};
 use shelfwind::plan::{forecast_key, rank_plan, sample_forecast_conditions};
 use shelfwind::progress::Progress;
 use shelfwind::scenario::{PlanChoice, write_demo};
@@ -46,12 +48,13 @@ fn measure(copies: usize, forecast: &std::path::Path) {
     let tz = scenario.tz().expect("zone");
     let ports = scenario.port_positions();
     let geometry = scenario.forecast_geometry(&segments, &ports, Land::bundled());
+    let now = chrono::Utc::now();
     let choice = |vessel: &'static str| PlanChoice {
         vessel_id: Some(vessel),
         port_id: Some("harrow-cove"),
         from: None,
         days: 7,
-        now: chrono::Utc::now(),
+        now,
     };
 
     let t = Instant::now();
@@ -79,20 +82,38 @@ fn measure(copies: usize, forecast: &std::path::Path) {
     );
     let stretches = plan.stretches.len();
 
+    // The shortcuts change no number: the plan made again from the sampled wind, and
+    // ranked again for the first boat, print byte for byte as the full build's.
+    let full = render_plan(&plan, PlanFormat::Csv);
+    let same = |what: &str, other: &shelfwind::plan::Plan| {
+        assert!(
+            render_plan(other, PlanFormat::Csv) == full,
+            "the plan {what} differs from the full build's"
+        );
+    };
+
     let runs = 5;
     let t = Instant::now();
+    let mut again = None;
     for _ in 0..runs {
+        drop(again.take());
         let forecast = conditions.forecast(tz, &scenario.upwelling_settings());
-        std::hint::black_box(rank_plan(&forecast, &request).expect("plan"));
+        again = Some(std::hint::black_box(
+            rank_plan(&forecast, &request).expect("plan"),
+        ));
     }
     let from_conditions_ms = ms(t) / f64::from(runs);
+    same("from sampled conditions", &again.take().expect("a plan"));
 
     let mut rerank = Vec::new();
     for vessel in ["marrow-tide", "steady-hand", "little-auk"].repeat(3) {
         let request = scenario.plan_request(&choice(vessel)).expect("request");
         let t = Instant::now();
-        std::hint::black_box(rank_plan(&forecast, &request).expect("plan"));
+        let again = std::hint::black_box(rank_plan(&forecast, &request).expect("plan"));
         rerank.push(ms(t));
+        if vessel == "little-auk" {
+            same("ranked again", &again);
+        }
     }
     rerank.sort_by(f64::total_cmp);
     // The app first tells whether its sampled conditions still fit the coast (the same
@@ -102,7 +123,7 @@ fn measure(copies: usize, forecast: &std::path::Path) {
     let check_ms = ms(t);
     assert!(conditions.fits(&conditions.sources, key, shelfwind::wind::RunRule::Members));
     println!(
-        "{stretches} stretches, 7 days: full build {full_ms:.0} ms, processor time {full_cpu} (reading and sampling {sampled_ms:.0} ms); \
+        "{stretches} stretches, 7 days (plans from the shortcuts identical to the full build's, as CSV): full build {full_ms:.0} ms, processor time {full_cpu} (reading and sampling {sampled_ms:.0} ms); \
          from sampled conditions {from_conditions_ms:.0} ms ({:.1}x faster); \
          another boat re-ranked in {:.1} ms (median of {}, worst {:.1} ms) after {check_ms:.1} ms telling the cached conditions still fit",
         full_ms / from_conditions_ms,

@@ -1,7 +1,7 @@
 //! The command line: a thin face on the library. Every failure becomes one line on
 //! stderr that names the file and the place in it, and exit status 2.
 
-use crate::atomic::write_atomic;
+use crate::atomic::{write_atomic, write_atomic_with};
 use crate::coast::{
     CoastError, Land, LandFileError, Pack, PackBox, PackError, SeaSideError, Segment, cut_pack,
     read_coast_geojson, read_land_file, resolve_segments,
@@ -715,17 +715,19 @@ pub fn run_index(args: &IndexArgs) -> Result<(), CliError> {
         .unwrap_or_else(|| PathBuf::from("standard output"));
     let tables: Vec<(Option<u32>, &[crate::upwelling::IndexSeries])> =
         per_run.iter().map(|(m, s)| (*m, s.as_slice())).collect();
-    // About 75 bytes a row: sized once.
-    let rows: usize = tables
-        .iter()
-        .flat_map(|(_, s)| s.iter().map(|s| s.times.len()))
-        .sum();
-    let mut bytes = Vec::with_capacity(rows * 80 + 256);
-    write_index(&tables, format, &mut bytes).map_err(|source| CliError::Output {
+    // The formatted chunks go straight to the file, without one more copy of the table.
+    let write = |out: &mut dyn Write| {
+        let mut out = std::io::BufWriter::with_capacity(1 << 20, out);
+        write_index(&tables, format, &mut out).and_then(|()| out.flush())
+    };
+    match args.out.as_deref() {
+        Some(path) => write_atomic_with(path, |f| write(f)),
+        None => write(&mut std::io::stdout().lock()),
+    }
+    .map_err(|source| CliError::Output {
         path: out_path,
         source,
-    })?;
-    write_output(args.out.as_deref(), &bytes)
+    })
 }
 
 /// Writes to a file atomically, or to standard output.

@@ -69,14 +69,17 @@ fn json_error(e: &serde_json::Error) -> ScenarioError {
 /// Whether some text looks like a scenario file (for telling it from GeoJSON).
 #[must_use]
 pub fn is_scenario_text(text: &str) -> bool {
-    serde_json::from_str::<Value>(text)
+    /// Only the format is kept: the rest of the document is checked as JSON and
+    /// skipped without building it (a long coast's GeoJSON is read again just after).
+    #[derive(serde::Deserialize)]
+    struct Head {
+        #[serde(default)]
+        format: Option<Value>,
+    }
+    serde_json::from_str::<Head>(text)
         .ok()
-        .and_then(|v| {
-            v.get("format")
-                .and_then(Value::as_str)
-                .map(|f| f == FORMAT_NAME)
-        })
-        .unwrap_or(false)
+        .and_then(|h| h.format)
+        .is_some_and(|f| f.as_str() == Some(FORMAT_NAME))
 }
 
 /// Version 0 (the first draft layout) to version 1: `coast` became `segments` with
