@@ -261,9 +261,36 @@ fn each_segment_takes_the_first_file_that_covers_it() {
     let e = stderr(&only_grib);
     assert!(
         e.starts_with(
-            "shelfwind: segment \"far-north\" (near 45.100°N, -124.000°E): no wind file covers it"
+            "shelfwind: segment \"far-north\" (near 45.100°N 124.000°W): no wind file covers it"
         ),
         "{e}"
+    );
+}
+
+/// A wave forecast given as the only wind file (the demo's, which covers the coast but
+/// holds wave heights alone): the message says the file has no wind, not only that no
+/// file covers the segment.
+#[test]
+fn a_wave_file_alone_is_named_as_holding_no_wind() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let out = dir.path().display().to_string();
+    assert!(shelfwind(&["demo", "--out", &out]).status.success());
+    let scenario = dir.path().join("north-reach.shelfwind.json");
+    let waves = dir.path().join("north-reach-waves.grib2");
+    let o = shelfwind(&[
+        "index",
+        "--coast",
+        &scenario.display().to_string(),
+        "--wind",
+        &waves.display().to_string(),
+    ]);
+    assert_one_line_error(
+        &o,
+        &[
+            "no wind file covers it (checked 1 file(s); north-reach-waves.grib2 holds no 10 m wind, only wave heights)",
+            "°N 12",
+            "°W)",
+        ],
     );
 }
 
@@ -538,6 +565,16 @@ fn inspect_describes_a_netcdf_file() {
     assert!(stdout(&o).contains("Does not use: no usable 10 m wind: the time variable time has units \"days since 2026-01-01 00:00:00\": calendar \"noleap\" has no real dates"));
     let o = shelfwind(&["inspect", &fixture("grib2/garbage.grib2")]);
     assert_one_line_error(&o, &["bad wind file", "garbage.grib2"]);
+    // A web page saved under a GRIB2 name: `inspect` says what `index` says of it, not
+    // the CSV reader's complaint about a missing time column.
+    let dir = tempfile::tempdir().expect("temp dir");
+    let page = dir.path().join("page.grib2");
+    std::fs::write(&page, "<html><body>Not found</body></html>\n").expect("write");
+    let o = shelfwind(&["inspect", &page.display().to_string()]);
+    assert_one_line_error(
+        &o,
+        &["no GRIB message found: expected a GRIB2 file", "page.grib2"],
+    );
 }
 
 /// An ensemble (`grib2/ensemble_10_runs.grib2`, see `make_ensemble_runs.py`): a `member`

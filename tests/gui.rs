@@ -55,6 +55,24 @@ fn starts_on_the_demo_with_a_ranked_list_and_the_cautions() {
     let first = &plan.stretches[plan.days[0].ranked[0].stretch].name;
     harness.get_by_label(&format!("Stretch {first}"));
     harness.get_by_label_contains("not a navigation aid");
+    // When the forecast was issued, with the year (the demo's synthetic forecast is
+    // dated May 2027, src/wind/demo.rs); its age follows, which moves with the clock.
+    harness.get_by_label_contains("Forecast issued Mon 10 May 2027 00:00 local (07:00 UTC), ");
+}
+
+/// How the plan was made folds away above the list and opens on a click, with the ways
+/// by sea and the waves' source; the issue time stays in sight.
+#[test]
+fn the_plans_notes_fold_away_and_open() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let routes = "Distances are by sea from Tern Harbour";
+    assert_eq!(harness.query_all_by_label_contains(routes).count(), 0);
+    harness.get_by_label("How this plan was made").click();
+    harness.run_steps(3);
+    harness.get_by_label_contains(routes);
+    harness.get_by_label_contains("Waves at 28 stretches: from a wave forecast.");
+    harness.get_by_label_contains("Forecast issued Mon 10 May 2027");
 }
 
 #[test]
@@ -711,7 +729,12 @@ fn a_station_file_is_added_beside_the_grid() {
     harness.run_steps(3);
     harness.get_by_label(&format!("1. {}", grid[0].display()));
     harness.get_by_label(&format!("3. {}", north.display()));
-    assert_eq!(harness.get_all_by_label("wind for no segment").count(), 2);
+    // The station gives no wind; the demo's wave forecast is named as such, not as a
+    // file that gives no wind.
+    assert_eq!(harness.get_all_by_label("wind for no segment").count(), 1);
+    let waves_line =
+        "a wave forecast: read for the sea state on the way and at the stretches, not for wind";
+    harness.get_by_label(waves_line);
     let plan = harness.state().plan.clone().expect("plan");
     assert!(plan.stretches.iter().all(|s| s.wind_source == Some(0)));
     // Put the station first: as the only station it is the nearest to every segment,
@@ -729,7 +752,8 @@ fn a_station_file_is_added_beside_the_grid() {
     assert_eq!(harness.state().doc.scenario.wind_files[0], north);
     let plan = harness.state().plan.clone().expect("plan");
     assert!(plan.stretches.iter().all(|s| s.wind_source == Some(0)));
-    assert_eq!(harness.get_all_by_label("wind for no segment").count(), 2);
+    assert_eq!(harness.get_all_by_label("wind for no segment").count(), 1);
+    harness.get_by_label(waves_line);
 }
 
 /// Ctrl-click and Shift-click on the ranked list add to the selection; the side-by-side

@@ -491,3 +491,38 @@ fn trips_follow_the_way_by_sea() {
         "port, turning points, stretch"
     );
 }
+
+/// A day with nothing to recommend says why, the day's weather first: on Thursday 13
+/// May the demo's blow keeps the small boat (18 kt limit) off every stretch in range
+/// (demo-scenarios/README.md); the counts add up to the stretches left out.
+#[test]
+fn a_day_without_a_recommendation_says_why() {
+    use shelfwind::export::plan_text::no_stretch_text;
+    let plan = demo_plan("little-auk", "tern-harbour", Some(day("2027-05-13")), 1);
+    let thursday = &plan.days[0];
+    assert!(
+        thursday.ranked.is_empty(),
+        "nothing ranked on the blow's day"
+    );
+    let text = no_stretch_text(thursday);
+    assert!(
+        text.starts_with("No stretch to recommend this day: wind over this boat's limit at "),
+        "{text}"
+    );
+    let counted: usize = text
+        .trim_end_matches('.')
+        .split(", ")
+        .map(|part| {
+            part.split(" at ")
+                .nth(1)
+                .expect("a count")
+                .trim_end_matches(" stretches")
+                .trim_end_matches(" stretch")
+                .parse::<usize>()
+                .expect("a number")
+        })
+        .sum();
+    assert_eq!(counted, thursday.excluded.len(), "{text}");
+    // The table prints the same line under the day.
+    assert!(render_plan(&plan, PlanFormat::Table).contains(&format!("  {text}\n")));
+}

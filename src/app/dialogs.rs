@@ -4,7 +4,6 @@
 use super::commands::Command;
 use super::edit::Edit;
 use super::state::ShelfwindApp;
-use crate::plan::CAUTIONS;
 use eframe::egui::{self, Color32, RichText};
 
 /// Every open window, drawn after the panels.
@@ -43,7 +42,6 @@ fn cautions_window(app: &mut ShelfwindApp, ctx: &egui::Context) {
             ui.label("It estimates where wind-driven upwelling may make the water productive. It is no substitute for official marine forecasts and warnings.");
             ui.label("The skipper decides. Check the official forecast before you go, respect closures, protected areas and local regulations, and set your boat's limits yourself.");
             ui.label("Expected productivity is a planning estimate from a simple model, not a promise of fish.");
-            ui.label(RichText::new(CAUTIONS).small().weak());
             if ui.button("I understand").clicked() {
                 app.dialogs.show_cautions = false;
                 app.remembered.cautions_accepted = true;

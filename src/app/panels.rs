@@ -6,7 +6,7 @@ use super::commands::{Command, FileAction};
 use super::state::{BaseLayer, Colouring, ShelfwindApp, Tool};
 use crate::export::units::Units;
 use crate::export::{colour, plan_text};
-use crate::plan::{DayPlan, Plan, RankedStretch};
+use crate::plan::{DayPlan, Plan, PlanNote, RankedStretch};
 use eframe::egui::{self, Color32, RichText};
 
 /// Ranked stretches listed before "Show all".
@@ -499,7 +499,7 @@ fn time_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Command
             Some(h) => {
                 let wind = match h.wind.direction_from_deg() {
                     Some(d) => format!(
-                        "wind {:.0} kt from {:03.0}°",
+                        "wind {:.0} kt from {:03.0}° true",
                         crate::physics::m_s_to_knots(h.wind.speed_m_s()),
                         d
                     ),
@@ -546,8 +546,32 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
         .plan_words
         .for_day(&plan, app.view.day, app.view.units)
         .clone();
-    for n in &words.notes {
-        ui.label(RichText::new(n).small().weak());
+    // When the forecast was issued and what must not be missed stay in sight; the rest
+    // of how the plan was made folds away, leaving room for the list.
+    let notes = || plan.notes.iter().zip(&words.notes);
+    for (note, n) in notes() {
+        if note.is_warning() {
+            ui.label(
+                RichText::new(n)
+                    .small()
+                    .color(Color32::from_rgb(150, 60, 0)),
+            );
+        } else if matches!(note, PlanNote::Issued { .. }) {
+            ui.label(RichText::new(n).small());
+        }
+    }
+    let quiet: Vec<&String> = notes()
+        .filter(|(note, _)| !note.is_warning() && !matches!(note, PlanNote::Issued { .. }))
+        .map(|(_, n)| n)
+        .collect();
+    if !quiet.is_empty() {
+        egui::CollapsingHeader::new(RichText::new("How this plan was made").small())
+            .id_salt("plan notes")
+            .show(ui, |ui| {
+                for n in quiet {
+                    ui.label(RichText::new(n).small().weak());
+                }
+            });
     }
     ui.separator();
     let Some(day) = plan.days.get(app.view.day) else {
@@ -557,7 +581,8 @@ fn ranked_ui(app: &mut ShelfwindApp, ui: &mut egui::Ui, commands: &mut Vec<Comma
         .auto_shrink([false, false])
         .show(ui, |ui| {
             if day.ranked.is_empty() {
-                ui.label(RichText::new("No stretch to recommend this day.").strong());
+                ui.label(RichText::new(plan_text::no_stretch_text(day)).strong());
+                ui.label("Open \"Not ranked\" below for each stretch's reason.");
             }
             // A long coast can rank hundreds of stretches: the first ones are what a
             // skipper reads, and laying them all out every frame would slow the app.

@@ -58,7 +58,7 @@ fn span_text(span: Option<&SourceSpan>, tz: chrono_tz::Tz) -> String {
     let kind = match span.kind {
         SourceKind::Grid => "grid".to_string(),
         SourceKind::Station(Some(p)) => {
-            format!("station at {:.3}°N {:.3}°E", p.lat_deg, p.lon_deg)
+            format!("station at {p}")
         }
         SourceKind::Station(None) => "station (no position: applies everywhere)".into(),
     };
@@ -155,7 +155,17 @@ pub(super) fn wind_files_window(
                         scrolled = true;
                     }
                 }
-                if let Some(fc) = &forecast {
+                // A wave forecast among the files: read for the sea state, not for wind
+                // (its summary's "Uses:" line says so, as `shelfwind inspect` prints it).
+                let waves_only = app.file_summaries.get(&read_path).is_some_and(|s| {
+                    s.lines().any(|l| l.starts_with("Uses:") && l.contains("wave height"))
+                        && !s.lines().any(|l| l.starts_with("Uses:") && l.contains("wind"))
+                });
+                if let (Some(fc), true) = (&forecast, waves_only) {
+                    if fc.sources.get(k).and_then(Option::as_ref).is_none() {
+                        ui.label("a wave forecast: read for the sea state on the way and at the stretches, not for wind");
+                    }
+                } else if let Some(fc) = &forecast {
                     ui.label(span_text(fc.sources.get(k).and_then(Option::as_ref), fc.time_zone));
                     let segs = segments_from(fc, &names, k);
                     ui.label(if segs.is_empty() {

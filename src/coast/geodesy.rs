@@ -17,6 +17,26 @@ pub struct LatLon {
     pub lon_deg: f64,
 }
 
+/// Decimal degrees with the hemisphere's letter, latitude first: `38.378°N 123.083°W`
+/// (3 decimals unless a precision is given, `{:.1}`); the longitude is brought into
+/// −180°..180° first.
+impl std::fmt::Display for LatLon {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        let places = f.precision().unwrap_or(3);
+        let lon = (self.lon_deg + 180.0).rem_euclid(360.0) - 180.0;
+        let (ns, ew) = (
+            if self.lat_deg < 0.0 { 'S' } else { 'N' },
+            if lon < 0.0 { 'W' } else { 'E' },
+        );
+        write!(
+            f,
+            "{:.places$}°{ns} {:.places$}°{ew}",
+            self.lat_deg.abs(),
+            lon.abs()
+        )
+    }
+}
+
 impl LatLon {
     /// A position from latitude and longitude in degrees.
     #[must_use]
@@ -124,6 +144,18 @@ pub fn destination(start: LatLon, bearing_deg: f64, distance_m: f64) -> LatLon {
 mod tests {
     use super::*;
     use approx::assert_abs_diff_eq;
+
+    /// Positions in messages carry the hemisphere's letter, never a signed "°E" (common
+    /// practice on charts and in forecasts).
+    #[test]
+    fn positions_print_with_their_hemispheres() {
+        assert_eq!(
+            LatLon::new(38.3776, -123.0831).to_string(),
+            "38.378°N 123.083°W"
+        );
+        assert_eq!(LatLon::new(-33.9, 18.42).to_string(), "33.900°S 18.420°E");
+        assert_eq!(format!("{:.1}", LatLon::new(10.0, 190.0)), "10.0°N 170.0°W");
+    }
 
     /// geographiclib `Geodesic.WGS84.Inverse(45, -125, 44, -124.5)` gives 118 021.934 m
     /// and an initial azimuth of 160.134783° (REFERENCES.md). The sphere agrees within

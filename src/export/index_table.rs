@@ -125,15 +125,15 @@ fn write_index_csv(
     // An ensemble's rows carry their run after the time; a single forecast's columns
     // stay as they always were.
     let with_runs = runs.iter().any(|(m, _)| m.is_some());
-    let mut line = Vec::with_capacity(256);
-    line.extend_from_slice(b"segment_id,time_utc,");
+    let mut header = Vec::with_capacity(128);
+    header.extend_from_slice(b"segment_id,time_utc,");
     if with_runs {
-        line.extend_from_slice(b"member,");
+        header.extend_from_slice(b"member,");
     }
-    line.extend_from_slice(
+    header.extend_from_slice(
         b"lat,lon,wind_speed_ms,wind_from_deg,upwelling_index_m3s_per_100m,flag\n",
     );
-    out.write_all(&line)?;
+    out.write_all(&header)?;
     // Each series' rows are formatted on their own: chunks of series on every core,
     // written in the table's order.
     let order = in_table_order(runs);
@@ -164,9 +164,9 @@ fn write_index_csv(
     Ok(())
 }
 
-/// The CSV rows of one series (`times`: its valid times as text).
+/// Appends the CSV rows of one series to `text` (`times`: its valid times as text).
 fn put_series_rows(
-    line: &mut Vec<u8>,
+    text: &mut Vec<u8>,
     member: Option<u32>,
     s: &IndexSeries,
     times: &[String],
@@ -186,26 +186,26 @@ fn put_series_rows(
         b"\n"
     };
     for (k, time) in times.iter().enumerate() {
-        line.extend_from_slice(&id);
-        line.push(b',');
-        line.extend_from_slice(time.as_bytes());
+        text.extend_from_slice(&id);
+        text.push(b',');
+        text.extend_from_slice(time.as_bytes());
         if with_runs {
-            line.push(b',');
+            text.push(b',');
             if let Some(m) = member {
-                put_integer(line, i64::from(m));
+                put_integer(text, i64::from(m));
             }
         }
-        line.extend_from_slice(&place);
+        text.extend_from_slice(&place);
         let w = s.wind[k];
-        put_fixed(line, w.speed_m_s(), 3);
-        line.push(b',');
+        put_fixed(text, w.speed_m_s(), 3);
+        text.push(b',');
         if let Some(d) = w.direction_from_deg() {
-            put_direction(line, d);
+            put_direction(text, d);
         }
-        line.push(b',');
-        put_fixed(line, s.index_m3s_per_100m[k], 3);
-        line.push(b',');
-        line.extend_from_slice(flag);
+        text.push(b',');
+        put_fixed(text, s.index_m3s_per_100m[k], 3);
+        text.push(b',');
+        text.extend_from_slice(flag);
     }
 }
 

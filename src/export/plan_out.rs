@@ -1,7 +1,7 @@
 //! The plan for people and for other tools: a terminal table, CSV, JSON, GeoJSON of the
 //! stretches with their scores, and GPX 1.1 waypoints and routes for a chart plotter.
 
-use super::plan_text::{excluded_text, notes, ranked_lines};
+use super::plan_text::{excluded_text, no_stretch_text, notes, ranked_lines};
 use super::units::{DistanceUnit, FuelUnit, Units, WindUnit};
 use crate::plan::{CAUTIONS, DayPlan, Plan, RankedStretch, StretchInfo};
 use chrono::{DateTime, Utc};
@@ -109,7 +109,7 @@ fn table(plan: &Plan) -> String {
     for day in &plan.days {
         let _ = writeln!(o, "\n{}", day.date.format("%A %-d %B %Y"));
         if day.ranked.is_empty() {
-            let _ = writeln!(o, "  No stretch to recommend this day.");
+            let _ = writeln!(o, "  {}", no_stretch_text(day));
         } else {
             let _ = writeln!(
                 o,

@@ -290,10 +290,15 @@ pub fn excluded_text(plan: &Plan, e: &Excluded, units: Units) -> String {
     exclusion_text(&e.exclusion, plan.time_zone, &plan.port.name, units)
 }
 
-/// A plan-wide note.
+/// A plan-wide note (`tz`: the plan's time zone, for local times).
 #[must_use]
-pub fn note_text(n: &PlanNote, port_name: &str) -> String {
+pub fn note_text(n: &PlanNote, port_name: &str, tz: Tz) -> String {
     match n {
+        PlanNote::Issued {
+            issued,
+            made,
+            covers_today,
+        } => issued_text(*issued, *made, *covers_today, tz),
         PlanNote::SeaRoutes { clearance_nm } => format!(
             "Distances are by sea from {port_name}, keeping {clearance_nm} nm from the land outline (a coarse outline, not a chart: check your chart); a stretch with no way by sea is left out."
         ),
@@ -343,18 +348,119 @@ pub fn note_text(n: &PlanNote, port_name: &str) -> String {
     }
 }
 
+/// A day with nothing ranked, and why: how many stretches each reason left out, the
+/// day's weather first and what holds every day (closures, range) last: "No stretch to
+/// recommend this day: waves over this boat's limit at 4 stretches, closed to fishing
+/// at 4, beyond this boat's range at 20."
+#[must_use]
+pub fn no_stretch_text(day: &crate::plan::DayPlan) -> String {
+    const ORDER: [(&str, &str); 8] = [
+        ("over_wave_limit", "waves over this boat's limit"),
+        ("over_wind_limit", "wind over this boat's limit"),
+        ("window_too_short", "safe window too short"),
+        ("no_forecast", "no forecast for the day"),
+        ("closed", "closed to fishing"),
+        ("no_sea_route", "no way by sea"),
+        ("beyond_range", "beyond this boat's range"),
+        ("near_equator", "too near the equator"),
+    ];
+    let parts: Vec<String> = ORDER
+        .iter()
+        .filter_map(|(kind, words)| {
+            let n = day
+                .excluded
+                .iter()
+                .filter(|e| e.exclusion.kind() == *kind)
+                .count();
+            (n > 0).then_some((words, n))
+        })
+        .enumerate()
+        .map(|(k, (words, n))| match (k, n) {
+            (0, 1) => format!("{words} at 1 stretch"),
+            (0, _) => format!("{words} at {n} stretches"),
+            _ => format!("{words} at {n}"),
+        })
+        .collect();
+    if parts.is_empty() {
+        return "No stretch to recommend this day.".into();
+    }
+    format!("No stretch to recommend this day: {}.", parts.join(", "))
+}
+
 /// The plan's notes, as lines.
 #[must_use]
 pub fn notes(plan: &Plan) -> Vec<String> {
     plan.notes
         .iter()
-        .map(|n| note_text(n, &plan.port.name))
+        .map(|n| note_text(n, &plan.port.name, plan.time_zone))
         .collect()
+}
+
+/// When the forecast was issued, how long before the plan, and whether it reaches today.
+fn issued_text(issued: DateTime<Utc>, made: DateTime<Utc>, covers_today: bool, tz: Tz) -> String {
+    let when = |t: DateTime<Utc>| {
+        format!(
+            "{} local ({} UTC)",
+            t.with_timezone(&tz).format("%a %-d %b %Y %H:%M"),
+            t.format("%H:%M")
+        )
+    };
+    let hours = (made - issued).num_minutes().div_euclid(60);
+    let age = if issued > made {
+        format!(
+            ", later than this computer's clock ({}): check the clock or the file",
+            when(made)
+        )
+    } else if hours < crate::plan::OLD_FORECAST_HOURS {
+        format!(", {hours} h before this plan was made")
+    } else {
+        format!(
+            ", {} days before this plan was made: look for a newer forecast",
+            hours / 24
+        )
+    };
+    let today = if covers_today {
+        ""
+    } else {
+        " It does not cover today."
+    };
+    format!("Forecast issued {}{age}.{today}", when(issued))
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// The issue time in local time and UTC (Los Angeles keeps UTC−7 in May), the
+    /// forecast's age in whole hours, then days past two days, and a clock behind the
+    /// forecast named as such.
+    #[test]
+    fn the_issue_note_tells_the_forecasts_age() {
+        let tz: Tz = "America/Los_Angeles".parse().expect("zone");
+        let issued = DateTime::parse_from_rfc3339("2027-05-10T07:00:00Z")
+            .expect("time")
+            .to_utc();
+        let text = |minutes: i64, covers_today| {
+            issued_text(
+                issued,
+                issued + chrono::Duration::minutes(minutes),
+                covers_today,
+                tz,
+            )
+        };
+        assert_eq!(
+            text(330, true),
+            "Forecast issued Mon 10 May 2027 00:00 local (07:00 UTC), 5 h before this plan was made."
+        );
+        assert_eq!(
+            text(3 * 24 * 60 + 10, false),
+            "Forecast issued Mon 10 May 2027 00:00 local (07:00 UTC), 3 days before this plan was made: look for a newer forecast. It does not cover today."
+        );
+        assert_eq!(
+            text(-90, true),
+            "Forecast issued Mon 10 May 2027 00:00 local (07:00 UTC), later than this computer's clock (Sun 9 May 2027 22:30 local (05:30 UTC)): check the clock or the file."
+        );
+    }
 
     /// The wave note names only the sources that were used.
     #[test]
@@ -368,6 +474,7 @@ mod tests {
                     limit_m: Some(1.2),
                 },
                 "Home",
+                chrono_tz::UTC,
             )
         };
         assert_eq!(

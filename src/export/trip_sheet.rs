@@ -342,7 +342,8 @@ fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan, units: Units) {
     if day.ranked.is_empty() {
         let _ = writeln!(
             o,
-            "<p class=\"none\">No stretch to recommend this day: see below for why each was left out.</p>"
+            "<p class=\"none\">{} Below: why each was left out.</p>",
+            esc(&super::plan_text::no_stretch_text(day))
         );
         return;
     }
@@ -392,7 +393,7 @@ fn ranked_section(o: &mut String, plan: &Plan, day: &DayPlan, units: Units) {
     let _ = writeln!(o, "</table>");
     let _ = writeln!(
         o,
-        "<p class=\"caption\">Score = 100 × productivity × window × distance. Productivity: the expected productivity from the upwelling and its lag. Window: the fishing hours inside the safe window as a share of a full fishing day. Distance: 1 at the port, less with distance. Ties (=) are within a few points of the stretch ranked above.</p>"
+        "<p class=\"caption\">Score = 100 × productivity × window × distance. Productivity: the expected productivity from the upwelling and its lag. Window: the fishing hours inside the safe window as a share of a full fishing day. Distance: 1 at the port, less with distance. Ties (=N) share rank N with the first stretch of their group: their scores are within a few points of that stretch's (the tie margin in the settings, 3 points unless changed).</p>"
     );
 }
 

@@ -23,8 +23,8 @@ pub use forecast::{
     StretchForecast, StretchHour, UpwellingSettings, forecast_key, sample_forecast_conditions,
 };
 pub use rank::{
-    DayPlan, Excluded, Plan, PlanError, PlanNote, PlanRequest, RankedStretch, StretchInfo,
-    quantile, rank_plan,
+    DayPlan, Excluded, OLD_FORECAST_HOURS, Plan, PlanError, PlanNote, PlanRequest, RankedStretch,
+    StretchInfo, quantile, rank_plan,
 };
 pub use reasons::{
     Exclusion, Odds, Reasons, Stopper, TripReason, UpwellingReason, WaveReason, WaveSource,

@@ -156,6 +156,16 @@ pub enum PlanNote {
         /// The boat's wave limit, if set.
         limit_m: Option<f64>,
     },
+    /// When the newest wind file was issued (GRIB2 files say), against when the plan
+    /// was made: an old forecast, or one that does not reach today, is worth a look.
+    Issued {
+        /// The newest issue (reference) time among the wind files.
+        issued: DateTime<Utc>,
+        /// When the plan was made ("now" of the request).
+        made: DateTime<Utc>,
+        /// Whether the forecast's days include today (local).
+        covers_today: bool,
+    },
     /// Some stretches lie between 5° and 10° from the equator.
     NearEquator,
     /// The forecast is one run: no odds can be given.
@@ -165,6 +175,33 @@ pub enum PlanNote {
         /// Runs.
         runs: usize,
     },
+}
+
+/// Forecasts older than this are called old (two days: common practice is to plan on
+/// the latest forecast, issued every 6 to 12 hours).
+pub const OLD_FORECAST_HOURS: i64 = 48;
+
+impl PlanNote {
+    /// A note the skipper should not miss: a forecast issued long before the plan, after
+    /// this computer's clock, or one that does not reach today; waves only estimated or
+    /// not known somewhere; stretches near the equator.
+    #[must_use]
+    pub fn is_warning(&self) -> bool {
+        match self {
+            Self::WaveSources { estimate, none, .. } => *estimate > 0 || *none > 0,
+            Self::NearEquator => true,
+            Self::Issued {
+                issued,
+                made,
+                covers_today,
+            } => {
+                issued > made
+                    || (*made - *issued).num_hours() >= OLD_FORECAST_HOURS
+                    || !covers_today
+            }
+            _ => false,
+        }
+    }
 }
 
 /// The whole plan.
@@ -296,9 +333,20 @@ pub fn rank_plan(forecast: &Forecast, req: &PlanRequest<'_>) -> Result<Plan, Pla
             }
         })
         .collect();
-    let mut notes = vec![PlanNote::SeaRoutes {
+    let mut notes: Vec<PlanNote> = forecast
+        .latest_reference
+        .map(|issued| PlanNote::Issued {
+            issued,
+            made: req.now,
+            covers_today: forecast
+                .days
+                .contains(&local_day(forecast.time_zone, req.now)),
+        })
+        .into_iter()
+        .collect();
+    notes.push(PlanNote::SeaRoutes {
         clearance_nm: req.trip.sea_clearance_nm,
-    }];
+    });
     let count = |w: WaveSource| stretches.iter().filter(|s| s.wave_source == w).count();
     notes.push(PlanNote::WaveSources {
         forecast: count(WaveSource::Forecast),

@@ -62,7 +62,7 @@ pub struct SegmentWind {
 
 /// A GRIB2 file by its content; the extension only decides that a file named as GRIB
 /// but holding something else gets the GRIB reader's message ("no GRIB message found").
-fn looks_like_grib(path: &Path, head: &[u8]) -> bool {
+pub(super) fn looks_like_grib(path: &Path, head: &[u8]) -> bool {
     let ext = path
         .extension()
         .and_then(|e| e.to_str())
@@ -145,6 +145,31 @@ fn segment_winds(
         .collect()
 }
 
+/// The GRIB2 files among `sources` that hold no 10 m wind, named in a clause for the
+/// message of a segment without wind ("; waves.grib2 holds no 10 m wind, only wave
+/// heights"); empty when every file has wind. Read again on this error path only (the
+/// section headers, no data decoded).
+fn windless_files(sources: &[WindSource]) -> String {
+    sources
+        .iter()
+        .filter_map(|s| {
+            let WindSource::Grib2 { path } = s else {
+                return None;
+            };
+            let file = std::fs::File::open(path).ok()?;
+            let contents = super::waves::grib2_contents(std::io::BufReader::new(file)).ok()?;
+            let name = path.file_name().unwrap_or(path.as_os_str()).display();
+            (!contents.wind).then(|| {
+                if contents.waves {
+                    format!("; {name} holds no 10 m wind, only wave heights")
+                } else {
+                    format!("; {name} holds no 10 m wind")
+                }
+            })
+        })
+        .collect()
+}
+
 /// A segment's [`SegmentWind`] from its group's wind, or why it has none.
 fn segment_wind(
     sources: &[WindSource],
@@ -152,12 +177,11 @@ fn segment_wind(
     g: Option<super::GroupWind>,
 ) -> Result<SegmentWind, WindError> {
     let Some(g) = g else {
-        let mid = seg.weighted_midpoint();
         return Err(WindError::Uncovered {
             id: seg.id.clone(),
-            lat_deg: mid.lat_deg,
-            lon_deg: mid.lon_deg,
+            at: seg.weighted_midpoint(),
             files: sources.len(),
+            windless: windless_files(sources),
         });
     };
     let pieces: Vec<Vec<Wind>> = g

@@ -155,13 +155,15 @@ fn inspect_inner(path: &Path) -> Result<FileSummary, WindFileError> {
     let mut head = [0u8; 8];
     let n = std::fs::File::open(path)?.read(&mut head)?;
     let head = &head[..n];
-    if head.starts_with(b"GRIB") {
-        return inspect_grib2(std::io::BufReader::new(std::fs::File::open(path)?));
-    }
+    // Told apart as the readers do (`load_sources`): a file named as GRIB but holding
+    // something else gets the GRIB reader's message, not the CSV reader's.
     if netcdf::is_netcdf(head) {
         return netcdf::inspect_netcdf(path)
             .map(|s| netcdf_summary(&s))
             .map_err(WindFileError::Netcdf);
+    }
+    if super::assign::looks_like_grib(path, head) {
+        return inspect_grib2(std::io::BufReader::new(std::fs::File::open(path)?));
     }
     let bytes = std::fs::read(path)?;
     if bytes.is_empty() {
@@ -180,7 +182,7 @@ fn inspect_inner(path: &Path) -> Result<FileSummary, WindFileError> {
     }
     let place = series.position.map_or_else(
         || "no position: applies wherever no other file covers".to_string(),
-        |p| format!("station at {:.4}°, {:.4}°", p.lat_deg, p.lon_deg),
+        |p| format!("station at {p:.4}"),
     );
     Ok(FileSummary {
         format: "CSV point series".into(),

@@ -307,17 +307,18 @@ pub enum WindError {
     },
     /// No wind file covers a segment.
     #[error(
-        "segment {id:?} (near {lat_deg:.3}°N, {lon_deg:.3}°E): no wind file covers it (checked {files} file(s)): give a wind file whose grid or station covers this segment"
+        "segment {id:?} (near {at}): no wind file covers it (checked {files} file(s){windless}): give a wind file whose grid or station covers this segment"
     )]
     Uncovered {
         /// Segment id.
         id: String,
-        /// Its midpoint latitude.
-        lat_deg: f64,
-        /// Its midpoint longitude.
-        lon_deg: f64,
+        /// Its length-weighted midpoint.
+        at: crate::coast::LatLon,
         /// How many files were tried.
         files: usize,
+        /// The files without any 10 m wind, as a clause after the count ("; waves.grib2
+        /// holds no 10 m wind, only wave heights"), or empty.
+        windless: String,
     },
     /// No wind files at all.
     #[error("no wind file given: expected at least one --wind FILE, or a scenario with wind files")]
