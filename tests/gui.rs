@@ -23,16 +23,10 @@ fn wait_until(
     wait_until_within(harness, what, Duration::from_mins(2), done);
 }
 
-/// Types into the path field of the file dialog (focus first, then the text).
+/// Types into the path field of the file dialog in place of what it suggests (focus,
+/// select all, then the text).
 fn type_path(harness: &mut Harness<'static, ShelfwindApp>, text: &str) {
-    harness
-        .get_by_role_and_label(egui::accesskit::Role::TextInput, "File path")
-        .focus();
-    harness.run_steps(2);
-    harness
-        .get_by_role_and_label(egui::accesskit::Role::TextInput, "File path")
-        .type_text(text);
-    harness.run_steps(2);
+    common::type_into(harness, egui::accesskit::Role::TextInput, "File path", text);
 }
 
 fn fixture(rel: &str) -> String {
@@ -990,4 +984,63 @@ fn a_coast_pack_is_used_and_dropped_from_the_file_menu() {
     harness.get_by_label("Undo").click();
     harness.run_steps(3);
     assert_eq!(harness.state().doc.scenario.coast_pack, Some(pack_path));
+}
+
+/// Closing with unsaved changes and choosing Save: the path field suggests a whole path
+/// (the demo was never saved), a name typed without an extension is saved as a
+/// scenario file, and the app then closes, as it was asked to.
+#[test]
+fn save_when_closing_saves_then_closes() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let id = harness.state().doc.scenario.segments[0].id.clone();
+    harness
+        .state_mut()
+        .send(shelfwind::app::Command::EditSegment(Some(id)));
+    harness.run_steps(3);
+    retype(&mut harness, "Segment name", "Puffin Rocks");
+    assert!(harness.state().doc.dirty);
+    // The window's close button, as the window system tells egui of it.
+    harness
+        .input_mut()
+        .viewports
+        .entry(egui::ViewportId::ROOT)
+        .or_default()
+        .events
+        .push(egui::ViewportEvent::Close);
+    harness.run_steps(3);
+    harness.get_by_label("This scenario has changes that are not saved.");
+    harness.get_by_label("Save").click();
+    harness.run_steps(3);
+    // The demo was never saved: a whole path is suggested, named after the scenario.
+    let suggested = harness
+        .state()
+        .dialogs
+        .path_prompt
+        .as_ref()
+        .expect("the path field")
+        .text
+        .clone();
+    assert!(
+        suggested.ends_with("north-reach-fishers-co-op-demo.shelfwind.json")
+            && std::path::Path::new(&suggested).is_absolute(),
+        "{suggested}"
+    );
+    let typed = dir.path().join("mine");
+    type_path(&mut harness, typed.to_str().expect("utf-8"));
+    harness.get_by_label("Save here").click();
+    harness.run_steps(1);
+    wait_until(&mut harness, "the save", |a| !a.is_busy());
+    harness.run_steps(3);
+    let saved = dir.path().join("mine.shelfwind.json");
+    assert!(saved.exists(), "saved as a scenario file");
+    assert!(
+        std::fs::read_to_string(&saved)
+            .expect("read")
+            .contains("Puffin Rocks")
+    );
+    let app = harness.state();
+    assert!(!app.doc.dirty);
+    assert!(app.dialogs.quit_confirmed, "the app closes after saving");
+    assert!(!app.dialogs.quit_after_save);
 }

@@ -52,6 +52,7 @@ fn cautions_window(app: &mut ShelfwindApp, ctx: &egui::Context) {
 
 /// The path field of every file action.
 fn path_prompt_window(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mut Vec<Command>) {
+    let typing_dir = app.typing_dir();
     if let Some(prompt) = &mut app.dialogs.path_prompt {
         let mut open = true;
         let mut go = None;
@@ -69,9 +70,13 @@ fn path_prompt_window(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mu
                     .add(egui::TextEdit::singleline(&mut prompt.text).desired_width(460.0))
                     .labelled_by(label.id);
                 ui.label(
-                    RichText::new(format!("({})", prompt.action.extensions().join(", ")))
-                        .small()
-                        .weak(),
+                    RichText::new(format!(
+                        "({}; a name without a folder goes in {})",
+                        prompt.action.extensions().join(", "),
+                        typing_dir.display()
+                    ))
+                    .small()
+                    .weak(),
                 );
                 let enter = r.lost_focus() && ui.input(|i| i.key_pressed(egui::Key::Enter));
                 ui.horizontal(|ui| {
@@ -93,6 +98,7 @@ fn path_prompt_window(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mu
             commands.push(Command::File(prompt.action, path));
         } else if !open {
             app.dialogs.path_prompt = None;
+            app.dialogs.quit_after_save = false;
         }
     }
 }
@@ -125,6 +131,7 @@ fn confirm_windows(app: &mut ShelfwindApp, ctx: &egui::Context, commands: &mut V
                 ui.horizontal(|ui| {
                     if ui.button("Save").clicked() {
                         app.dialogs.confirm_quit = false;
+                        app.dialogs.quit_after_save = true;
                         commands.push(Command::Save);
                     }
                     if ui.button("Close without saving").clicked() {

@@ -272,7 +272,13 @@ impl ShelfwindApp {
                     self.remembered.last_scenario = Some(path.clone());
                     self.discard_recovery();
                     self.info(Subject::Scenario, format!("Saved {}", path.display()));
+                    if std::mem::take(&mut self.dialogs.quit_after_save) {
+                        self.dialogs.quit_confirmed = true;
+                        self.send(Command::Quit);
+                    }
                 } else {
+                    // Changes came in while saving: they would be lost by closing now.
+                    self.dialogs.quit_after_save = false;
                     self.info(
                         Subject::Scenario,
                         format!(
@@ -283,16 +289,23 @@ impl ShelfwindApp {
                 }
             }
             Ok(FileOutcome::Written(info)) => self.info(subject, info),
-            Err(e) => self.error(subject, e),
+            Err(e) => {
+                self.dialogs.quit_after_save = false;
+                self.error(subject, e);
+            }
         }
     }
 
     /// Shows the path field (and tries the system dialog alongside).
     pub(super) fn ask_file(&mut self, action: FileAction) {
         let suggested = match action {
-            FileAction::SaveScenarioAs => self.doc.path.as_ref().map(|p| p.display().to_string()),
+            FileAction::SaveScenarioAs => Some(self.doc.path.clone().unwrap_or_else(|| {
+                self.typing_dir()
+                    .join(format!("{}.shelfwind.json", slug(&self.doc.scenario.name)))
+            })),
             _ => None,
-        };
+        }
+        .map(|p| p.display().to_string());
         let mut prompt = PathPrompt {
             action,
             text: suggested.unwrap_or_default(),
@@ -330,9 +343,23 @@ impl ShelfwindApp {
     }
 
     /// Does a file action in the background, reporting errors without losing anything.
+    /// The folder a typed name without a folder goes in: the scenario's, else the home
+    /// folder (never the folder the app happened to start in, which the user cannot see).
+    pub(super) fn typing_dir(&self) -> PathBuf {
+        self.doc
+            .path
+            .as_ref()
+            .and_then(|p| p.parent())
+            .filter(|d| d.is_absolute())
+            .map(Path::to_path_buf)
+            .or_else(|| std::env::home_dir().filter(|h| h.is_dir()))
+            .or_else(|| std::env::current_dir().ok())
+            .unwrap_or_default()
+    }
+
     pub(super) fn file_action(&mut self, action: FileAction, path: &Path, ctx: &egui::Context) {
         self.dialogs.path_prompt = None;
-        let path = path.to_path_buf();
+        let path = typed_path(path, action, &self.typing_dir());
         match action {
             FileAction::OpenScenario => {
                 self.start_file_task(Subject::Scenario, ctx, move || read_scenario_file(path));
@@ -507,4 +534,38 @@ fn spawn_native_dialog(action: FileAction, dir: &Path) -> Receiver<Option<PathBu
             let _ = tx.send(picked);
         });
     rx
+}
+
+/// A typed path made whole: a name without a folder goes in `dir`, and a file written
+/// without an extension gets the action's (`.shelfwind.json` for a scenario).
+fn typed_path(path: &Path, action: FileAction, dir: &Path) -> PathBuf {
+    let mut path = if path.is_absolute() || path.parent().is_some_and(|p| !p.as_os_str().is_empty())
+    {
+        path.to_path_buf()
+    } else {
+        dir.join(path)
+    };
+    if action.writes() && path.extension().is_none() {
+        let ext = match action {
+            FileAction::SaveScenarioAs => "shelfwind.json",
+            other => other.extensions()[0],
+        };
+        path.set_extension(ext);
+    }
+    path
+}
+
+/// A file name from a scenario's name: lower-case letters and digits, words joined by
+/// dashes ("North Reach Fishers' Co-op (demo)" gives "north-reach-fishers-co-op-demo").
+fn slug(name: &str) -> String {
+    let words: Vec<String> = name
+        .split(|c: char| !c.is_alphanumeric())
+        .filter(|w| !w.is_empty())
+        .map(str::to_lowercase)
+        .collect();
+    if words.is_empty() {
+        "scenario".into()
+    } else {
+        words.join("-")
+    }
 }

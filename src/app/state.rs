@@ -214,6 +214,9 @@ pub struct Dialogs {
     pub confirm_quit: bool,
     /// The user chose to close without saving.
     pub quit_confirmed: bool,
+    /// "Save" was chosen when closing: close once the scenario is saved (a cancelled or
+    /// failed save keeps the app open and forgets this).
+    pub quit_after_save: bool,
     /// Offering to restore unsaved changes from the last session.
     pub recovery: Option<Recovery>,
     /// The cautions window.
