@@ -494,11 +494,22 @@ fn parse_rho_water(s: &str) -> Result<f64, String> {
     )
 }
 
+/// An I/O error in plain words ("no such file"), without the system's error code.
+fn io_reason(e: &std::io::Error) -> String {
+    use std::io::ErrorKind;
+    match e.kind() {
+        ErrorKind::NotFound => "no such file".into(),
+        ErrorKind::PermissionDenied => "permission denied".into(),
+        ErrorKind::IsADirectory => "it is a folder, not a file".into(),
+        _ => e.to_string(),
+    }
+}
+
 /// Everything that can stop a command.
 #[derive(Debug, thiserror::Error)]
 pub enum CliError {
-    /// The coast file could not be read.
-    #[error("cannot read coast file: {source}: {}", path.display())]
+    /// The scenario or coast file could not be read.
+    #[error("cannot read the scenario or coast file: {}: {}", io_reason(source), path.display())]
     CoastIo {
         /// The file.
         path: PathBuf,
@@ -611,6 +622,14 @@ pub fn load_coast(path: &Path, land: Option<&Land>) -> Result<LoadedCoast, CliEr
             found: "a file that is not UTF-8 text".into(),
         },
     })?;
+    if text.trim().is_empty() {
+        return Err(CliError::Coast {
+            path: path.into(),
+            source: CoastError::NotFeatureCollection {
+                found: "an empty file (nor is it a Shelfwind scenario)".into(),
+            },
+        });
+    }
     let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
     let (drawn, scenario) = if is_scenario_text(&text) {
         let scenario = parse_scenario(&text).map_err(|source| ScenarioError::File {

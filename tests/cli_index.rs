@@ -314,7 +314,7 @@ fn bad_files_exit_2_with_the_file_and_place_and_write_nothing() {
     let cases: Vec<(String, Vec<&str>)> = vec![
         (
             fixture("grib2/truncated.grib2"),
-            vec!["bad wind file: message 1: is cut short", "truncated.grib2"],
+            vec!["bad wind file: message 1: cut short", "truncated.grib2"],
         ),
         (
             fixture("grib2/garbage.grib2"),
@@ -647,5 +647,52 @@ fn an_ensemble_gets_a_member_column_after_the_time() {
             ("1".to_string(), "12".to_string()),
             ("2".to_string(), "2".to_string())
         ]
+    );
+}
+
+/// A new user's slips, each told in plain words with the file named: a scenario that is
+/// not there, an empty file, and a position with one number.
+#[test]
+fn a_new_users_slips_are_told_plainly() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let missing = dir.path().join("missing.json");
+    let o = shelfwind(&["plan", &missing.display().to_string()]);
+    assert_one_line_error(
+        &o,
+        &[
+            "cannot read the scenario or coast file: no such file: ",
+            "missing.json",
+        ],
+    );
+    assert!(!stderr(&o).contains("os error"), "{}", stderr(&o));
+    let empty = dir.path().join("empty.json");
+    std::fs::write(&empty, "\n").expect("write");
+    let o = shelfwind(&["plan", &empty.display().to_string()]);
+    assert_one_line_error(
+        &o,
+        &[
+            "expected a GeoJSON FeatureCollection, found an empty file (nor is it a Shelfwind scenario)",
+            "empty.json",
+        ],
+    );
+    let coast = dir.path().join("short.geojson");
+    std::fs::write(
+        &coast,
+        r#"{"type":"FeatureCollection","features":[{"type":"Feature","properties":{"id":"a","sea":"left"},"geometry":{"type":"LineString","coordinates":[[-123.0,37.0],[-123.2]]}}]}"#,
+    )
+    .expect("write");
+    let o = shelfwind(&[
+        "index",
+        "--coast",
+        &coast.display().to_string(),
+        "--wind",
+        &fixture("grib2/garbage.grib2"),
+    ]);
+    assert_one_line_error(
+        &o,
+        &[
+            "feature 1 (\"a\"): coordinate 2: an array of 1 value: expected [longitude, latitude]",
+            "short.geojson",
+        ],
     );
 }

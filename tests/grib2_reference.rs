@@ -155,7 +155,7 @@ fn damaged_and_unsupported_files_give_clear_errors() {
         ),
         (
             "truncated.grib2",
-            "message 1: is cut short: it declares 377 bytes but the file ends 271 bytes after its start (truncated download?)",
+            "message 1: cut short: it declares 377 bytes but the file ends 271 bytes after its start (truncated download?)",
         ),
         (
             "garbage.grib2",

@@ -137,7 +137,7 @@ fn a_damaged_wind_file_shows_the_error_and_keeps_the_forecast() {
     harness.run_steps(2);
     wait_for_plan(&mut harness);
     harness.get_by_label_contains("The wind file was not added; the forecast is as it was.");
-    harness.get_by_label_contains("message 1: is cut short");
+    harness.get_by_label_contains("message 1: cut short");
     assert_eq!(harness.state().doc.scenario.wind_files, wind_before);
     assert_eq!(
         harness.state().plan.as_ref().expect("plan kept").days[0]

@@ -231,7 +231,7 @@ fn a_bad_file_in_a_record_is_named() {
     assert_eq!(o.status.code(), Some(2));
     let e = String::from_utf8_lossy(&o.stderr);
     assert!(
-        e.contains("message 1: is cut short") && e.contains("wind-2027-02.grib2"),
+        e.contains("message 1: cut short") && e.contains("wind-2027-02.grib2"),
         "{e}"
     );
 }

@@ -270,7 +270,7 @@ fn contents_tell_wind_from_waves() {
 
 #[test]
 fn damaged_files_give_clear_errors() {
-    let truncated = "message 2: is cut short: it declares 566 bytes but the file ends 361 bytes after its start (truncated download?)";
+    let truncated = "message 2: cut short: it declares 566 bytes but the file ends 361 bytes after its start (truncated download?)";
     let p = [LatLon::new(35.0, -120.0)];
     assert_eq!(waves("waves_truncated.grib2", &p).unwrap_err(), truncated);
     assert_eq!(contents("waves_truncated.grib2").unwrap_err(), truncated);

@@ -313,7 +313,14 @@ fn read_position(c: &Value) -> Result<LatLon, String> {
     let arr = c
         .as_array()
         .filter(|a| a.len() >= 2)
-        .ok_or_else(|| format!("{}: expected [longitude, latitude]", describe(c)))?;
+        .ok_or_else(|| match c.as_array() {
+            Some(a) => format!(
+                "an array of {} value{}: expected [longitude, latitude]",
+                a.len(),
+                if a.len() == 1 { "" } else { "s" }
+            ),
+            None => format!("{}: expected [longitude, latitude]", describe(c)),
+        })?;
     let lon = arr[0].as_f64().ok_or("longitude is not a number")?;
     let lat = arr[1].as_f64().ok_or("latitude is not a number")?;
     if !(-90.0..=90.0).contains(&lat) {

@@ -329,7 +329,7 @@ impl<R: Read> Messages<R> {
         let got = self.read_up_to(&mut bytes, 12)?;
         if got < 12 {
             return Err(fail(format!(
-                "is cut short: only {} bytes after \"GRIB\" (truncated file?)",
+                "cut short: only {} bytes after \"GRIB\" (truncated file?)",
                 4 + got
             )));
         }
@@ -346,7 +346,7 @@ impl<R: Read> Messages<R> {
         let got = self.read_up_to(&mut bytes, want)?;
         if got < want {
             return Err(fail(format!(
-                "is cut short: it declares {len} bytes but the file ends {} bytes after its start (truncated download?)",
+                "cut short: it declares {len} bytes but the file ends {} bytes after its start (truncated download?)",
                 16 + got
             )));
         }
