@@ -1044,3 +1044,40 @@ fn save_when_closing_saves_then_closes() {
     assert!(app.dialogs.quit_confirmed, "the app closes after saving");
     assert!(!app.dialogs.quit_after_save);
 }
+
+/// Ctrl+Z while typing in a field undoes the typing in the field (the field's own undo),
+/// not an earlier edit of the scenario; once the field lets go, Ctrl+Z is the app's.
+#[test]
+fn ctrl_z_in_a_field_undoes_the_typing() {
+    use egui::accesskit::Role;
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let id = harness.state().doc.scenario.segments[0].id.clone();
+    harness
+        .state_mut()
+        .send(shelfwind::app::Command::EditSegment(Some(id.clone())));
+    harness.run_steps(3);
+    let before = field_value(&harness, Role::TextInput, "Segment name");
+    harness
+        .get_by_role_and_label(Role::TextInput, "Segment name")
+        .focus();
+    harness.run_steps(2);
+    harness
+        .get_by_role_and_label(Role::TextInput, "Segment name")
+        .type_text(" North");
+    harness.run_steps(2);
+    assert_eq!(
+        field_value(&harness, Role::TextInput, "Segment name"),
+        format!("{before} North")
+    );
+    harness.key_press_modifiers(egui::Modifiers::COMMAND, egui::Key::Z);
+    harness.run_steps(2);
+    assert_eq!(
+        field_value(&harness, Role::TextInput, "Segment name"),
+        before
+    );
+    assert!(
+        !harness.state().doc.dirty,
+        "no edit of the scenario was undone or made"
+    );
+}

@@ -292,18 +292,21 @@ impl ShelfwindApp {
     pub(super) fn handle_keys(&mut self, ctx: &egui::Context) {
         let typing = ctx.egui_wants_keyboard_input();
         let (undo, redo, left, right, escape, enter, delete) = ctx.input_mut(|i| {
+            // While a field has the keyboard its own undo takes Ctrl+Z (the typing is
+            // not yet an edit of the scenario): the keys are left to it.
             // Ctrl+Shift+Z first: Ctrl+Z would match it too (egui matches modifiers
             // logically) and take it for undo.
-            let redo = i.consume_key(
-                egui::Modifiers::COMMAND | egui::Modifiers::SHIFT,
-                egui::Key::Z,
-            ) || i.consume_key(egui::Modifiers::COMMAND, egui::Key::Y);
-            let undo = !redo && i.consume_key(egui::Modifiers::COMMAND, egui::Key::Z);
+            let redo = !typing
+                && (i.consume_key(
+                    egui::Modifiers::COMMAND | egui::Modifiers::SHIFT,
+                    egui::Key::Z,
+                ) || i.consume_key(egui::Modifiers::COMMAND, egui::Key::Y));
+            let undo = !typing && !redo && i.consume_key(egui::Modifiers::COMMAND, egui::Key::Z);
             let keys =
                 |i: &mut egui::InputState, k| !typing && i.consume_key(egui::Modifiers::NONE, k);
             (
-                undo && !typing,
-                redo && !typing,
+                undo,
+                redo,
                 keys(i, egui::Key::ArrowLeft),
                 keys(i, egui::Key::ArrowRight),
                 keys(i, egui::Key::Escape),
