@@ -1081,3 +1081,25 @@ fn ctrl_z_in_a_field_undoes_the_typing() {
         "no edit of the scenario was undone or made"
     );
 }
+
+/// "Segment…" on a ranked stretch opens its segment in the editor and chooses that
+/// stretch, so the plots and the map follow the segment being edited.
+#[test]
+fn segment_button_chooses_the_stretch_it_edits() {
+    let dir = tempfile::tempdir().expect("temp dir");
+    let mut harness = app_harness(dir.path());
+    let plan = harness.state().plan.clone().expect("plan");
+    let second = plan.stretches[plan.days[harness.state().view.day].ranked[1].stretch].clone();
+    harness
+        .get_all_by_label("Segment…")
+        .nth(1)
+        .expect("the second stretch's button")
+        .click();
+    harness.run_steps(3);
+    assert_eq!(harness.state().view.selected, vec![second.id.clone()]);
+    assert_eq!(
+        harness.state().view.editing.as_deref(),
+        Some(second.segment_id.as_str())
+    );
+    harness.get_by_label(&format!("Plots: {}", second.name));
+}

@@ -697,6 +697,12 @@ fn ranked_entry_ui(
             .on_hover_text("Edit this stretch's segment: name, notes, closures")
             .clicked()
         {
+            // The stretch is chosen and shown too: the editor's points are on the map.
+            commands.push(Command::SelectStretch {
+                id: s.id.clone(),
+                add: false,
+            });
+            commands.push(Command::CentreOn(s.centre));
             commands.push(Command::EditSegment(Some(s.segment_id.clone())));
         }
     });
