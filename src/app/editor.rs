@@ -186,7 +186,7 @@ fn sea_side_ui(
             side_name(s)
         ),
         (None, SideFinding::Sea(s)) => format!(
-            "Sea on the {}, found from the land (blue arrows on the map)",
+            "Sea on the {}, walking from the first point; found from the land (blue arrows on the map point offshore)",
             side_name(s)
         ),
         (None, SideFinding::BothSea) => "The land cannot tell the sea side here (both sides look like sea): use Flip sea side to set it.".to_string(),
