@@ -622,14 +622,6 @@ pub fn load_coast(path: &Path, land: Option<&Land>) -> Result<LoadedCoast, CliEr
             found: "a file that is not UTF-8 text".into(),
         },
     })?;
-    if text.trim().is_empty() {
-        return Err(CliError::Coast {
-            path: path.into(),
-            source: CoastError::NotFeatureCollection {
-                found: "an empty file (nor is it a Shelfwind scenario)".into(),
-            },
-        });
-    }
     let dir = path.parent().map(Path::to_path_buf).unwrap_or_default();
     let (drawn, scenario) = if is_scenario_text(&text) {
         let scenario = parse_scenario(&text).map_err(|source| ScenarioError::File {

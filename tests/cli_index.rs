@@ -671,7 +671,7 @@ fn a_new_users_slips_are_told_plainly() {
     assert_one_line_error(
         &o,
         &[
-            "expected a GeoJSON FeatureCollection, found an empty file (nor is it a Shelfwind scenario)",
+            "expected a GeoJSON FeatureCollection, found an empty file",
             "empty.json",
         ],
     );

@@ -92,6 +92,11 @@ fn feature_list(root: &Value) -> Result<&Vec<Value>, CoastError> {
 
 /// Reads coast segments from GeoJSON text.
 pub fn read_coast_geojson(text: &str) -> Result<Vec<CoastSegment>, CoastError> {
+    if text.trim().is_empty() {
+        return Err(CoastError::NotFeatureCollection {
+            found: "an empty file".into(),
+        });
+    }
     let root: Value = serde_json::from_str(text).map_err(|e| json_error(&e))?;
     let features = feature_list(&root)?;
     let mut segments = Vec::with_capacity(features.len());
@@ -337,6 +342,25 @@ fn read_position(c: &Value) -> Result<LatLon, String> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// An empty file (or one of blanks) is called empty, for the coast and for the
+    /// scenario, not left to the JSON parser's "EOF while parsing a value".
+    #[test]
+    fn an_empty_file_is_called_empty() {
+        for text in ["", " \n\t"] {
+            assert_eq!(
+                read_coast_geojson(text).unwrap_err().to_string(),
+                "expected a GeoJSON FeatureCollection, found an empty file"
+            );
+            let e = crate::scenario::parse_scenario(text)
+                .unwrap_err()
+                .to_string();
+            assert!(
+                e.starts_with("the file is empty: expected a Shelfwind scenario"),
+                "{e}"
+            );
+        }
+    }
 
     fn fc(features: &str) -> String {
         format!(r#"{{"type":"FeatureCollection","features":[{features}]}}"#)

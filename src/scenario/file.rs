@@ -145,6 +145,11 @@ pub fn parse_scenario(text: &str) -> Result<Scenario, ScenarioError> {
     if text.len() as u64 > MAX_SCENARIO_BYTES {
         return Err(too_large(text.len() as u64));
     }
+    if text.trim().is_empty() {
+        return Err(ScenarioError::Invalid(format!(
+            "the file is empty: expected a Shelfwind scenario (JSON with \"format\": \"{FORMAT_NAME}\")"
+        )));
+    }
     let value: Value = serde_json::from_str(text).map_err(|e| json_error(&e))?;
     if value.get("format").and_then(Value::as_str) != Some(FORMAT_NAME) {
         return Err(ScenarioError::NotScenario);
