@@ -142,13 +142,27 @@ fn segment_winds(
         .iter()
         .zip(conditions.groups)
         .map(|(seg, g)| segment_wind(sources, seg, g))
-        .collect()
+        .collect::<Result<_, _>>()
+        .map_err(|e| name_windless(e, sources))
 }
 
-/// The GRIB2 files among `sources` that hold no 10 m wind, named in a clause for the
-/// message of a segment without wind ("; waves.grib2 holds no 10 m wind, only wave
-/// heights"); empty when every file has wind. Read again on this error path only (the
-/// section headers, no data decoded).
+/// A segment without wind, with the GRIB2 files among `sources` that hold no 10 m
+/// wind named in a clause of its message ("; waves.grib2 holds no 10 m wind, only wave
+/// heights"). Called once on the error that leaves, not for every segment without wind:
+/// the files' section headers are read again (no data decoded).
+fn name_windless(e: WindError, sources: &[WindSource]) -> WindError {
+    match e {
+        WindError::Uncovered { id, at, files, .. } => WindError::Uncovered {
+            id,
+            at,
+            files,
+            windless: windless_files(sources),
+        },
+        other => other,
+    }
+}
+
+/// The clause of [`name_windless`]; empty when every GRIB2 file has wind.
 fn windless_files(sources: &[WindSource]) -> String {
     sources
         .iter()
@@ -181,7 +195,7 @@ fn segment_wind(
             id: seg.id.clone(),
             at: seg.weighted_midpoint(),
             files: sources.len(),
-            windless: windless_files(sources),
+            windless: String::new(),
         });
     };
     let pieces: Vec<Vec<Wind>> = g
@@ -264,7 +278,9 @@ pub fn map_wind_merged<T: Send>(
         .enumerate()
         .map(|(i, seg)| segment_wind(sources, seg, record.group(i)).map(|w| f(i, w)))
         .collect();
-    out.into_iter().collect()
+    out.into_iter()
+        .collect::<Result<_, _>>()
+        .map_err(|e| name_windless(e, sources))
 }
 
 /// Length-weighted mean of the pieces' winds at each time.
